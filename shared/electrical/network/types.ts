@@ -41,6 +41,11 @@ export interface SolveResult {
   element_losses_W: Record<string, number>;
   /** Power delivered by each source (battery: ocv_V * I; voltage source: volts * I) in W. */
   source_power_W: Record<string, number>;
+  /**
+   * Power absorbed by each constant-power load (V * I) in W. Together with the other two maps:
+   * sum(source_power_W) = sum(element_losses_W) + sum(load_power_W).
+   */
+  load_power_W?: Record<string, number>;
   /** Newton iterations used (1 for a linear network). */
   iterations: number;
   /** Notes such as a constant-power load that hit v_min_V or a charger in current limit. */

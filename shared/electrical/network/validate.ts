@@ -1,0 +1,208 @@
+/**
+ * Checks a network before it is solved: ids, node references, values and topology (every node has a DC
+ * path to ground; ideal voltage sources form no loop). Shared by the file parser and both solver paths,
+ * so a network built in code (e.g. from a diagram) gets the same errors as one read from a file.
+ */
+import type { Network, NetworkElement, SolveError, SolveErrorCode } from './types';
+
+/** The node names and their indices; `ground` is always index 0. */
+export interface NetworkTopology {
+  nodes: string[];
+  index: Map<string, number>;
+}
+
+export function solveError(
+  code: SolveErrorCode,
+  message: string,
+  parts: { nodes?: string[]; elements?: string[] } = {},
+): SolveError {
+  const error: SolveError['error'] = { code, message };
+  if (parts.nodes && parts.nodes.length) error.nodes = parts.nodes;
+  if (parts.elements && parts.elements.length) error.elements = parts.elements;
+  return { ok: false, error };
+}
+
+/** The two terminals of an element, in the order of its sign convention (current positive from the first
+ * through the element to the second, except a battery / voltage source whose current leaves `pos`). */
+export function terminals(el: NetworkElement): [string, string] {
+  switch (el.kind) {
+    case 'resistor':
+    case 'load_resistor':
+      return [el.a, el.b];
+    case 'current_source':
+      return [el.from, el.to];
+    default:
+      return [el.pos, el.neg];
+  }
+}
+
+/** An ideal voltage source: no series resistance, so it is a constraint, not a conductance. */
+export function isIdealVoltageSource(el: NetworkElement): el is Extract<NetworkElement, { kind: 'voltage_source' }> {
+  return el.kind === 'voltage_source' && el.r_ohm === undefined;
+}
+
+/** Elements that give a DC path between their terminals (current and constant-power loads do not). */
+export function conducts(el: NetworkElement): boolean {
+  return el.kind === 'battery' || el.kind === 'resistor' || el.kind === 'load_resistor' || el.kind === 'voltage_source';
+}
+
+class UnionFind {
+  parent: Int32Array;
+  constructor(n: number) {
+    this.parent = new Int32Array(n);
+    for (let i = 0; i < n; i++) this.parent[i] = i;
+  }
+  find(x: number): number {
+    const p = this.parent;
+    while (p[x] !== x) {
+      p[x] = p[p[x]];
+      x = p[x];
+    }
+    return x;
+  }
+  union(a: number, b: number): boolean {
+    const ra = this.find(a);
+    const rb = this.find(b);
+    if (ra === rb) return false;
+    this.parent[ra] = rb;
+    return true;
+  }
+}
+
+const finite = (v: number) => typeof v === 'number' && Number.isFinite(v);
+
+function checkValues(el: NetworkElement): SolveError | null {
+  const bad = (field: string, rule: string) =>
+    solveError('invalid_value', `element '${el.id}': ${field} must be ${rule} (got ${String((el as Record<string, unknown>)[field])})`, {
+      elements: [el.id],
+    });
+  const positive = (field: string, v: number | undefined) => (v === undefined || (finite(v) && v > 0) ? null : bad(field, 'a finite number > 0'));
+  const anyFinite = (field: string, v: number) => (finite(v) ? null : bad(field, 'a finite number'));
+  switch (el.kind) {
+    case 'battery':
+      return anyFinite('ocv_V', el.ocv_V) ?? (el.r_ohm === undefined ? bad('r_ohm', 'a finite number > 0') : positive('r_ohm', el.r_ohm));
+    case 'resistor':
+    case 'load_resistor':
+      return el.r_ohm === undefined ? bad('r_ohm', 'a finite number > 0') : positive('r_ohm', el.r_ohm);
+    case 'current_source':
+      return anyFinite('amps', el.amps);
+    case 'constant_power':
+      return anyFinite('watts', el.watts) ?? positive('v_min_V', el.v_min_V);
+    case 'voltage_source':
+      return anyFinite('volts', el.volts) ?? positive('r_ohm', el.r_ohm) ?? positive('i_max_A', el.i_max_A);
+  }
+}
+
+/** Names of the nodes with no DC path to ground through elements accepted by `conductive`. */
+export function findFloatingNodes(
+  net: Network,
+  topo: NetworkTopology,
+  conductive: (el: NetworkElement) => boolean = conducts,
+): string[] {
+  const uf = new UnionFind(topo.nodes.length);
+  for (const el of net.elements) {
+    if (!conductive(el)) continue;
+    const [x, y] = terminals(el);
+    uf.union(topo.index.get(x)!, topo.index.get(y)!);
+  }
+  const g = uf.find(0);
+  const floating: string[] = [];
+  for (let i = 1; i < topo.nodes.length; i++) if (uf.find(i) !== g) floating.push(topo.nodes[i]);
+  return floating;
+}
+
+export function floatingError(floating: string[]): SolveError {
+  const shown = floating.length > 20 ? `${floating.slice(0, 20).join(', ')} and ${floating.length - 20} more` : floating.join(', ');
+  return solveError(
+    'floating_node',
+    `${floating.length === 1 ? 'node' : 'nodes'} ${shown} ${floating.length === 1 ? 'has' : 'have'} no DC path to ground`,
+    { nodes: floating },
+  );
+}
+
+/**
+ * Validates ids, values, node references and topology. Returns the node list (ground first, then the
+ * declared order, or the order of first use when `nodes` is absent).
+ */
+export function validateNetwork(net: Network): { ok: true; topology: NetworkTopology } | SolveError {
+  const seen = new Set<string>();
+  for (const el of net.elements) {
+    if (seen.has(el.id)) return solveError('duplicate_id', `element id '${el.id}' is used more than once`, { elements: [el.id] });
+    seen.add(el.id);
+  }
+  const nodes: string[] = [net.ground];
+  const index = new Map<string, number>([[net.ground, 0]]);
+  const add = (name: string) => {
+    if (!index.has(name)) {
+      index.set(name, nodes.length);
+      nodes.push(name);
+    }
+  };
+  if (net.nodes) {
+    const declared = new Set<string>();
+    for (const n of net.nodes) {
+      if (declared.has(n)) return solveError('duplicate_id', `node '${n}' is listed more than once`, { nodes: [n] });
+      declared.add(n);
+      add(n);
+    }
+    for (const el of net.elements) {
+      for (const t of terminals(el)) {
+        if (!index.has(t)) return solveError('unknown_node', `element '${el.id}' refers to node '${t}', which is not in nodes`, { nodes: [t], elements: [el.id] });
+      }
+    }
+  } else {
+    for (const el of net.elements) for (const t of terminals(el)) add(t);
+  }
+  for (const el of net.elements) {
+    const err = checkValues(el);
+    if (err) return err;
+  }
+  const topology = { nodes, index };
+
+  // Ideal voltage sources must form a forest: a loop of them has no resistance to share its current.
+  const uf = new UnionFind(nodes.length);
+  const forest: { el: string; a: number; b: number }[][] = nodes.map(() => []);
+  for (const el of net.elements) {
+    if (!isIdealVoltageSource(el)) continue;
+    const a = index.get(el.pos)!;
+    const b = index.get(el.neg)!;
+    if (!uf.union(a, b)) {
+      const loop = [el.id, ...forestPath(forest, a, b)];
+      return solveError(
+        'zero_resistance_loop',
+        `ideal voltage sources ${loop.map((id) => `'${id}'`).join(', ')} form a loop with no resistance (give chargers their r_ohm)`,
+        { elements: loop, nodes: [el.pos, el.neg] },
+      );
+    }
+    forest[a].push({ el: el.id, a, b });
+    forest[b].push({ el: el.id, a: b, b: a });
+  }
+
+  const floating = findFloatingNodes(net, topology);
+  if (floating.length) return floatingError(floating);
+  return { ok: true, topology };
+}
+
+/** Element ids on the path from a to b in a forest (breadth-first search). */
+function forestPath(forest: { el: string; a: number; b: number }[][], from: number, to: number): string[] {
+  if (from === to) return [];
+  const via = new Map<number, { prev: number; el: string }>([[from, { prev: -1, el: '' }]]);
+  const queue = [from];
+  while (queue.length) {
+    const x = queue.shift()!;
+    if (x === to) break;
+    for (const e of forest[x]) {
+      if (!via.has(e.b)) {
+        via.set(e.b, { prev: x, el: e.el });
+        queue.push(e.b);
+      }
+    }
+  }
+  const path: string[] = [];
+  for (let x = to; x !== from; ) {
+    const v = via.get(x)!;
+    path.push(v.el);
+    x = v.prev;
+  }
+  return path.reverse();
+}
