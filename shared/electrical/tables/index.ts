@@ -1,0 +1,4 @@
+export * from './conductors';
+export * from './ampacity';
+export * from './fuses';
+export * from './batteries';

@@ -1,0 +1,5 @@
+export * from './length';
+export * from './temperature';
+export * from './conductor';
+export * from './parse';
+export * from './format';
