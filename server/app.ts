@@ -1,0 +1,114 @@
+/**
+ * The Express app. `createApp({ db, mailer, config })` builds it without listening (tests use it with
+ * supertest); server/index.ts runs it. Optional `client` serves the React app: built files from
+ * dist/client with an SPA fallback, or Vite's dev middleware.
+ */
+import fs from 'node:fs';
+import path from 'node:path';
+import express, { type Express, type RequestHandler } from 'express';
+import helmet from 'helmet';
+import type { Config } from './config';
+import type { Db } from './db/client';
+import type { Mailer } from './mail/mailer';
+import { createSessions } from './auth/sessions';
+import { createSignInLimiter, type LimiterOptions } from './auth/rate-limit';
+import { apiNotFound, errorHandler } from './http/errors';
+import { noStore, originCheck, sessionLoader } from './http/middleware';
+import type { AppDeps } from './http/context';
+import { authRoutes } from './routes/auth';
+import { accountRoutes } from './routes/account';
+import { teamRoutes } from './routes/teams';
+import { inviteRoutes } from './routes/invites';
+import { projectRoutes } from './routes/projects';
+
+export const JSON_BODY_LIMIT = '1mb';
+
+export type ClientServing =
+  | { mode: 'static'; dir: string }
+  /** Vite dev server in middleware mode (server/dev.ts). */
+  | { mode: 'vite'; middlewares: RequestHandler; transformIndexHtml: (url: string, html: string) => Promise<string>; indexHtmlPath: string };
+
+export interface CreateAppOptions {
+  db: Db;
+  mailer: Mailer;
+  config: Config;
+  client?: ClientServing;
+  limiter?: Partial<LimiterOptions>;
+}
+
+function securityHeaders(config: Config, dev: boolean): RequestHandler {
+  const https = config.appOrigin.startsWith('https:');
+  return helmet({
+    contentSecurityPolicy: {
+      useDefaults: false,
+      directives: {
+        defaultSrc: ["'self'"],
+        // Dev only: Vite's React refresh preamble is an inline script, and HMR talks over a websocket.
+        scriptSrc: dev ? ["'self'", "'unsafe-inline'"] : ["'self'"],
+        // React Flow and Vite-injected CSS set inline styles.
+        styleSrc: ["'self'", "'unsafe-inline'"],
+        imgSrc: ["'self'", 'data:', 'blob:'],
+        fontSrc: ["'self'", 'data:'],
+        connectSrc: dev ? ["'self'", 'ws:', 'wss:'] : ["'self'"],
+        workerSrc: ["'self'", 'blob:'],
+        objectSrc: ["'none'"],
+        baseUri: ["'self'"],
+        formAction: ["'self'"],
+        frameAncestors: ["'none'"],
+        ...(https ? { upgradeInsecureRequests: [] } : {}),
+      },
+    },
+    strictTransportSecurity: https ? { maxAge: 15552000, includeSubDomains: false } : false,
+    crossOriginEmbedderPolicy: false,
+  });
+}
+
+export function createApp(options: CreateAppOptions): Express {
+  const { db, mailer, config, client } = options;
+  const sessions = createSessions(db);
+  const limiter = createSignInLimiter(options.limiter);
+  const deps: AppDeps = { db, mailer, config, sessions, limiter };
+
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', false);
+  app.use(securityHeaders(config, client?.mode === 'vite'));
+
+  const api = express.Router();
+  api.use(noStore);
+  api.use(originCheck(config, sessions));
+  api.use(express.json({ limit: JSON_BODY_LIMIT }));
+  api.use(sessionLoader(config, sessions));
+  api.get('/health', (_req, res) => {
+    res.json({ ok: true });
+  });
+  api.use('/auth', authRoutes(deps));
+  api.use('/account', accountRoutes(deps));
+  api.use('/teams', teamRoutes(deps));
+  api.use('/invites', inviteRoutes(deps));
+  api.use('/projects', projectRoutes(deps));
+  api.use(apiNotFound);
+  api.use(errorHandler);
+  app.use('/api', api);
+
+  if (client?.mode === 'static') {
+    const indexHtml = path.join(client.dir, 'index.html');
+    app.use(express.static(client.dir, { index: false, maxAge: '1h' }));
+    app.get('/{*splat}', (_req, res) => {
+      res.set('Cache-Control', 'no-cache');
+      res.sendFile(indexHtml);
+    });
+  } else if (client?.mode === 'vite') {
+    app.use(client.middlewares);
+    app.get('/{*splat}', async (req, res, next) => {
+      try {
+        const html = await client.transformIndexHtml(req.originalUrl, fs.readFileSync(client.indexHtmlPath, 'utf8'));
+        res.type('html').send(html);
+      } catch (err) {
+        next(err);
+      }
+    });
+  }
+  app.use(errorHandler);
+  return app;
+}

@@ -1,0 +1,171 @@
+/**
+ * Sessions. ALL use of lucia lives in this module so it can be replaced without touching routes.
+ *
+ * - Session id: 25 random bytes (lucia), kept in the HttpOnly cookie `bw_session`.
+ * - Idle expiry (sliding): IDLE_DAYS after the last use; lucia extends it when half of it has passed.
+ * - Absolute expiry: ABSOLUTE_DAYS after the session was created, however active it is.
+ * - A new session on every sign-in; sign-out deletes the row, so a copied cookie stops working too.
+ * - Sessions are listed to their user under a public id (a hash of the session id), never the id itself.
+ */
+import { DrizzlePostgreSQLAdapter } from '@lucia-auth/adapter-drizzle';
+import { Lucia, TimeSpan } from 'lucia';
+import { and, eq, ne } from 'drizzle-orm';
+import type { Db } from '../db/client';
+import { sessions, users } from '../db/schema';
+import { sha256Hex } from '../ids';
+
+export const SESSION_COOKIE = 'bw_session';
+export const IDLE_DAYS = 7;
+export const ABSOLUTE_DAYS = 30;
+const DAY_MS = 24 * 60 * 60 * 1000;
+
+export interface SessionUser {
+  id: string;
+  email: string;
+  name: string;
+  createdAt: Date;
+}
+
+export interface ActiveSession {
+  id: string;
+  userId: string;
+  createdAt: Date;
+  /** When the session ends if unused: min(idle expiry, absolute expiry). */
+  expiresAt: Date;
+  userAgent: string;
+  /** True when validation extended the idle expiry: the cookie should be sent again. */
+  refreshed: boolean;
+}
+
+export interface CookieSpec {
+  name: string;
+  value: string;
+  options: { httpOnly: true; sameSite: 'lax'; secure: boolean; path: '/'; expires: Date };
+}
+
+export interface PublicSession {
+  id: string;
+  createdAt: Date;
+  expiresAt: Date;
+  userAgent: string;
+  current: boolean;
+}
+
+export type Sessions = ReturnType<typeof createSessions>;
+
+function effectiveExpiry(createdAt: Date, idleExpiresAt: Date): Date {
+  const absolute = createdAt.getTime() + ABSOLUTE_DAYS * DAY_MS;
+  return new Date(Math.min(absolute, idleExpiresAt.getTime()));
+}
+
+/** The id shown to the user for one of their sessions (the real id is a bearer secret). */
+export function publicSessionId(sessionId: string): string {
+  return sha256Hex(`session:${sessionId}`).slice(0, 20);
+}
+
+export function createSessions(db: Db) {
+  const adapter = new DrizzlePostgreSQLAdapter(db as never, sessions, users);
+  const lucia = new Lucia(adapter, {
+    sessionExpiresIn: new TimeSpan(IDLE_DAYS, 'd'),
+    sessionCookie: { name: SESSION_COOKIE },
+    getSessionAttributes: (a: { createdAt: Date; userAgent: string }) => ({ createdAt: a.createdAt, userAgent: a.userAgent }),
+    getUserAttributes: (a: { email: string; name: string; createdAt: Date }) => ({
+      email: a.email,
+      name: a.name,
+      createdAt: a.createdAt,
+    }),
+  });
+
+  function toActive(s: { id: string; userId: string; expiresAt: Date; fresh: boolean } & Record<string, unknown>): ActiveSession {
+    const createdAt = s.createdAt as Date;
+    return {
+      id: s.id,
+      userId: s.userId,
+      createdAt,
+      expiresAt: effectiveExpiry(createdAt, s.expiresAt),
+      userAgent: (s.userAgent as string) ?? '',
+      refreshed: s.fresh,
+    };
+  }
+
+  return {
+    async createSession(userId: string, userAgent = ''): Promise<ActiveSession> {
+      const s = await lucia.createSession(userId, { createdAt: new Date(), userAgent: userAgent.slice(0, 300) } as never);
+      return { ...toActive(s as never), refreshed: true };
+    },
+
+    /** The session and its user, or null when unknown or expired (idle or absolute). */
+    async validateSession(sessionId: string): Promise<{ session: ActiveSession; user: SessionUser } | null> {
+      const { session, user } = await lucia.validateSession(sessionId);
+      if (!session || !user) return null;
+      const active = toActive(session as never);
+      if (active.createdAt.getTime() + ABSOLUTE_DAYS * DAY_MS <= Date.now()) {
+        await lucia.invalidateSession(session.id);
+        return null;
+      }
+      const u = user as unknown as SessionUser;
+      return { session: active, user: { id: u.id, email: u.email, name: u.name, createdAt: u.createdAt } };
+    },
+
+    invalidateSession(sessionId: string): Promise<void> {
+      return lucia.invalidateSession(sessionId);
+    },
+
+    invalidateUserSessions(userId: string): Promise<void> {
+      return lucia.invalidateUserSessions(userId);
+    },
+
+    /** Ends every session of the user except `keepSessionId`. */
+    async invalidateOtherSessions(userId: string, keepSessionId: string): Promise<void> {
+      await db.delete(sessions).where(and(eq(sessions.userId, userId), ne(sessions.id, keepSessionId)));
+    },
+
+    async listUserSessions(userId: string, currentSessionId?: string): Promise<PublicSession[]> {
+      const list = await lucia.getUserSessions(userId);
+      return list
+        .map((s) => toActive(s as never))
+        .filter((s) => s.expiresAt.getTime() > Date.now())
+        .sort((a, b) => b.createdAt.getTime() - a.createdAt.getTime())
+        .map((s) => ({
+          id: publicSessionId(s.id),
+          createdAt: s.createdAt,
+          expiresAt: s.expiresAt,
+          userAgent: s.userAgent,
+          current: s.id === currentSessionId,
+        }));
+    },
+
+    /** Ends the user's session with the given public id. Returns whether it was found (and whether it was `currentSessionId`). */
+    async invalidateByPublicId(userId: string, publicId: string, currentSessionId?: string): Promise<{ found: boolean; wasCurrent: boolean }> {
+      const list = await lucia.getUserSessions(userId);
+      const match = list.find((s) => publicSessionId(s.id) === publicId);
+      if (!match) return { found: false, wasCurrent: false };
+      await lucia.invalidateSession(match.id);
+      return { found: true, wasCurrent: match.id === currentSessionId };
+    },
+
+    readSessionId(cookieHeader: string | undefined): string | null {
+      return cookieHeader ? lucia.readSessionCookie(cookieHeader) : null;
+    },
+
+    sessionCookie(session: ActiveSession, secure: boolean): CookieSpec {
+      return {
+        name: SESSION_COOKIE,
+        value: session.id,
+        options: { httpOnly: true, sameSite: 'lax', secure, path: '/', expires: session.expiresAt },
+      };
+    },
+
+    blankCookie(secure: boolean): CookieSpec {
+      return {
+        name: SESSION_COOKIE,
+        value: '',
+        options: { httpOnly: true, sameSite: 'lax', secure, path: '/', expires: new Date(0) },
+      };
+    },
+
+    deleteExpiredSessions(): Promise<void> {
+      return lucia.deleteExpiredSessions();
+    },
+  };
+}

@@ -1,0 +1,75 @@
+/** The API's one error shape: {"error":{"code","message","details"}}. */
+import type { ErrorRequestHandler, RequestHandler } from 'express';
+import type { z } from 'zod';
+import type { ApiErrorBody, FieldErrors } from '../../shared/schemas/errors';
+
+export class ApiError extends Error {
+  constructor(
+    readonly status: number,
+    readonly code: string,
+    message: string,
+    readonly details?: unknown,
+    readonly headers?: Record<string, string>,
+  ) {
+    super(message);
+  }
+}
+
+export const notFound = (what = 'Not found.') => new ApiError(404, 'not_found', what);
+export const forbidden = (message = 'Your role in this team does not allow this.') => new ApiError(403, 'forbidden', message);
+export const unauthenticated = () => new ApiError(401, 'unauthenticated', 'Sign in to continue.');
+export const conflict = (code: string, message: string, details?: unknown) => new ApiError(409, code, message, details);
+
+/** zod issues -> { "path.to.field": ["message", ...] } ("" for the body as a whole). */
+export function fieldErrors(error: z.ZodError): FieldErrors {
+  const fields: FieldErrors = {};
+  for (const issue of error.issues) {
+    const key = issue.path.map(String).join('.');
+    (fields[key] ??= []).push(issue.message);
+  }
+  return fields;
+}
+
+export function validationFailed(error: z.ZodError): ApiError {
+  return new ApiError(400, 'validation_failed', 'Some fields need attention.', { fields: fieldErrors(error) });
+}
+
+function send(res: Parameters<RequestHandler>[1], status: number, body: ApiErrorBody) {
+  res.status(status).json(body);
+}
+
+export const apiNotFound: RequestHandler = (_req, res) => {
+  send(res, 404, { error: { code: 'not_found', message: 'No such API route.' } });
+};
+
+/** Last handler: maps everything thrown to the error shape. Never sends a stack trace. */
+export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
+  if (res.headersSent) {
+    res.end();
+    return;
+  }
+  if (err instanceof ApiError) {
+    if (err.headers) res.set(err.headers);
+    send(res, err.status, { error: { code: err.code, message: err.message, details: err.details } });
+    return;
+  }
+  // body-parser errors
+  const type = (err as { type?: string })?.type;
+  if (type === 'entity.parse.failed') {
+    send(res, 400, { error: { code: 'malformed_json', message: 'The request body is not valid JSON.' } });
+    return;
+  }
+  if (type === 'entity.too.large') {
+    send(res, 413, { error: { code: 'payload_too_large', message: 'The request body is too large.', details: { limitBytes: (err as { limit?: number }).limit } } });
+    return;
+  }
+  const status = (err as { status?: number; statusCode?: number })?.status ?? (err as { statusCode?: number })?.statusCode;
+  if (typeof status === 'number' && status >= 400 && status < 500) {
+    // Other client errors raised by middleware (unsupported charset or encoding, aborted request, …).
+    const code = status === 415 ? 'unsupported_media_type' : 'bad_request';
+    send(res, status, { error: { code, message: 'The request could not be read.' } });
+    return;
+  }
+  console.error(`[api] ${req.method} ${req.originalUrl} failed:`, err);
+  send(res, 500, { error: { code: 'internal', message: 'Something went wrong on the server. Try again.' } });
+};

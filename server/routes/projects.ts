@@ -1,0 +1,56 @@
+import { Router } from 'express';
+import { z } from 'zod';
+import { createProjectSchema, updateProjectSchema } from '../../shared/schemas/projects';
+import { requireAuth, type AppDeps } from '../http/context';
+import { parse } from '../http/validate';
+import { requireProjectRole, requireTeamRole } from '../services/access';
+import { createProject, deleteProject, getProject, listDiagrams, listProjects, updateProject } from '../services/projects';
+
+const listQuery = z.object({ teamId: z.string({ error: 'teamId is required' }).min(1, 'teamId is required') });
+
+export function projectRoutes(deps: AppDeps): Router {
+  const { db } = deps;
+  const r = Router();
+
+  r.get('/', async (req, res) => {
+    const { user } = requireAuth(res);
+    const { teamId } = parse(listQuery, req.query);
+    await requireTeamRole(db, user.id, teamId, 'project.read');
+    res.json({ projects: await listProjects(db, teamId) });
+  });
+
+  r.post('/', async (req, res) => {
+    const { user } = requireAuth(res);
+    const input = parse(createProjectSchema, req.body);
+    await requireTeamRole(db, user.id, input.teamId, 'project.create');
+    res.status(201).json({ project: await createProject(db, user.id, input) });
+  });
+
+  r.get('/:id', async (req, res) => {
+    const { user } = requireAuth(res);
+    await requireProjectRole(db, user.id, req.params.id, 'project.read');
+    res.json({ project: await getProject(db, req.params.id) });
+  });
+
+  r.patch('/:id', async (req, res) => {
+    const { user } = requireAuth(res);
+    await requireProjectRole(db, user.id, req.params.id, 'project.edit');
+    const input = parse(updateProjectSchema, req.body);
+    res.json({ project: await updateProject(db, user.id, req.params.id, input) });
+  });
+
+  r.delete('/:id', async (req, res) => {
+    const { user } = requireAuth(res);
+    await requireProjectRole(db, user.id, req.params.id, 'project.edit');
+    await deleteProject(db, req.params.id);
+    res.status(204).end();
+  });
+
+  r.get('/:id/diagrams', async (req, res) => {
+    const { user } = requireAuth(res);
+    await requireProjectRole(db, user.id, req.params.id, 'project.read');
+    res.json({ diagrams: await listDiagrams(db, req.params.id) });
+  });
+
+  return r;
+}

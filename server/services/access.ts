@@ -1,0 +1,43 @@
+/**
+ * Role checks for every team-scoped route (shared/roles.ts is the permission table).
+ * Not a member (or no such resource) -> 404 not_found; a member without the permission -> 403 forbidden.
+ */
+import { and, eq } from 'drizzle-orm';
+import { can, type Permission, type Role } from '../../shared/roles';
+import type { DbOrTx } from '../db/client';
+import { memberships, projects } from '../db/schema';
+import { forbidden, notFound } from '../http/errors';
+
+export async function membershipRole(db: DbOrTx, userId: string, teamId: string): Promise<Role | null> {
+  const [row] = await db
+    .select({ role: memberships.role })
+    .from(memberships)
+    .where(and(eq(memberships.teamId, teamId), eq(memberships.userId, userId)));
+  return row?.role ?? null;
+}
+
+/** The user's role in the team, checked against `permission` when one is given. */
+export async function requireTeamRole(db: DbOrTx, userId: string, teamId: string, permission?: Permission): Promise<Role> {
+  const role = await membershipRole(db, userId, teamId);
+  if (!role) throw notFound('No such team.');
+  if (permission && !can(role, permission)) throw forbidden();
+  return role;
+}
+
+export type ProjectRow = typeof projects.$inferSelect;
+
+export async function requireProjectRole(
+  db: DbOrTx,
+  userId: string,
+  projectId: string,
+  permission: Permission,
+): Promise<{ project: ProjectRow; role: Role }> {
+  const [row] = await db
+    .select({ project: projects, role: memberships.role })
+    .from(projects)
+    .innerJoin(memberships, and(eq(memberships.teamId, projects.teamId), eq(memberships.userId, userId)))
+    .where(eq(projects.id, projectId));
+  if (!row) throw notFound('No such project.');
+  if (!can(row.role, permission)) throw forbidden();
+  return row;
+}
