@@ -1,0 +1,36 @@
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { Me } from '../auth/api';
+import { authKeys } from '../auth/hooks';
+import { changePassword, fetchSessions, revokeSession, updateAccount } from './api';
+
+export const accountKeys = {
+  sessions: ['account', 'sessions'] as const,
+};
+
+export function useUpdateAccount() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: updateAccount,
+    onSuccess: (user) => queryClient.setQueryData<Me | null>(authKeys.me, (me) => (me ? { ...me, user } : me)),
+  });
+}
+
+export function useChangePassword() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: changePassword,
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: accountKeys.sessions }),
+  });
+}
+
+export function useSessions() {
+  return useQuery({ queryKey: accountKeys.sessions, queryFn: ({ signal }) => fetchSessions(signal) });
+}
+
+export function useRevokeSession() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: revokeSession,
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: accountKeys.sessions }),
+  });
+}
