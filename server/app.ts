@@ -93,7 +93,9 @@ export function createApp(options: CreateAppOptions): Express {
 
   if (client?.mode === 'static') {
     const indexHtml = path.join(client.dir, 'index.html');
-    app.use(express.static(client.dir, { index: false, maxAge: '1h' }));
+    // Vite's hashed build output never changes under one name; everything else is revalidated.
+    app.use('/assets', express.static(path.join(client.dir, 'assets'), { immutable: true, maxAge: '365d', fallthrough: false }));
+    app.use(express.static(client.dir, { index: false }));
     app.get('/{*splat}', (_req, res) => {
       res.set('Cache-Control', 'no-cache');
       res.sendFile(indexHtml);
