@@ -7,6 +7,9 @@ import {
   inverterDefaults, busbarDefaults, type InverterProps, batteryCells,
 } from '../electrical/parts';
 import { CHEMISTRIES } from '../electrical/tables/batteries';
+import { nextStandardRating } from '../electrical/tables/fuses';
+import { ampacity } from '../electrical/tables/ampacity';
+import { AWG_SIZES, KCMIL_SIZES } from '../units/conductor';
 import type { ConductorSize } from '../units/conductor';
 import {
   DIAGRAM_FORMAT_VERSION, type DiagramCable, type DiagramDocument, type DiagramDocumentInput, type DiagramPart,
@@ -46,13 +49,16 @@ const run = (conductor: ConductorSize, length_m: number, role: 'cable' | 'jumper
 
 export interface CommonTemplateOptions {
   battery?: BatteryProps;
-  /** Conductor of the main (take-off) cables and battery cables; default 2/0 AWG. */
+  /**
+   * Conductor of every cable; by default each cable is the smallest size whose NEC 310.16 75 °C
+   * ampacity covers the fuse protecting it.
+   */
   conductor?: ConductorSize;
   /** Length of each main cable between the bank and the load, m (default 2). */
   mainCable_m?: number;
   /** The load: an inverter (default 2 kW, 90 %). */
   inverter?: InverterProps;
-  /** Main fuse on the positive take-off (default Class T 250 A); null for none. */
+  /** Main fuse on the positive take-off (default Class T at the next standard rating over 1.25 × the inverter's current); null for none. */
   mainFuse?: FuseProps | null;
   name?: string;
 }
@@ -78,11 +84,40 @@ function inverterFor(b: BatteryProps, seriesCount: number): InverterProps {
   return { ...inverterDefaults(), cutoff_V: Math.round(cutoff * 10) / 10 };
 }
 
-function addLoad(bld: Builder, x: number, opts: CommonTemplateOptions, posFeed: [string, string], negFeed: [string, string]) {
-  const conductor = opts.conductor ?? { system: 'awg', size: '2/0' };
+/** Design margin used to size template fuses over the expected current (common practice 1.25). */
+const DESIGN_MARGIN = 1.25;
+
+/** Inverter DC input current at the bank's nominal voltage, A (first principles: P / (V × efficiency)). */
+function inverterCurrent_A(inv: InverterProps, bankNominal_V: number) {
+  return inv.power_W / (bankNominal_V * inv.efficiency);
+}
+
+/** A Class T fuse at the next standard rating over margin × current (NEC 240.6(A)). */
+function fuseFor(current_A: number): FuseProps {
+  return fuseDefaults('class_t', nextStandardRating(current_A * DESIGN_MARGIN) ?? 6000);
+}
+
+/**
+ * The smallest copper size whose NEC 310.16 75 °C ampacity (30 °C, free air) is at least `amps`, so
+ * the fuse protects the cable (NEC 240.4); 2/0 AWG when nothing in the table is large enough.
+ */
+export function conductorFor(amps: number): ConductorSize {
+  const sizes: ConductorSize[] = [
+    ...AWG_SIZES.map((size) => ({ system: 'awg', size }) as ConductorSize),
+    ...KCMIL_SIZES.map((size) => ({ system: 'kcmil', size }) as ConductorSize),
+  ];
+  for (const size of sizes) {
+    const a = ampacity({ size, table: 'nec-310.16-75C' });
+    if (a.ok && a.amps >= amps) return size;
+  }
+  return { system: 'awg', size: '2/0' };
+}
+
+function addLoad(bld: Builder, x: number, opts: CommonTemplateOptions & { inverter: InverterProps }, bankNominal_V: number, posFeed: [string, string], negFeed: [string, string]) {
   const main = opts.mainCable_m ?? 2;
-  const fuse = opts.mainFuse === undefined ? fuseDefaults('class_t', 250) : opts.mainFuse;
-  bld.part({ id: 'inverter', type: 'inverter', label: 'Inverter', position: { x: x + PITCH, y: 0 }, props: opts.inverter ?? inverterDefaults() });
+  const fuse = opts.mainFuse === undefined ? fuseFor(inverterCurrent_A(opts.inverter, bankNominal_V)) : opts.mainFuse;
+  const conductor = opts.conductor ?? conductorFor(fuse ? fuse.rating_A : inverterCurrent_A(opts.inverter, bankNominal_V) * DESIGN_MARGIN);
+  bld.part({ id: 'inverter', type: 'inverter', label: 'Inverter', position: { x: x + PITCH, y: 0 }, props: opts.inverter });
   if (fuse) {
     bld.part({ id: 'main-fuse', type: 'fuse', label: 'Main fuse', position: { x, y: -120 }, props: fuse });
     bld.cable('c-main-fuse', posFeed, ['main-fuse', 'a'], run(conductor, 0.15), 'Battery to main fuse');
@@ -98,7 +133,9 @@ export function postToPostTemplate(opts: PostToPostOptions): DiagramDocument {
   const n = opts.count;
   if (!Number.isInteger(n) || n < 1 || n > 64) throw new RangeError('count must be a whole number from 1 to 64');
   const battery = opts.battery ?? batteryDefaults();
-  const jumperConductor = opts.jumper?.conductor ?? opts.conductor ?? { system: 'awg', size: '2/0' };
+  const inverter = opts.inverter ?? inverterFor(battery, 1);
+  // Jumpers carry up to the whole load current next to the take-off; size them like the main cable.
+  const jumperConductor = opts.jumper?.conductor ?? opts.conductor ?? conductorFor(inverterCurrent_A(inverter, battery.nominal_V) * DESIGN_MARGIN);
   const jumperLength = opts.jumper?.length_m ?? 0.3;
   const bld = new Builder();
   for (let i = 1; i <= n; i++) {
@@ -116,7 +153,7 @@ export function postToPostTemplate(opts: PostToPostOptions): DiagramDocument {
     ({ pos, neg } = opts.takeOffIndices);
     for (const k of [pos, neg]) if (!Number.isInteger(k) || k < 1 || k > n) throw new RangeError(`take-off index ${k} is outside 1..${n}`);
   }
-  addLoad(bld, n * PITCH, { ...opts, inverter: opts.inverter ?? inverterFor(battery, 1) }, [`bat${pos}`, 'pos'], [`bat${neg}`, 'neg']);
+  addLoad(bld, n * PITCH, { ...opts, inverter }, battery.nominal_V, [`bat${pos}`, 'pos'], [`bat${neg}`, 'neg']);
   return bld.build(opts.name ?? `${n} batteries post to post (${opts.takeOff})`, systemVoltageFor(nominalOf(battery)));
 }
 
@@ -124,7 +161,7 @@ export interface BusbarBankOptions extends CommonTemplateOptions {
   count: number;
   /** Length of every battery-to-busbar cable, m (equal on purpose; default 1). */
   batteryCable_m?: number;
-  /** A fuse at each battery's positive (default Class T 200 A); null for none. */
+  /** A fuse at each battery's positive (default Class T over 1.25 × its equal share); null for none. */
   batteryFuse?: FuseProps | null;
 }
 
@@ -133,9 +170,11 @@ export function busbarBankTemplate(opts: BusbarBankOptions): DiagramDocument {
   const n = opts.count;
   if (!Number.isInteger(n) || n < 1 || n > 63) throw new RangeError('count must be a whole number from 1 to 63');
   const battery = opts.battery ?? batteryDefaults();
-  const conductor = opts.conductor ?? { system: 'awg', size: '2/0' };
+  const inverter = opts.inverter ?? inverterFor(battery, 1);
+  const share_A = inverterCurrent_A(inverter, battery.nominal_V) / n;
   const len = opts.batteryCable_m ?? 1;
-  const batteryFuse = opts.batteryFuse === undefined ? fuseDefaults('class_t', 200) : opts.batteryFuse;
+  const batteryFuse = opts.batteryFuse === undefined ? fuseFor(share_A) : opts.batteryFuse;
+  const conductor = opts.conductor ?? conductorFor(batteryFuse ? batteryFuse.rating_A : share_A * DESIGN_MARGIN);
   const bld = new Builder();
   const bus = { ...busbarDefaults(), tapCount: n + 1 };
   bld.part({ id: 'bus-pos', type: 'busbar', label: 'Positive busbar', position: { x: 0, y: -300 }, props: bus });
@@ -143,7 +182,7 @@ export function busbarBankTemplate(opts: BusbarBankOptions): DiagramDocument {
   addStrings(bld, n, len, conductor, batteryFuse, (i) => ({
     id: `bat${i}`, type: 'battery', label: `Battery ${i}`, position: { x: (i - 1) * PITCH, y: 0 }, props: battery,
   }));
-  addLoad(bld, n * PITCH, { ...opts, inverter: opts.inverter ?? inverterFor(battery, 1) }, ['bus-pos', `t${n + 1}`], ['bus-neg', `t${n + 1}`]);
+  addLoad(bld, n * PITCH, { ...opts, conductor: opts.conductor, inverter }, battery.nominal_V, ['bus-pos', `t${n + 1}`], ['bus-neg', `t${n + 1}`]);
   return bld.build(opts.name ?? `${n} batteries on busbars`, systemVoltageFor(nominalOf(battery)));
 }
 
@@ -171,7 +210,7 @@ export interface SeriesParallelOptions extends CommonTemplateOptions {
   parallelCount: number;
   /** Length of each string-to-busbar cable, m (default 1). */
   stringCable_m?: number;
-  /** A fuse at each string's positive (default Class T 125 A); null for none. */
+  /** A fuse at each string's positive (default Class T over 1.25 × its equal share); null for none. */
   stringFuse?: FuseProps | null;
   /** Jumper between batteries inside a string (default 0.3 m of the main conductor). */
   interconnect?: { conductor?: ConductorSize; length_m?: number };
@@ -183,8 +222,10 @@ export function seriesParallelTemplate(opts: SeriesParallelOptions): DiagramDocu
   if (!Number.isInteger(s) || s < 1 || s > 64) throw new RangeError('seriesCount must be a whole number from 1 to 64');
   if (!Number.isInteger(p) || p < 1 || p > 63) throw new RangeError('parallelCount must be a whole number from 1 to 63');
   const battery = opts.battery ?? batteryDefaults();
-  const conductor = opts.conductor ?? { system: 'awg', size: '2/0' };
-  const fuse = opts.stringFuse === undefined ? fuseDefaults('class_t', 125) : opts.stringFuse;
+  const inverter = opts.inverter ?? inverterFor(battery, s);
+  const share_A = inverterCurrent_A(inverter, battery.nominal_V * s) / p;
+  const fuse = opts.stringFuse === undefined ? fuseFor(share_A) : opts.stringFuse;
+  const conductor = opts.conductor ?? conductorFor(fuse ? fuse.rating_A : share_A * DESIGN_MARGIN);
   const bld = new Builder();
   const bus = { ...busbarDefaults(), tapCount: p + 1 };
   bld.part({ id: 'bus-pos', type: 'busbar', label: 'Positive busbar', position: { x: 0, y: -300 }, props: bus });
@@ -196,7 +237,7 @@ export function seriesParallelTemplate(opts: SeriesParallelOptions): DiagramDocu
       interconnect: { conductor: opts.interconnect?.conductor ?? conductor, length_m: opts.interconnect?.length_m ?? 0.3, material: 'copper' },
     },
   }));
-  addLoad(bld, p * PITCH, { ...opts, inverter: opts.inverter ?? inverterFor(battery, s) }, ['bus-pos', `t${p + 1}`], ['bus-neg', `t${p + 1}`]);
+  addLoad(bld, p * PITCH, { ...opts, inverter }, battery.nominal_V * s, ['bus-pos', `t${p + 1}`], ['bus-neg', `t${p + 1}`]);
   return bld.build(opts.name ?? `${s}S${p}P strings on busbars`, systemVoltageFor(battery.nominal_V * s));
 }
 

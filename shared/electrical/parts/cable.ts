@@ -13,8 +13,11 @@ export const INSULATION_RATINGS_C = [60, 75, 90, 105] as const;
 
 export const cableRunPropsSchema = z.object({
   conductor: conductorSizeSchema,
-  /** Length of this one conductor, terminal to terminal, m. */
-  length_m: z.number().positive().max(1000),
+  /**
+   * Length of this one conductor, terminal to terminal, m. 0 means the two terminals are bolted
+   * directly together (e.g. a terminal fuse on a battery post): no conductor resistance.
+   */
+  length_m: z.number().min(0).max(1000),
   material: materialSchema.default('copper'),
   /** Stranding allowance; battery cable is usually fine-strand flexible. */
   stranding: z.enum(['solid', 'concentric', 'flexible']).default('flexible'),

@@ -1,0 +1,394 @@
+/**
+ * Diagram → network compiler. Turns a diagram document into the resistive network the solver takes
+ * (shared/electrical/network/types.ts), with a map from every part and cable to its elements and nodes,
+ * after structural checks that name the parts involved.
+ *
+ * Nodes: every part terminal is a node "<partId>.<terminal>"; internal nodes of a part are
+ * "<partId>._<name>". Cables are resistors between terminal nodes. Elements with zero resistance
+ * (a 0 Ω lug or switch) merge their two nodes; the merged node keeps the first name.
+ * Element ids: a part with one element uses the part id; a part with several uses "<partId>/<local>"
+ * (busbar "<id>/seg1"…, string "<id>/b1"…, "<id>/j1"…). A cable's conductor uses the cable id, its lug
+ * joints "<cableId>/lugFrom" and "<cableId>/lugTo".
+ */
+import type { DiagramDocument, DiagramPart } from '../../diagram/schema';
+import type { Network, NetworkElement } from '../network/types';
+import { type CableRunProps, cableRunConductorResistance_ohm, cableTemperature_C } from '../parts/cable';
+import { PART_TYPES, type PartDefinition } from '../parts/registry';
+import { stringMembers } from '../parts/battery';
+import { tableResistance_ohm_per_m } from '../tables/conductors';
+import { UnionFind } from './union-find';
+
+export type CompileErrorCode =
+  | 'empty_diagram'
+  | 'no_source'
+  | 'floating_part'
+  | 'unconnected_terminal'
+  | 'shorted_source'
+  | 'reversed_polarity'
+  | 'unequal_parallel_voltage'
+  | 'zero_resistance_loop'
+  | 'disconnected_circuit'
+  | 'invalid_value';
+
+export interface CompileIssue {
+  code: string;
+  message: string;
+  /** Ids of the parts (and cables) involved. */
+  parts: string[];
+}
+
+export interface CompileError extends CompileIssue {
+  code: CompileErrorCode;
+}
+
+export interface CompileMap {
+  parts: Record<string, { elements: string[]; nodes: Record<string, string> }>;
+  cables: Record<string, { elements: string[]; from_node: string; to_node: string; conductor_ohm: number; r_ohm: number; temp_C: number }>;
+  /** Which part or cable each element came from. */
+  elementOwner: Record<string, { kind: 'part' | 'cable'; id: string }>;
+}
+
+export type CompileResult =
+  | { ok: true; network: Network; map: CompileMap; systemVoltage: number; notes: CompileIssue[] }
+  | { ok: false; errors: CompileError[] };
+
+const MAX_ERRORS = 50;
+
+const terminalNode = (partId: string, terminal: string) => `${partId}.${terminal}`;
+
+function localToGlobal(partId: string, local: string): string {
+  return `${partId}.${local}`; // terminals "pos", internal "_p1" alike
+}
+
+function elementNodes(e: NetworkElement): string[] {
+  switch (e.kind) {
+    case 'battery': case 'constant_power': case 'voltage_source':
+      return [e.pos, e.neg];
+    case 'resistor': case 'load_resistor':
+      return [e.a, e.b];
+    case 'current_source':
+      return [e.from, e.to];
+  }
+}
+
+function renameNodes(e: NetworkElement, f: (n: string) => string): NetworkElement {
+  switch (e.kind) {
+    case 'battery': case 'constant_power': case 'voltage_source':
+      return { ...e, pos: f(e.pos), neg: f(e.neg) };
+    case 'resistor': case 'load_resistor':
+      return { ...e, a: f(e.a), b: f(e.b) };
+    case 'current_source':
+      return { ...e, from: f(e.from), to: f(e.to) };
+  }
+}
+
+function numbersOf(e: NetworkElement): number[] {
+  switch (e.kind) {
+    case 'battery': return [e.ocv_V, e.r_ohm];
+    case 'resistor': case 'load_resistor': return [e.r_ohm];
+    case 'current_source': return [e.amps];
+    case 'constant_power': return [e.watts, ...(e.v_min_V !== undefined ? [e.v_min_V] : [])];
+    case 'voltage_source': return [e.volts, ...(e.i_max_A !== undefined ? [e.i_max_A] : []), ...(e.r_ohm !== undefined ? [e.r_ohm] : [])];
+  }
+}
+
+const definitionOf = (p: DiagramPart) => PART_TYPES[p.type] as unknown as PartDefinition;
+
+/** Compile a validated diagram document into a solver network. */
+export function compileDiagram(doc: DiagramDocument): CompileResult {
+  const errors: CompileError[] = [];
+  const notes: CompileIssue[] = [];
+  const ctx = { ambient_C: doc.settings.ambient_C, systemVoltage_V: doc.settings.systemVoltage_V };
+  const electrical = doc.parts.filter((p) => definitionOf(p).role !== 'none');
+
+  if (electrical.length === 0) {
+    return { ok: false, errors: [{ code: 'empty_diagram', message: 'The diagram has no electrical parts', parts: [] }] };
+  }
+  const sourceParts = electrical.filter((p) => p.type === 'battery' || p.type === 'series_string' || (p.type === 'charger' && p.props.enabled));
+  if (sourceParts.length === 0) {
+    errors.push({ code: 'no_source', message: 'The diagram has no battery, series string or charger to supply it', parts: [] });
+  }
+
+  // --- Connections: floating parts and unconnected terminals -----------------------------------------
+  const cablesAt = new Map<string, number>();
+  for (const c of doc.cables) {
+    for (const end of [c.from, c.to]) cablesAt.set(terminalNode(end.part, end.terminal), (cablesAt.get(terminalNode(end.part, end.terminal)) ?? 0) + 1);
+  }
+  const floating = new Set<string>();
+  for (const p of electrical) {
+    const terminals = definitionOf(p).terminals(p.props);
+    const used = terminals.filter((t) => cablesAt.has(terminalNode(p.id, t)));
+    if (used.length === 0) {
+      floating.add(p.id);
+      errors.push({ code: 'floating_part', message: `${describe(p)} is not connected to anything`, parts: [p.id] });
+      continue;
+    }
+    if (p.type === 'busbar') continue; // spare busbar studs are normal
+    for (const t of terminals) {
+      if (!cablesAt.has(terminalNode(p.id, t))) {
+        errors.push({ code: 'unconnected_terminal', message: `${describe(p)}: terminal "${t}" is not connected`, parts: [p.id] });
+      }
+    }
+  }
+
+  // --- Elements ----------------------------------------------------------------------------------------
+  const raw: { el: NetworkElement; owner: { kind: 'part' | 'cable'; id: string }; nominal_V?: number }[] = [];
+  const map: CompileMap = { parts: {}, cables: {}, elementOwner: {} };
+
+  for (const p of electrical) {
+    const def = definitionOf(p);
+    const model = def.model(p.props, ctx);
+    const single = model.elements.length === 1;
+    const nominals = memberNominals(p);
+    model.elements.forEach((e, i) => {
+      const id = single ? p.id : `${p.id}/${e.id}`;
+      const el = renameNodes({ ...e, id }, (n) => localToGlobal(p.id, n));
+      raw.push({ el, owner: { kind: 'part', id: p.id }, ...(e.kind === 'battery' ? { nominal_V: nominals[i] } : {}) });
+    });
+    if (p.type === 'switch' && !p.props.closed) {
+      notes.push({ code: 'open_switch', message: `${describe(p)} is open; modelled as a very high resistance`, parts: [p.id] });
+    }
+    map.parts[p.id] = { elements: [], nodes: Object.fromEntries(def.terminals(p.props).map((t) => [t, terminalNode(p.id, t)])) };
+  }
+
+  for (const c of doc.cables) {
+    const props: CableRunProps = c.props;
+    const temp_C = cableTemperature_C(props, doc.settings.ambient_C);
+    const conductor_ohm = cableRunConductorResistance_ohm(props, temp_C);
+    if (props.resistanceBasis === 'table' && (props.material !== 'copper' || tableResistance_ohm_per_m(props.conductor, temp_C) === null)) {
+      notes.push({ code: 'no_table_value', message: `Cable ${c.label || c.id}: no published table value for this conductor; computed resistance used`, parts: [c.id] });
+    }
+    let fromNode = terminalNode(c.from.part, c.from.terminal);
+    let toNode = terminalNode(c.to.part, c.to.terminal);
+    const own = { kind: 'cable' as const, id: c.id };
+    let r_total = conductor_ohm;
+    if (props.lugFrom_ohm !== undefined) {
+      const inner = `${c.id}._from`;
+      raw.push({ el: { id: `${c.id}/lugFrom`, kind: 'resistor', a: fromNode, b: inner, r_ohm: props.lugFrom_ohm, role: 'lug' }, owner: own });
+      fromNode = inner;
+      r_total += props.lugFrom_ohm;
+    }
+    if (props.lugTo_ohm !== undefined) {
+      const inner = `${c.id}._to`;
+      raw.push({ el: { id: `${c.id}/lugTo`, kind: 'resistor', a: inner, b: toNode, r_ohm: props.lugTo_ohm, role: 'lug' }, owner: own });
+      toNode = inner;
+      r_total += props.lugTo_ohm;
+    }
+    raw.push({ el: { id: c.id, kind: 'resistor', a: fromNode, b: toNode, r_ohm: conductor_ohm, role: props.role }, owner: own });
+    map.cables[c.id] = {
+      elements: [], from_node: terminalNode(c.from.part, c.from.terminal), to_node: terminalNode(c.to.part, c.to.terminal),
+      conductor_ohm, r_ohm: r_total, temp_C,
+    };
+  }
+
+  for (const { el, owner } of raw) {
+    if (numbersOf(el).some((x) => !Number.isFinite(x))) {
+      errors.push({ code: 'invalid_value', message: `Element ${el.id} has a value that is not a finite number`, parts: [owner.id] });
+    }
+  }
+
+  // --- Zero-resistance elements merge nodes ----------------------------------------------------------------
+  const zero = new UnionFind();
+  for (const { el } of raw) for (const n of elementNodes(el)) zero.add(n);
+  const kept: typeof raw = [];
+  for (const r of raw) {
+    if (r.el.kind === 'resistor' && r.el.r_ohm === 0) zero.union(r.el.a, r.el.b);
+    else kept.push(r);
+  }
+  const node = (n: string) => zero.find(n);
+  const elements = kept.map((r) => ({ ...r, el: renameNodes(r.el, node) }));
+
+  // --- Ideal voltage sources in a loop of zero resistance ----------------------------------------------------
+  const ideal = new UnionFind();
+  const idealParts: { part: string; pos: string; neg: string }[] = [];
+  for (const { el, owner } of elements) {
+    if (el.kind !== 'voltage_source' || (el.r_ohm ?? 0) > 0) continue;
+    idealParts.push({ part: owner.id, pos: el.pos, neg: el.neg });
+    if (!ideal.union(el.pos, el.neg)) {
+      const root = ideal.find(el.pos);
+      const involved = idealParts.filter((s) => ideal.find(s.pos) === root).map((s) => s.part);
+      errors.push({
+        code: 'zero_resistance_loop',
+        message: 'Sources with no internal resistance form a loop with nothing to limit the current between them (give the charger an internal resistance, or remove one)',
+        parts: unique(involved),
+      });
+    }
+  }
+
+  // --- Battery voltages around loops of conductors: reversed polarity, unequal strings, shorts ------------------
+  errors.push(...checkSourceLoops(elements, doc));
+
+  // --- One connected circuit with the ground -----------------------------------------------------------------
+  const groundPart = sourceParts.find((p) => p.type !== 'charger') ?? sourceParts[0] ?? electrical[0];
+  const groundTerminal = definitionOf(groundPart).terminals(groundPart.props).includes('neg') ? 'neg' : definitionOf(groundPart).terminals(groundPart.props)[0];
+  const ground = node(terminalNode(groundPart.id, groundTerminal));
+  const conn = new UnionFind();
+  for (const { el } of elements) {
+    const [a, b] = elementNodes(el);
+    conn.union(a, b);
+  }
+  conn.add(ground);
+  const cut = new Set<string>();
+  for (const p of electrical) {
+    if (floating.has(p.id)) continue;
+    const nodes = Object.values(map.parts[p.id].nodes).filter((n) => cablesAt.has(n));
+    if (nodes.some((n) => conn.find(node(n)) !== conn.find(ground))) cut.add(p.id);
+  }
+  if (cut.size > 0) {
+    errors.push({
+      code: 'disconnected_circuit',
+      message: `These parts are not connected to the bank that holds ${describe(groundPart)}; join them or remove them`,
+      parts: [...cut],
+    });
+  }
+
+  if (errors.length > 0) return { ok: false, errors: errors.slice(0, MAX_ERRORS) };
+
+  for (const { el, owner } of elements) {
+    map.elementOwner[el.id] = owner;
+    (owner.kind === 'part' ? map.parts[owner.id] : map.cables[owner.id]).elements.push(el.id);
+  }
+  for (const p of Object.values(map.parts)) for (const t of Object.keys(p.nodes)) p.nodes[t] = node(p.nodes[t]);
+  for (const c of Object.values(map.cables)) {
+    c.from_node = node(c.from_node);
+    c.to_node = node(c.to_node);
+  }
+  const nodeSet = new Set<string>();
+  for (const { el } of elements) for (const n of elementNodes(el)) nodeSet.add(n);
+
+  return {
+    ok: true,
+    network: { ground, nodes: [...nodeSet], elements: elements.map((e) => e.el) },
+    map,
+    systemVoltage: doc.settings.systemVoltage_V,
+    notes,
+  };
+}
+
+function describe(p: DiagramPart): string {
+  return p.label ? `${p.label} (${p.id})` : `${PART_TYPES[p.type].name} ${p.id}`;
+}
+
+function unique<T>(xs: T[]): T[] {
+  return [...new Set(xs)];
+}
+
+/** Nominal voltage of each battery element a part's model produces, in model order. */
+function memberNominals(p: DiagramPart): number[] {
+  if (p.type === 'battery') return [p.props.nominal_V];
+  if (p.type === 'series_string') {
+    // Model order: b1, j1, b2, j2, …; only battery elements are looked up, by their index.
+    const out: number[] = [];
+    for (const m of stringMembers(p.props)) {
+      out.push(m.nominal_V);
+      if (p.props.interconnect) out.push(NaN);
+    }
+    return out;
+  }
+  return [];
+}
+
+/**
+ * Walk the batteries' nominal voltages over the groups of nodes joined by conductors (cables, busbars,
+ * fuses, closed switches, shunts, lugs, jumpers). Each group gets one potential; a loop whose
+ * battery voltages do not add up to zero is a wiring fault: a short through a battery, batteries joined
+ * + to − in a ring (reversed polarity), or sources of unequal voltage in parallel (first principles).
+ */
+function checkSourceLoops(
+  elements: { el: NetworkElement; owner: { kind: 'part' | 'cable'; id: string }; nominal_V?: number }[],
+  doc: DiagramDocument,
+): CompileError[] {
+  const group = new UnionFind();
+  for (const { el } of elements) {
+    for (const n of elementNodes(el)) group.add(n);
+    if (el.kind === 'resistor' && el.role !== 'switch_open') group.union(el.a, el.b);
+  }
+  type Edge = { neg: string; pos: string; v: number; part: string };
+  const edges: Edge[] = [];
+  for (const { el, owner, nominal_V } of elements) {
+    if (el.kind === 'battery' && nominal_V !== undefined) edges.push({ neg: group.find(el.neg), pos: group.find(el.pos), v: nominal_V, part: owner.id });
+  }
+  const adj = new Map<string, { to: string; dv: number; edge: number }[]>();
+  const link = (from: string, to: string, dv: number, edge: number) => {
+    if (!adj.has(from)) adj.set(from, []);
+    adj.get(from)!.push({ to, dv, edge });
+  };
+  edges.forEach((e, i) => {
+    link(e.neg, e.pos, e.v, i);
+    link(e.pos, e.neg, -e.v, i);
+  });
+
+  const potential = new Map<string, number>();
+  const parent = new Map<string, { from: string; edge: number; dv: number } | null>();
+  const seenEdge = new Set<number>();
+  const errors: CompileError[] = [];
+  const reported = new Set<string>();
+  const partsById = new Map(doc.parts.map((p) => [p.id, p]));
+
+  for (const start of adj.keys()) {
+    if (potential.has(start)) continue;
+    potential.set(start, 0);
+    parent.set(start, null);
+    const queue = [start];
+    while (queue.length) {
+      const u = queue.shift()!;
+      for (const { to, dv, edge } of adj.get(u)!) {
+        if (seenEdge.has(edge)) continue;
+        seenEdge.add(edge);
+        if (!potential.has(to)) {
+          potential.set(to, potential.get(u)! + dv);
+          parent.set(to, { from: u, edge, dv });
+          queue.push(to);
+          continue;
+        }
+        const mismatch = potential.get(u)! + dv - potential.get(to)!;
+        // The traversal around the loop: from `to` up to the common ancestor, down to u, then u → to.
+        const loop = loopEdges(parent, u, to);
+        loop.push({ edge, dv });
+        const total = loop.reduce((s, l) => s + Math.abs(l.dv), 0);
+        if (Math.abs(mismatch) <= 0.1 + 0.005 * total) continue; // equal voltages in parallel: fine
+        const parts = unique(loop.map((l) => edges[l.edge].part));
+        const key = [...parts].sort().join('|');
+        if (reported.has(key)) continue;
+        reported.add(key);
+        const sameDirection = loop.every((l) => l.dv > 0) || loop.every((l) => l.dv < 0);
+        const names = parts.map((id) => { const p = partsById.get(id); return p ? describe(p) : id; }).join(', ');
+        if (parts.length === 1) {
+          errors.push({ code: 'shorted_source', message: `${names}: positive and negative are joined by conductors alone — a short circuit`, parts });
+        } else if (sameDirection) {
+          errors.push({ code: 'reversed_polarity', message: `${names}: a battery's positive is joined to another's negative in a parallel group (reversed polarity — a short circuit through the batteries)`, parts });
+        } else {
+          errors.push({ code: 'unequal_parallel_voltage', message: `${names}: batteries or strings of unequal nominal voltage are connected in parallel (${Math.abs(mismatch).toFixed(1)} V apart)`, parts });
+        }
+      }
+    }
+  }
+  return errors;
+}
+
+/** Edges from `to` up to the lowest common ancestor and down to `u`, with dv in that direction of travel. */
+function loopEdges(
+  parent: Map<string, { from: string; edge: number; dv: number } | null>,
+  u: string,
+  to: string,
+): { edge: number; dv: number }[] {
+  const ancestorsOfU = new Map<string, number>();
+  const upU: { edge: number; dv: number; node: string }[] = [];
+  for (let n: string | undefined = u, depth = 0; n !== undefined; depth++) {
+    ancestorsOfU.set(n, depth);
+    const p = parent.get(n);
+    if (!p) break;
+    upU.push({ edge: p.edge, dv: p.dv, node: n });
+    n = p.from;
+  }
+  const upTo: { edge: number; dv: number }[] = [];
+  let n = to;
+  while (!ancestorsOfU.has(n)) {
+    const p = parent.get(n)!;
+    upTo.push({ edge: p.edge, dv: -p.dv }); // travelling child → parent
+    n = p.from;
+  }
+  const lcaDepth = ancestorsOfU.get(n)!;
+  const downToU = upU.slice(0, lcaDepth).reverse().map((e) => ({ edge: e.edge, dv: e.dv })); // parent → child
+  return [...upTo, ...downToU];
+}
