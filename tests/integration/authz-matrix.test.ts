@@ -1,0 +1,299 @@
+/**
+ * Authorization matrix: EVERY API route × every demo role, a member of another team, and signed out.
+ *
+ * The expected status of each cell comes from the permission table written out below (deliberately
+ * not computed with shared/roles.ts `can()`), the route's requirement and its success status:
+ *   signed out -> 401 (except public routes); not a member of the route's team -> 404;
+ *   a member whose role lacks the permission -> 403; otherwise the route's success status.
+ * Routes that change or end things get fresh fixtures (and, where needed, a fresh session) per cell.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { eq } from 'drizzle-orm';
+import { invites, memberships, projects, teams, users } from '../../server/db/schema';
+import { newId, newToken, sha256Hex } from '../../server/ids';
+import { hashPassword } from '../../server/auth/passwords';
+import { makeTestApp, DEMO_PASSWORD, type Agent, type TestApp } from '../helpers/app';
+
+const ROLES = ['owner', 'designer', 'reviewer', 'trainer', 'viewer'] as const;
+type DemoRole = (typeof ROLES)[number];
+const ACTORS = [...ROLES, 'outsider', 'anon'] as const;
+type Actor = (typeof ACTORS)[number];
+
+/** Which roles hold each permission the foundation routes use (written out, not imported). */
+const GRANTED: Record<string, readonly DemoRole[]> = {
+  'team.manage': ['owner'],
+  'project.read': ['owner', 'designer', 'reviewer', 'trainer', 'viewer'],
+  'project.create': ['owner', 'designer'],
+  'project.edit': ['owner', 'designer'],
+  'outbox.read': ['owner'],
+};
+
+type Requirement =
+  | { kind: 'public' } // anyone, signed in or not
+  | { kind: 'signedIn' } // any signed-in user
+  | { kind: 'member' } // any member of the route's team
+  | { kind: 'permission'; permission: keyof typeof GRANTED };
+
+interface Call {
+  method: 'get' | 'post' | 'patch' | 'delete';
+  url: string;
+  body?: unknown;
+}
+
+interface RouteCase {
+  route: string;
+  requires: Requirement;
+  success: number;
+  /** Sign in afresh for each cell (the call changes or ends the session). */
+  freshSession?: boolean;
+  call(actor: Actor, agent: Agent): Promise<Call>;
+}
+
+function expected(c: RouteCase, actor: Actor): number {
+  const r = c.requires;
+  if (r.kind === 'public') return c.success;
+  if (actor === 'anon') return 401;
+  if (r.kind === 'signedIn') return c.success;
+  if (actor === 'outsider') return 404;
+  if (r.kind === 'member') return c.success;
+  return GRANTED[r.permission].includes(actor) ? c.success : 403;
+}
+
+let t: TestApp;
+let teamId: string;
+let projectId: string;
+const OUTSIDER_EMAIL = 'outsider@elsewhere.test';
+const OUTSIDER_PASSWORD = 'outsider password 1';
+let placeholderHash: string;
+let seq = 0;
+const unique = (prefix: string) => `${prefix}${++seq}`;
+
+function emailOf(actor: Actor): string {
+  return actor === 'outsider' ? OUTSIDER_EMAIL : actor === 'anon' ? 'viewer@demo.test' : `${actor}@demo.test`;
+}
+function passwordOf(actor: Actor): string {
+  return actor === 'outsider' ? OUTSIDER_PASSWORD : DEMO_PASSWORD;
+}
+
+// Fixtures written straight to the database so each cell starts from the same state.
+async function freshProject(): Promise<string> {
+  const id = newId();
+  await t.db.insert(projects).values({ id, teamId, name: unique('Matrix project ') });
+  return id;
+}
+async function freshMember(): Promise<string> {
+  const id = newId();
+  await t.db.insert(users).values({ id, email: `${unique('member')}@matrix.test`, name: 'Matrix member', passwordHash: placeholderHash });
+  await t.db.insert(memberships).values({ teamId, userId: id, role: 'viewer' });
+  return id;
+}
+async function freshInvite(inTeam: string, email: string): Promise<{ id: string; token: string }> {
+  const id = newId();
+  const token = newToken();
+  await t.db.insert(invites).values({ id, teamId: inTeam, tokenHash: sha256Hex(token), email, role: 'viewer', expiresAt: new Date(Date.now() + 86_400_000) });
+  return { id, token };
+}
+/** A new team in which every demo account has its demo role (so deleting it hurts nothing else). */
+async function freshTeamLikeDemo(): Promise<string> {
+  const id = newId();
+  await t.db.insert(teams).values({ id, name: unique('Matrix team ') });
+  const demo = await t.db.select().from(memberships).where(eq(memberships.teamId, teamId));
+  await t.db.insert(memberships).values(demo.filter((m) => ROLES.includes(m.role as DemoRole)).map((m) => ({ teamId: id, userId: m.userId, role: m.role })));
+  return id;
+}
+async function emptyTeam(): Promise<string> {
+  const id = newId();
+  await t.db.insert(teams).values({ id, name: unique('Empty team ') });
+  return id;
+}
+
+const ROUTES: RouteCase[] = [
+  { route: 'GET /api/health', requires: { kind: 'public' }, success: 200, call: async () => ({ method: 'get', url: '/api/health' }) },
+  {
+    route: 'POST /api/auth/sign-up',
+    requires: { kind: 'public' },
+    success: 201,
+    freshSession: true,
+    call: async () => ({ method: 'post', url: '/api/auth/sign-up', body: { email: `${unique('signup')}@matrix.test`, password: 'matrix password', name: 'Matrix' } }),
+  },
+  {
+    route: 'POST /api/auth/sign-in',
+    requires: { kind: 'public' },
+    success: 200,
+    freshSession: true,
+    call: async (actor) => ({ method: 'post', url: '/api/auth/sign-in', body: { email: emailOf(actor), password: passwordOf(actor) } }),
+  },
+  { route: 'POST /api/auth/sign-out', requires: { kind: 'public' }, success: 204, freshSession: true, call: async () => ({ method: 'post', url: '/api/auth/sign-out' }) },
+  { route: 'GET /api/auth/me', requires: { kind: 'signedIn' }, success: 200, call: async () => ({ method: 'get', url: '/api/auth/me' }) },
+  { route: 'PATCH /api/account', requires: { kind: 'signedIn' }, success: 200, call: async () => ({ method: 'patch', url: '/api/account', body: {} }) },
+  {
+    route: 'POST /api/account/password',
+    requires: { kind: 'signedIn' },
+    success: 204,
+    freshSession: true,
+    // Sets the same password again: the account stays usable for the other cells.
+    call: async (actor) => ({ method: 'post', url: '/api/account/password', body: { currentPassword: passwordOf(actor), newPassword: passwordOf(actor), endOtherSessions: false } }),
+  },
+  { route: 'GET /api/account/sessions', requires: { kind: 'signedIn' }, success: 200, call: async () => ({ method: 'get', url: '/api/account/sessions' }) },
+  {
+    route: 'DELETE /api/account/sessions/:id',
+    requires: { kind: 'signedIn' },
+    success: 204,
+    freshSession: true,
+    call: async (actor, agent) => {
+      if (actor === 'anon') return { method: 'delete', url: '/api/account/sessions/any-id' };
+      const list = await agent.get('/api/account/sessions');
+      const current = list.body.sessions.find((s: { current: boolean }) => s.current);
+      return { method: 'delete', url: `/api/account/sessions/${current.id}` };
+    },
+  },
+  { route: 'GET /api/teams', requires: { kind: 'signedIn' }, success: 200, call: async () => ({ method: 'get', url: '/api/teams' }) },
+  { route: 'POST /api/teams', requires: { kind: 'signedIn' }, success: 201, call: async () => ({ method: 'post', url: '/api/teams', body: { name: unique('New team '), unitSystem: 'us' } }) },
+  { route: 'GET /api/teams/:teamId', requires: { kind: 'member' }, success: 200, call: async () => ({ method: 'get', url: `/api/teams/${teamId}` }) },
+  {
+    route: 'PATCH /api/teams/:teamId',
+    requires: { kind: 'permission', permission: 'team.manage' },
+    success: 200,
+    call: async () => ({ method: 'patch', url: `/api/teams/${teamId}`, body: { unitSystem: 'metric' } }),
+  },
+  {
+    route: 'DELETE /api/teams/:teamId',
+    requires: { kind: 'permission', permission: 'team.manage' },
+    success: 204,
+    call: async () => ({ method: 'delete', url: `/api/teams/${await freshTeamLikeDemo()}` }),
+  },
+  { route: 'GET /api/teams/:teamId/members', requires: { kind: 'member' }, success: 200, call: async () => ({ method: 'get', url: `/api/teams/${teamId}/members` }) },
+  {
+    route: 'PATCH /api/teams/:teamId/members/:userId',
+    requires: { kind: 'permission', permission: 'team.manage' },
+    success: 200,
+    call: async () => ({ method: 'patch', url: `/api/teams/${teamId}/members/${await freshMember()}`, body: { role: 'reviewer' } }),
+  },
+  {
+    route: 'DELETE /api/teams/:teamId/members/:userId',
+    requires: { kind: 'permission', permission: 'team.manage' },
+    success: 204,
+    call: async () => ({ method: 'delete', url: `/api/teams/${teamId}/members/${await freshMember()}` }),
+  },
+  {
+    route: 'POST /api/teams/:teamId/invites',
+    requires: { kind: 'permission', permission: 'team.manage' },
+    success: 201,
+    call: async () => ({ method: 'post', url: `/api/teams/${teamId}/invites`, body: { email: `${unique('invitee')}@matrix.test`, role: 'viewer' } }),
+  },
+  {
+    route: 'DELETE /api/teams/:teamId/invites/:inviteId',
+    requires: { kind: 'permission', permission: 'team.manage' },
+    success: 204,
+    call: async () => ({ method: 'delete', url: `/api/teams/${teamId}/invites/${(await freshInvite(teamId, `${unique('revoke')}@matrix.test`)).id}` }),
+  },
+  {
+    route: 'GET /api/teams/:teamId/outbox',
+    requires: { kind: 'permission', permission: 'outbox.read' },
+    success: 200,
+    call: async () => ({ method: 'get', url: `/api/teams/${teamId}/outbox` }),
+  },
+  {
+    route: 'GET /api/invites/:token',
+    requires: { kind: 'signedIn' },
+    success: 200,
+    call: async () => ({ method: 'get', url: `/api/invites/${(await freshInvite(teamId, `${unique('look')}@matrix.test`)).token}` }),
+  },
+  {
+    route: 'POST /api/invites/accept',
+    requires: { kind: 'signedIn' },
+    success: 200,
+    // An invite addressed to the actor, into a throwaway team.
+    call: async (actor) => ({ method: 'post', url: '/api/invites/accept', body: { token: (await freshInvite(await emptyTeam(), emailOf(actor))).token } }),
+  },
+  {
+    route: 'GET /api/projects?teamId=',
+    requires: { kind: 'permission', permission: 'project.read' },
+    success: 200,
+    call: async () => ({ method: 'get', url: `/api/projects?teamId=${teamId}` }),
+  },
+  {
+    route: 'POST /api/projects',
+    requires: { kind: 'permission', permission: 'project.create' },
+    success: 201,
+    call: async () => ({ method: 'post', url: '/api/projects', body: { teamId, name: unique('Created project '), site: 'Matrix site' } }),
+  },
+  {
+    route: 'GET /api/projects/:id',
+    requires: { kind: 'permission', permission: 'project.read' },
+    success: 200,
+    call: async () => ({ method: 'get', url: `/api/projects/${projectId}` }),
+  },
+  {
+    route: 'PATCH /api/projects/:id',
+    requires: { kind: 'permission', permission: 'project.edit' },
+    success: 200,
+    call: async () => ({ method: 'patch', url: `/api/projects/${await freshProject()}`, body: { description: 'Edited in the matrix' } }),
+  },
+  {
+    route: 'DELETE /api/projects/:id',
+    requires: { kind: 'permission', permission: 'project.edit' },
+    success: 204,
+    call: async () => ({ method: 'delete', url: `/api/projects/${await freshProject()}` }),
+  },
+  {
+    route: 'GET /api/projects/:id/diagrams',
+    requires: { kind: 'permission', permission: 'project.read' },
+    success: 200,
+    call: async () => ({ method: 'get', url: `/api/projects/${projectId}/diagrams` }),
+  },
+];
+
+const agents = new Map<Actor, Agent>();
+
+async function signedInAgent(actor: Actor): Promise<Agent> {
+  return actor === 'anon' ? t.agent() : t.signIn(emailOf(actor), passwordOf(actor));
+}
+
+beforeAll(async () => {
+  t = await makeTestApp();
+  placeholderHash = await hashPassword('matrix placeholder');
+  const owner = await t.agentFor('owner');
+  teamId = (await owner.get('/api/teams')).body.teams[0].id;
+  projectId = (await owner.get(`/api/projects?teamId=${teamId}`)).body.projects[0].id;
+  // The outsider owns a team of their own, so "member of another team" is a real member.
+  const outsider = t.agent();
+  expect((await outsider.post('/api/auth/sign-up').send({ email: OUTSIDER_EMAIL, password: OUTSIDER_PASSWORD, name: 'Outsider' })).status).toBe(201);
+  expect((await outsider.post('/api/teams').send({ name: 'Elsewhere Electrical' })).status).toBe(201);
+  for (const actor of ACTORS) agents.set(actor, actor === 'outsider' ? outsider : actor === 'anon' ? t.agent() : await t.agentFor(actor));
+});
+afterAll(async () => {
+  await t?.close();
+});
+
+describe('authorization matrix', () => {
+  it('lists all 28 foundation routes (add each new route here)', () => {
+    expect(ROUTES.map((r) => r.route)).toHaveLength(28);
+  });
+
+  for (const c of ROUTES) {
+    describe(c.route, () => {
+      for (const actor of ACTORS) {
+        const status = expected(c, actor);
+        it(`${actor} -> ${status}`, async () => {
+          const agent = c.freshSession ? await signedInAgent(actor) : agents.get(actor)!;
+          const { method, url, body } = await c.call(actor, agent);
+          const req = agent[method](url);
+          const res = body === undefined ? await req : await req.send(body as object);
+          expect({ route: c.route, actor, status: res.status, body: res.status >= 400 ? res.body : undefined }).toMatchObject({ route: c.route, actor, status });
+          if (status >= 400) expect(res.body.error.code).toBe({ 401: 'unauthenticated', 403: 'forbidden', 404: 'not_found' }[status]);
+        });
+      }
+    });
+  }
+});
+
+describe('the shared agents still work after the matrix', () => {
+  it('every demo account is still signed in with its demo role', async () => {
+    for (const role of ROLES) {
+      const res = await agents.get(role)!.get(`/api/teams/${teamId}`);
+      expect(res.status).toBe(200);
+      expect(res.body.team.role).toBe(role);
+    }
+  });
+});
