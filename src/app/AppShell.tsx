@@ -97,6 +97,7 @@ function AccountMenu() {
 export function AppShell() {
   const me = useSignedInMe();
   const { team } = useCurrentTeam();
+  const { pathname } = useLocation();
   const showOutbox = !!team && me.mailMode === 'outbox' && can(team.role, 'outbox.read');
   return (
     <div className="flex min-h-screen flex-col">
@@ -113,7 +114,10 @@ export function AppShell() {
           <TeamSwitcher teams={me.teams} current={team} />
           {team ? (
             <nav aria-label="Team" className="ml-2 flex items-center gap-1">
-              <NavLink to={`/teams/${team.id}/projects`} className={navClass}>
+              <NavLink
+                to={`/teams/${team.id}/projects`}
+                className={({ isActive }) => navClass({ isActive: isActive || pathname.startsWith('/projects/') || pathname.startsWith('/diagrams/') })}
+              >
                 <FolderIcon size={14} /> Projects
               </NavLink>
               <NavLink to={`/teams/${team.id}/members`} className={navClass}>

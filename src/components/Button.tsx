@@ -1,7 +1,7 @@
 import { forwardRef, type ButtonHTMLAttributes } from 'react';
 import { Link, type LinkProps } from 'react-router';
 
-type Variant = 'primary' | 'secondary' | 'ghost' | 'danger';
+type Variant = 'primary' | 'secondary' | 'ghost' | 'danger' | 'danger-outline';
 type Size = 'sm' | 'md';
 
 const base =
@@ -11,6 +11,7 @@ const variants: Record<Variant, string> = {
   secondary: 'border border-graphite-200 bg-white text-graphite-800 hover:bg-graphite-50 hover:border-graphite-300',
   ghost: 'text-graphite-700 hover:bg-graphite-100',
   danger: 'bg-fault-600 text-white hover:bg-fault-700 shadow-sm',
+  'danger-outline': 'border border-graphite-200 bg-white text-fault-700 hover:bg-fault-50 hover:border-fault-200',
 };
 const sizes: Record<Size, string> = {
   sm: 'h-7 px-2.5 text-[13px]',

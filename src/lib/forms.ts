@@ -11,7 +11,8 @@ export function parseForm<S extends z.ZodType>(schema: S, values: unknown): Pars
   const fieldErrors: FieldErrors = {};
   for (const issue of result.error.issues) {
     const key = issue.path.length ? issue.path.join('.') : '_form';
-    (fieldErrors[key] ??= []).push(issue.message);
+    // One message per field at a time: the first rule broken is the one to fix.
+    fieldErrors[key] ??= [issue.message];
   }
   return { ok: false, fieldErrors };
 }

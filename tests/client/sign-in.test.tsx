@@ -14,6 +14,8 @@ describe('sign-in form', () => {
     await user.click(await screen.findByRole('button', { name: 'Sign in' }));
     expect(await screen.findByText('Password is required')).toBeInTheDocument();
     expect(screen.getByText('E-mail is required')).toBeInTheDocument();
+    // One message per field: the first rule broken.
+    expect(screen.queryByText('Enter a valid e-mail address')).not.toBeInTheDocument();
 
     await user.type(screen.getByLabelText('E-mail'), 'dana-at-fieldcrew');
     await user.type(screen.getByLabelText('Password'), 'x');

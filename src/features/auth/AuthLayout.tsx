@@ -20,7 +20,7 @@ export function AuthLayout({ title, subtitle, children, footer }: { title: strin
         </div>
       </main>
       <footer className="border-t border-graphite-800 px-4 py-3">
-        <SafetyCaution className="mx-auto max-w-3xl justify-center text-graphite-300 [&_.font-semibold]:text-graphite-100" />
+        <SafetyCaution onDark className="mx-auto max-w-3xl justify-center" />
       </footer>
     </div>
   );

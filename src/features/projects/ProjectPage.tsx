@@ -72,7 +72,7 @@ function ProjectView({ project, teamName, mayEdit }: { project: Project; teamNam
               <Button onClick={() => setEditing(true)}>
                 <PencilIcon size={14} /> Edit
               </Button>
-              <Button onClick={() => setDeleting(true)} className="text-fault-700">
+              <Button variant="danger-outline" onClick={() => setDeleting(true)}>
                 <TrashIcon size={14} /> Delete
               </Button>
             </>
