@@ -55,6 +55,7 @@ export interface SolveResult {
 export type SolveErrorCode =
   | 'malformed_network'
   | 'unknown_node'
+  | 'unknown_element'
   | 'duplicate_id'
   | 'invalid_value'
   | 'floating_node'

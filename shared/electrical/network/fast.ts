@@ -1,0 +1,491 @@
+/**
+ * Fast nodal solver (docs/decisions/001-sparse-nodal-fast-path.md).
+ *
+ * 1. Ideal voltage sources holding their voltage are eliminated, not added as MNA rows: the nodes they
+ *    join form a tree whose voltages are fixed offsets from one node (or from ground). Each such tree is
+ *    one unknown, so the conductance matrix K stays symmetric positive definite.
+ * 2. K is factorized once by sparse LDLᵀ with a minimum-degree ordering (ldl.ts).
+ * 3. Constant-power loads are not stamped into K. With y0 = K⁻¹b and Z = K⁻¹U (U: the loads' incidence
+ *    columns), the load voltages obey v = v_oc - W i(v) with W = UᵀZ, the Thevenin resistance matrix
+ *    seen by the loads. Newton runs on that k x k system; nothing is refactorized.
+ * 4. Changes (fault shunts, shorted batteries) are low-rank updates: K' = K + U_f D U_fᵀ is applied by
+ *    the Woodbury identity on top of the same factorization, one triangular solve pair per change.
+ * 5. Currents of the eliminated sources follow from Kirchhoff's current law along their trees.
+ * Charger modes (CV / current limit) are checked after each solve and the system rebuilt on a change.
+ */
+import { applyChanges, type NetworkChange } from './changes';
+import { LdlFactor, denseSolve, type SymmetricCsc } from './ldl';
+import {
+  MAX_MODE_PASSES,
+  MAX_NEWTON_ITERATIONS,
+  buildResult,
+  collapseError,
+  constantPowerCollapsed,
+  constantPowerCurrent,
+  constantPowerSlope,
+  elementCurrent,
+  initialModes,
+  isConstraintSource,
+  nextModes,
+  singularError,
+  type ChargerModes,
+} from './model';
+import type { Network, NetworkElement, SolveError, SolveOutcome } from './types';
+import { solveError, terminals, validateNetwork, type NetworkTopology } from './validate';
+
+type ConstantPower = Extract<NetworkElement, { kind: 'constant_power' }>;
+
+/** How each node maps onto the unknowns: V[node] = (rep < 0 ? 0 : y[rep]) + off. */
+interface Reduction {
+  rep: Int32Array;
+  off: Float64Array;
+  m: number;
+  /** Tree edges of the eliminated sources, children before parents: node, element index, parent node. */
+  tree: { node: number; el: number; parent: number }[];
+}
+
+interface LoadColumn {
+  el: ConstantPower;
+  ra: number;
+  rb: number;
+  /** Fixed part of the load voltage: off[pos] - off[neg]. */
+  c: number;
+}
+
+interface Core {
+  red: Reduction;
+  factor: LdlFactor | null;
+  /** K⁻¹ b of the network without its constant-power loads. */
+  y0: Float64Array;
+  loads: LoadColumn[];
+  /** K⁻¹ u for each load (null when its terminals share an unknown). */
+  zLoads: (Float64Array | null)[];
+}
+
+/** A network analysed and factorized once, ready for repeated solves with small changes. */
+export interface PreparedNetwork {
+  readonly network: Network;
+  readonly topology: NetworkTopology;
+  /** Charger modes of the unchanged network's solution. */
+  readonly modes: ChargerModes;
+  /** Solution of the unchanged network. */
+  readonly base: SolveOutcome;
+  /** Unknowns of the reduced system and non-zeros of its factor (for diagnostics and benchmarks). */
+  readonly stats: { unknowns: number; nnzL: number };
+  /** @internal */
+  readonly core: Core;
+}
+
+function reduce(net: Network, topo: NetworkTopology, modes: ChargerModes): Reduction {
+  const n = topo.nodes.length;
+  const edges: { el: number; to: number }[][] = Array.from({ length: n }, () => []);
+  net.elements.forEach((el, i) => {
+    if (!isConstraintSource(modes, el)) return;
+    const p = topo.index.get(el.pos)!;
+    const q = topo.index.get(el.neg)!;
+    edges[p].push({ el: i, to: q });
+    edges[q].push({ el: i, to: p });
+  });
+  const rep = new Int32Array(n).fill(-2);
+  const off = new Float64Array(n);
+  const tree: Reduction['tree'] = [];
+  let m = 0;
+  const walk = (root: number, unknown: number) => {
+    rep[root] = unknown;
+    off[root] = 0;
+    if (edges[root].length === 0) return;
+    const queue = [root];
+    const order: Reduction['tree'] = [];
+    for (let h = 0; h < queue.length; h++) {
+      const x = queue[h];
+      for (const e of edges[x]) {
+        if (rep[e.to] !== -2) continue;
+        const src = net.elements[e.el] as Extract<NetworkElement, { kind: 'voltage_source' }>;
+        const fromPos = topo.index.get(src.pos) === x;
+        rep[e.to] = unknown;
+        off[e.to] = off[x] + (fromPos ? -src.volts : src.volts);
+        order.push({ node: e.to, el: e.el, parent: x });
+        queue.push(e.to);
+      }
+    }
+    for (let i = order.length - 1; i >= 0; i--) tree.push(order[i]);
+  };
+  walk(0, -1);
+  for (let i = 1; i < n; i++) if (rep[i] === -2) walk(i, m++);
+  return { rep, off, m, tree };
+}
+
+/** Sums duplicate (row, col) entries of the triplets into a symmetric CSC matrix. */
+function assemble(m: number, rows: Int32Array, cols: Int32Array, vals: Float64Array, count: number): { csc: SymmetricCsc; ax: Float64Array } {
+  const cnt = new Int32Array(m + 1);
+  for (let t = 0; t < count; t++) cnt[cols[t] + 1]++;
+  for (let j = 0; j < m; j++) cnt[j + 1] += cnt[j];
+  const fillAt = cnt.slice(0, m);
+  const r = new Int32Array(count);
+  const v = new Float64Array(count);
+  for (let t = 0; t < count; t++) {
+    const p = fillAt[cols[t]]++;
+    r[p] = rows[t];
+    v[p] = vals[t];
+  }
+  const colPtr = new Int32Array(m + 1);
+  const where = new Int32Array(m).fill(-1);
+  let nz = 0;
+  for (let j = 0; j < m; j++) {
+    const start = nz;
+    for (let p = cnt[j]; p < cnt[j + 1]; p++) {
+      const i = r[p];
+      if (where[i] >= start) v[where[i]] += v[p];
+      else {
+        where[i] = nz;
+        r[nz] = i;
+        v[nz] = v[p];
+        nz++;
+      }
+    }
+    colPtr[j + 1] = nz;
+  }
+  return { csc: { n: m, colPtr, rowIdx: r.slice(0, nz) }, ax: v.slice(0, nz) };
+}
+
+function buildCore(net: Network, topo: NetworkTopology, modes: ChargerModes): Core | SolveError {
+  const red = reduce(net, topo, modes);
+  const { rep, off, m } = red;
+  const idx = topo.index;
+  const cap = m + 4 * net.elements.length;
+  const rows = new Int32Array(cap);
+  const cols = new Int32Array(cap);
+  const vals = new Float64Array(cap);
+  let t = 0;
+  for (let j = 0; j < m; j++) {
+    rows[t] = j;
+    cols[t] = j;
+    vals[t++] = 0;
+  }
+  const b = new Float64Array(m);
+  const loads: LoadColumn[] = [];
+  const branch = (a: string, bn: string, g: number, J: number) => {
+    const na = idx.get(a)!;
+    const nb = idx.get(bn)!;
+    const ra = rep[na];
+    const rb = rep[nb];
+    if (ra === rb) return;
+    const jeff = J - g * (off[na] - off[nb]);
+    if (ra >= 0) {
+      rows[t] = ra; cols[t] = ra; vals[t++] = g;
+      b[ra] += jeff;
+    }
+    if (rb >= 0) {
+      rows[t] = rb; cols[t] = rb; vals[t++] = g;
+      b[rb] -= jeff;
+    }
+    if (ra >= 0 && rb >= 0) {
+      rows[t] = ra; cols[t] = rb; vals[t++] = -g;
+      rows[t] = rb; cols[t] = ra; vals[t++] = -g;
+    }
+  };
+  const inject = (into: string, outOf: string, amps: number) => {
+    const ri = rep[idx.get(into)!];
+    const ro = rep[idx.get(outOf)!];
+    if (ri >= 0) b[ri] += amps;
+    if (ro >= 0) b[ro] -= amps;
+  };
+  for (const el of net.elements) {
+    switch (el.kind) {
+      case 'battery':
+        branch(el.pos, el.neg, 1 / el.r_ohm, el.ocv_V / el.r_ohm);
+        break;
+      case 'resistor':
+      case 'load_resistor':
+        branch(el.a, el.b, 1 / el.r_ohm, 0);
+        break;
+      case 'current_source':
+        inject(el.to, el.from, el.amps);
+        break;
+      case 'constant_power': {
+        const p = idx.get(el.pos)!;
+        const q = idx.get(el.neg)!;
+        loads.push({ el, ra: rep[p], rb: rep[q], c: off[p] - off[q] });
+        break;
+      }
+      case 'voltage_source':
+        if (isConstraintSource(modes, el)) break;
+        if (modes.get(el.id) === 'cc') inject(el.pos, el.neg, el.i_max_A!);
+        else branch(el.pos, el.neg, 1 / el.r_ohm!, el.volts / el.r_ohm!);
+        break;
+    }
+  }
+  let factor: LdlFactor | null = null;
+  let y0 = new Float64Array(0);
+  if (m > 0) {
+    const { csc, ax } = assemble(m, rows, cols, vals, t);
+    factor = new LdlFactor(csc);
+    const bad = factor.factor(ax);
+    if (bad >= 0) {
+      const nodes = topo.nodes.filter((_, i) => rep[i] === bad);
+      return singularError(net, topo, modes, `no independent voltage at node ${nodes.join(', ')}`);
+    }
+    y0 = factor.solve(b);
+  }
+  const zLoads = loads.map((l) => (l.ra === l.rb ? null : factor!.solve(unitColumn(m, l.ra, l.rb))));
+  return { red, factor, y0, loads, zLoads };
+}
+
+function unitColumn(m: number, ra: number, rb: number): Float64Array {
+  const u = new Float64Array(m);
+  if (ra >= 0) u[ra] += 1;
+  if (rb >= 0) u[rb] -= 1;
+  return u;
+}
+
+const across = (x: Float64Array, ra: number, rb: number) => (ra >= 0 ? x[ra] : 0) - (rb >= 0 ? x[rb] : 0);
+
+/**
+ * Newton on the loads' voltages: F(v) = v - v_oc + W i(v) = 0, J = I + W diag(di/dv), with a
+ * backtracking line search. Returns the load currents, or an error when the loads collapse.
+ */
+function solveLoads(loads: LoadColumn[], voc: Float64Array, W: Float64Array): { i: Float64Array; iterations: number } | SolveError {
+  const k = loads.length;
+  const v = Float64Array.from(voc);
+  const i = new Float64Array(k);
+  const F = new Float64Array(k);
+  const ids = loads.map((l) => l.el.id);
+  const collapsed = loads.filter((l, j) => constantPowerCollapsed(l.el, v[j]));
+  if (collapsed.length) return collapseError(collapsed.map((l) => l.el.id));
+  let scale = 1;
+  for (let j = 0; j < k; j++) scale = Math.max(scale, Math.abs(voc[j]));
+  const tol = 1e-11 * scale;
+  const residual = (vv: Float64Array, out: Float64Array): number => {
+    for (let j = 0; j < k; j++) i[j] = constantPowerCurrent(loads[j].el, vv[j]);
+    let worst = 0;
+    for (let r = 0; r < k; r++) {
+      let s = vv[r] - voc[r];
+      for (let c = 0; c < k; c++) s += W[r * k + c] * i[c];
+      out[r] = s;
+      worst = Math.max(worst, Math.abs(s));
+    }
+    return worst;
+  };
+  let norm = residual(v, F);
+  const J = new Float64Array(k * k);
+  const trial = new Float64Array(k);
+  const Ft = new Float64Array(k);
+  for (let it = 1; it <= MAX_NEWTON_ITERATIONS; it++) {
+    if (norm <= tol) {
+      residual(v, F);
+      return { i, iterations: it };
+    }
+    for (let r = 0; r < k; r++) for (let c = 0; c < k; c++) J[r * k + c] = (r === c ? 1 : 0) + W[r * k + c] * constantPowerSlope(loads[c].el, v[c]);
+    const negF = F.map((x) => -x);
+    const step = denseSolve(J, negF, k);
+    if (!step) return collapseError(ids);
+    let alpha = 1;
+    let accepted = false;
+    for (let h = 0; h < 40; h++, alpha /= 2) {
+      let ok = true;
+      for (let j = 0; j < k; j++) {
+        trial[j] = v[j] + alpha * step[j];
+        if (constantPowerCollapsed(loads[j].el, trial[j])) ok = false;
+      }
+      if (!ok) continue;
+      const nt = residual(trial, Ft);
+      if (nt < norm || nt <= tol) {
+        v.set(trial);
+        F.set(Ft);
+        norm = nt;
+        accepted = true;
+        break;
+      }
+    }
+    if (!accepted) return collapseError(ids);
+  }
+  return collapseError(ids);
+}
+
+/**
+ * From the reduced solution parts to the full result: load Newton, node voltages, currents of the
+ * eliminated sources by KCL along their trees. Returns the next modes when a charger must change mode.
+ */
+function finish(
+  net: Network,
+  topo: NetworkTopology,
+  modes: ChargerModes,
+  core: Core,
+  y0: Float64Array,
+  zLoads: (Float64Array | null)[],
+): SolveOutcome | { nextModes: ChargerModes } {
+  const { red, loads } = core;
+  const k = loads.length;
+  let y = y0;
+  let iterations = 1;
+  if (k > 0) {
+    const voc = new Float64Array(k);
+    const W = new Float64Array(k * k);
+    for (let r = 0; r < k; r++) {
+      voc[r] = loads[r].c + across(y0, loads[r].ra, loads[r].rb);
+      for (let c = 0; c < k; c++) {
+        const z = zLoads[c];
+        W[r * k + c] = z ? across(z, loads[r].ra, loads[r].rb) : 0;
+      }
+    }
+    const sol = solveLoads(loads, voc, W);
+    if (!('i' in sol)) return sol;
+    iterations = sol.iterations;
+    y = Float64Array.from(y0);
+    for (let c = 0; c < k; c++) {
+      const z = zLoads[c];
+      const ic = sol.i[c];
+      if (z && ic !== 0) for (let j = 0; j < y.length; j++) y[j] -= z[j] * ic;
+    }
+  }
+  const n = topo.nodes.length;
+  const V = new Float64Array(n);
+  for (let i = 0; i < n; i++) V[i] = (red.rep[i] >= 0 ? y[red.rep[i]] : 0) + red.off[i];
+  const idx = topo.index;
+  const Vof = (node: string) => V[idx.get(node)!];
+
+  // Current leaving each node into the elements that are not eliminated sources.
+  const out = new Float64Array(n);
+  const currents = new Float64Array(net.elements.length);
+  net.elements.forEach((el, e) => {
+    if (isConstraintSource(modes, el)) return;
+    const I = elementCurrent(el, Vof, modes);
+    currents[e] = I;
+    const [t1, t2] = terminals(el);
+    const through = el.kind === 'battery' || el.kind === 'voltage_source' ? -I : I;
+    out[idx.get(t1)!] += through;
+    out[idx.get(t2)!] -= through;
+  });
+  const constraintCurrents = new Map<string, number>();
+  for (const { node, el, parent } of red.tree) {
+    const src = net.elements[el] as Extract<NetworkElement, { kind: 'voltage_source' }>;
+    // The source takes I from neg and delivers it at pos: outflow -I at pos, +I at neg.
+    const I = idx.get(src.pos) === node ? out[node] : -out[node];
+    out[parent] += idx.get(src.pos) === parent ? -I : I;
+    constraintCurrents.set(src.id, I);
+  }
+  if (modes.size) {
+    const chargerIndex = new Map<string, number>();
+    net.elements.forEach((el, e) => {
+      if (modes.has(el.id)) chargerIndex.set(el.id, e);
+    });
+    const next = nextModes(net, Vof, (id) => constraintCurrents.get(id) ?? currents[chargerIndex.get(id)!], modes);
+    if (next) return { nextModes: next };
+  }
+  return buildResult(net, topo, V, constraintCurrents, modes, iterations);
+}
+
+/** Analyses and factorizes a network (validating it first) and solves it once. */
+export function prepareNetwork(net: Network): PreparedNetwork | SolveError {
+  const checked = validateNetwork(net);
+  if (!checked.ok) return checked;
+  const topology = checked.topology;
+  let modes = initialModes(net);
+  for (let pass = 0; pass < MAX_MODE_PASSES; pass++) {
+    const core = buildCore(net, topology, modes);
+    if ('ok' in core) return core;
+    const base = finish(net, topology, modes, core, core.y0, core.zLoads);
+    if (!('nextModes' in base)) {
+      return { network: net, topology, modes, base, core, stats: { unknowns: core.red.m, nnzL: core.factor?.nnzL ?? 0 } };
+    }
+    modes = base.nextModes;
+  }
+  return solveError('no_convergence', 'chargers kept switching between voltage and current limit', { elements: [...modes.keys()] });
+}
+
+/** Solves a network on the fast path. */
+export function solveNetworkFast(net: Network): SolveOutcome {
+  const prep = prepareNetwork(net);
+  return 'ok' in prep ? prep : prep.base;
+}
+
+interface LowRankTerm {
+  ra: number;
+  rb: number;
+  dg: number;
+  /** Change of the effective Norton current (source current less g times the fixed offsets). */
+  dJ: number;
+}
+
+/**
+ * Solves the prepared network with changes applied, reusing its factorization: each change is a
+ * rank-one update (Woodbury identity), costing one triangular solve pair. Falls back to a full solve
+ * when a change moves a charger to another mode.
+ */
+export function solvePrepared(prep: PreparedNetwork, changes: NetworkChange[] = []): SolveOutcome {
+  if (changes.length === 0) return prep.base;
+  const changed = applyChanges(prep.network, changes);
+  if ('ok' in changed) return changed;
+  const { topology: topo, core, modes } = prep;
+  const { red } = core;
+  const terms: LowRankTerm[] = [];
+  for (const ch of changes) {
+    let a: string, b: string, dg: number, dJsrc: number;
+    if (ch.kind === 'shunt') {
+      for (const node of [ch.a, ch.b]) {
+        if (!topo.index.has(node)) return solveError('unknown_node', `shunt '${ch.id}' refers to node '${node}', which is not in the network`, { nodes: [node] });
+      }
+      [a, b, dg, dJsrc] = [ch.a, ch.b, 1 / ch.r_ohm, 0];
+    } else {
+      const el = prep.network.elements.find((e) => e.id === ch.element)!;
+      if (el.kind === 'battery') [a, b, dg, dJsrc] = [el.pos, el.neg, 1 / ch.r_ohm - 1 / el.r_ohm, -el.ocv_V / el.r_ohm];
+      else if (el.kind === 'resistor' || el.kind === 'load_resistor') [a, b, dg, dJsrc] = [el.a, el.b, 1 / ch.r_ohm - 1 / el.r_ohm, 0];
+      else return solveError('invalid_value', `element '${el.id}' cannot be shorted`, { elements: [el.id] });
+    }
+    const na = topo.index.get(a)!;
+    const nb = topo.index.get(b)!;
+    const ra = red.rep[na];
+    const rb = red.rep[nb];
+    if (ra === rb) continue; // inside one source tree: node voltages do not move
+    terms.push({ ra, rb, dg, dJ: dJsrc - dg * (red.off[na] - red.off[nb]) });
+  }
+  let y0 = core.y0;
+  let zLoads = core.zLoads;
+  if (terms.length) {
+    const factor = core.factor!;
+    const m = red.m;
+    const q = terms.length;
+    const Z = terms.map((t) => factor.solve(unitColumn(m, t.ra, t.rb)));
+    const M = new Float64Array(q * q);
+    for (let s = 0; s < q; s++) for (let t = 0; t < q; t++) M[s * q + t] = (s === t ? 1 : 0) + terms[s].dg * across(Z[t], terms[s].ra, terms[s].rb);
+    const correct = (x: Float64Array): Float64Array | null => {
+      const h = new Float64Array(q);
+      for (let s = 0; s < q; s++) h[s] = terms[s].dg * across(x, terms[s].ra, terms[s].rb);
+      const z = denseSolve(M, h, q);
+      if (!z) return null;
+      const out = Float64Array.from(x);
+      for (let t = 0; t < q; t++) {
+        const zt = z[t];
+        if (zt !== 0) {
+          const col = Z[t];
+          for (let j = 0; j < m; j++) out[j] -= col[j] * zt;
+        }
+      }
+      return out;
+    };
+    const shifted = Float64Array.from(core.y0);
+    terms.forEach((t, s) => {
+      if (t.dJ !== 0) for (let j = 0; j < m; j++) shifted[j] += t.dJ * Z[s][j];
+    });
+    const yc = correct(shifted);
+    if (!yc) return solveNetworkFast(changed);
+    y0 = yc;
+    const zc: (Float64Array | null)[] = [];
+    for (const z of core.zLoads) {
+      if (!z) zc.push(null);
+      else {
+        const c = correct(z);
+        if (!c) return solveNetworkFast(changed);
+        zc.push(c);
+      }
+    }
+    zLoads = zc;
+  }
+  const r = finish(changed, topo, modes, core, y0, zLoads);
+  return 'nextModes' in r ? solveNetworkFast(changed) : r;
+}
+
+/** Solves many variants of one prepared network (e.g. every battery shorted in turn). */
+export function solveVariants(prep: PreparedNetwork, variants: NetworkChange[][]): SolveOutcome[] {
+  return variants.map((changes) => solvePrepared(prep, changes));
+}

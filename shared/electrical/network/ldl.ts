@@ -1,0 +1,233 @@
+/**
+ * Sparse LDLᵀ factorization of a symmetric positive-definite matrix (the nodal conductance matrix),
+ * with a minimum-degree fill-reducing ordering. Symbolic analysis builds the elimination tree and the
+ * column counts of L; the numeric factorization is the up-looking row-by-row LDLᵀ (each row's pattern
+ * found by walking the elimination tree). The ordering is exact minimum degree on an explicit
+ * elimination graph, which is cheap for the low-fill graphs of battery banks and DC distribution.
+ */
+
+/** Symmetric matrix in compressed sparse column form with both triangles stored (diagonal included). */
+export interface SymmetricCsc {
+  n: number;
+  colPtr: Int32Array;
+  rowIdx: Int32Array;
+}
+
+/**
+ * Minimum-degree ordering: repeatedly eliminates a node of least degree in the elimination graph
+ * (ties: lowest index), joining its neighbours into a clique. Returns order[k] = the k-th pivot.
+ */
+export function minimumDegreeOrder(a: SymmetricCsc): Int32Array {
+  const { n, colPtr, rowIdx } = a;
+  const adj: (Set<number> | null)[] = new Array(n);
+  for (let j = 0; j < n; j++) {
+    const s = new Set<number>();
+    for (let p = colPtr[j]; p < colPtr[j + 1]; p++) if (rowIdx[p] !== j) s.add(rowIdx[p]);
+    adj[j] = s;
+  }
+  // Degree buckets as doubly linked lists.
+  const head = new Int32Array(n + 1).fill(-1);
+  const next = new Int32Array(n).fill(-1);
+  const prev = new Int32Array(n).fill(-1);
+  const deg = new Int32Array(n);
+  const insert = (i: number, d: number) => {
+    deg[i] = d;
+    prev[i] = -1;
+    next[i] = head[d];
+    if (head[d] !== -1) prev[head[d]] = i;
+    head[d] = i;
+  };
+  const remove = (i: number) => {
+    if (prev[i] !== -1) next[prev[i]] = next[i];
+    else head[deg[i]] = next[i];
+    if (next[i] !== -1) prev[next[i]] = prev[i];
+  };
+  for (let i = n - 1; i >= 0; i--) insert(i, adj[i]!.size);
+  const order = new Int32Array(n);
+  let minDeg = 0;
+  const nb: number[] = [];
+  for (let k = 0; k < n; k++) {
+    while (head[minDeg] === -1) minDeg++;
+    const p = head[minDeg];
+    remove(p);
+    order[k] = p;
+    nb.length = 0;
+    for (const u of adj[p]!) nb.push(u);
+    adj[p] = null;
+    for (const u of nb) adj[u]!.delete(p);
+    if (nb.length > 1) {
+      for (const u of nb) {
+        const s = adj[u]!;
+        for (const w of nb) if (w !== u) s.add(w);
+      }
+    }
+    for (const u of nb) {
+      const d = adj[u]!.size;
+      if (d !== deg[u]) {
+        remove(u);
+        insert(u, d);
+      }
+      if (d < minDeg) minDeg = d;
+    }
+  }
+  return order;
+}
+
+/** Symbolic analysis (ordering, elimination tree, column counts) reusable for any values on the pattern. */
+export class LdlFactor {
+  readonly n: number;
+  readonly perm: Int32Array; // perm[k] = original index of pivot k
+  readonly pinv: Int32Array;
+  readonly parent: Int32Array;
+  readonly Lp: Int32Array;
+  readonly Li: Int32Array;
+  readonly Lx: Float64Array;
+  readonly D: Float64Array;
+  private readonly a: SymmetricCsc;
+  private readonly lnz: Int32Array;
+  private readonly flag: Int32Array;
+  private readonly pattern: Int32Array;
+  private readonly y: Float64Array;
+  private readonly work: Float64Array;
+
+  constructor(a: SymmetricCsc, perm: Int32Array = minimumDegreeOrder(a)) {
+    const n = a.n;
+    this.n = n;
+    this.a = a;
+    this.perm = perm;
+    this.pinv = new Int32Array(n);
+    for (let k = 0; k < n; k++) this.pinv[perm[k]] = k;
+    this.parent = new Int32Array(n);
+    this.lnz = new Int32Array(n);
+    this.flag = new Int32Array(n);
+    const { parent, lnz, flag, pinv } = this;
+    for (let k = 0; k < n; k++) {
+      parent[k] = -1;
+      flag[k] = k;
+      lnz[k] = 0;
+      const kk = perm[k];
+      for (let p = a.colPtr[kk]; p < a.colPtr[kk + 1]; p++) {
+        let i = pinv[a.rowIdx[p]];
+        if (i < k) {
+          for (; flag[i] !== k; i = parent[i]) {
+            if (parent[i] === -1) parent[i] = k;
+            lnz[i]++;
+            flag[i] = k;
+          }
+        }
+      }
+    }
+    this.Lp = new Int32Array(n + 1);
+    for (let k = 0; k < n; k++) this.Lp[k + 1] = this.Lp[k] + lnz[k];
+    this.Li = new Int32Array(this.Lp[n]);
+    this.Lx = new Float64Array(this.Lp[n]);
+    this.D = new Float64Array(n);
+    this.pattern = new Int32Array(n);
+    this.y = new Float64Array(n);
+    this.work = new Float64Array(n);
+  }
+
+  /** Non-zeros of L (excluding the unit diagonal). */
+  get nnzL(): number {
+    return this.Lp[this.n];
+  }
+
+  /**
+   * Numeric factorization for values `ax` on the pattern. Returns -1 on success, or the original index
+   * of the first pivot that is not positive (relative to its diagonal): the matrix is singular there.
+   */
+  factor(ax: Float64Array): number {
+    const { n, a, perm, pinv, parent, lnz, flag, pattern, y, Lp, Li, Lx, D } = this;
+    for (let k = 0; k < n; k++) {
+      y[k] = 0;
+      let top = n;
+      flag[k] = k;
+      lnz[k] = 0;
+      const kk = perm[k];
+      let diag = 0;
+      for (let p = a.colPtr[kk]; p < a.colPtr[kk + 1]; p++) {
+        let i = pinv[a.rowIdx[p]];
+        if (i <= k) {
+          y[i] += ax[p];
+          if (i === k) diag += ax[p];
+          let len = 0;
+          for (; flag[i] !== k; i = parent[i]) {
+            pattern[len++] = i;
+            flag[i] = k;
+          }
+          while (len > 0) pattern[--top] = pattern[--len];
+        }
+      }
+      let dk = y[k];
+      y[k] = 0;
+      for (; top < n; top++) {
+        const i = pattern[top];
+        const yi = y[i];
+        y[i] = 0;
+        const p2 = Lp[i] + lnz[i];
+        for (let p = Lp[i]; p < p2; p++) y[Li[p]] -= Lx[p] * yi;
+        const lki = yi / D[i];
+        dk -= lki * yi;
+        Li[p2] = k;
+        Lx[p2] = lki;
+        lnz[i]++;
+      }
+      if (!(dk > 1e-14 * Math.abs(diag))) return kk;
+      D[k] = dk;
+    }
+    return -1;
+  }
+
+  /** Solves A x = b for the last factorized values. `x` may be `b`. */
+  solve(b: ArrayLike<number>, x: Float64Array = new Float64Array(this.n)): Float64Array {
+    const { n, perm, Lp, Li, Lx, D, work: w } = this;
+    for (let k = 0; k < n; k++) w[k] = b[perm[k]];
+    for (let j = 0; j < n; j++) {
+      const wj = w[j];
+      if (wj !== 0) for (let p = Lp[j]; p < Lp[j + 1]; p++) w[Li[p]] -= Lx[p] * wj;
+    }
+    for (let j = 0; j < n; j++) w[j] /= D[j];
+    for (let j = n - 1; j >= 0; j--) {
+      let wj = w[j];
+      for (let p = Lp[j]; p < Lp[j + 1]; p++) wj -= Lx[p] * w[Li[p]];
+      w[j] = wj;
+    }
+    for (let k = 0; k < n; k++) x[perm[k]] = w[k];
+    return x;
+  }
+}
+
+/** Solves the small dense system A x = b (row-major k x k) by LU with partial pivoting; null if singular. */
+export function denseSolve(A: Float64Array, b: Float64Array, k: number): Float64Array | null {
+  const m = Float64Array.from(A);
+  const x = Float64Array.from(b);
+  for (let c = 0; c < k; c++) {
+    let piv = c;
+    for (let r = c + 1; r < k; r++) if (Math.abs(m[r * k + c]) > Math.abs(m[piv * k + c])) piv = r;
+    const pv = m[piv * k + c];
+    if (!(Math.abs(pv) > 1e-300) || !Number.isFinite(pv)) return null;
+    if (piv !== c) {
+      for (let j = 0; j < k; j++) {
+        const t = m[c * k + j];
+        m[c * k + j] = m[piv * k + j];
+        m[piv * k + j] = t;
+      }
+      const t = x[c];
+      x[c] = x[piv];
+      x[piv] = t;
+    }
+    for (let r = c + 1; r < k; r++) {
+      const f = m[r * k + c] / pv;
+      if (f === 0) continue;
+      for (let j = c; j < k; j++) m[r * k + j] -= f * m[c * k + j];
+      x[r] -= f * x[c];
+    }
+  }
+  for (let r = k - 1; r >= 0; r--) {
+    let s = x[r];
+    for (let j = r + 1; j < k; j++) s -= m[r * k + j] * x[j];
+    x[r] = s / m[r * k + r];
+  }
+  for (let i = 0; i < k; i++) if (!Number.isFinite(x[i])) return null;
+  return x;
+}
