@@ -8,7 +8,7 @@
  * - Sessions are listed to their user under a public id (a hash of the session id), never the id itself.
  */
 import { DrizzlePostgreSQLAdapter } from '@lucia-auth/adapter-drizzle';
-import { Lucia, TimeSpan } from 'lucia';
+import { Lucia, TimeSpan, type Session } from 'lucia';
 import { and, eq, ne } from 'drizzle-orm';
 import type { Db } from '../db/client';
 import { sessions, users } from '../db/schema';
@@ -63,48 +63,54 @@ export function publicSessionId(sessionId: string): string {
   return sha256Hex(`session:${sessionId}`).slice(0, 20);
 }
 
-export function createSessions(db: Db) {
+function makeLucia(db: Db) {
   const adapter = new DrizzlePostgreSQLAdapter(db as never, sessions, users);
-  const lucia = new Lucia(adapter, {
+  return new Lucia(adapter, {
     sessionExpiresIn: new TimeSpan(IDLE_DAYS, 'd'),
     sessionCookie: { name: SESSION_COOKIE },
-    getSessionAttributes: (a: { createdAt: Date; userAgent: string }) => ({ createdAt: a.createdAt, userAgent: a.userAgent }),
-    getUserAttributes: (a: { email: string; name: string; createdAt: Date }) => ({
-      email: a.email,
-      name: a.name,
-      createdAt: a.createdAt,
-    }),
+    getSessionAttributes: (a) => ({ createdAt: a.createdAt, userAgent: a.userAgent }),
+    getUserAttributes: (a) => ({ email: a.email, name: a.name, createdAt: a.createdAt }),
   });
+}
 
-  function toActive(s: { id: string; userId: string; expiresAt: Date; fresh: boolean } & Record<string, unknown>): ActiveSession {
-    const createdAt = s.createdAt as Date;
+declare module 'lucia' {
+  interface Register {
+    Lucia: ReturnType<typeof makeLucia>;
+    DatabaseSessionAttributes: { createdAt: Date; userAgent: string };
+    DatabaseUserAttributes: { email: string; name: string; createdAt: Date };
+  }
+}
+
+export function createSessions(db: Db) {
+  const lucia = makeLucia(db);
+
+  function toActive(s: Session): ActiveSession {
     return {
       id: s.id,
       userId: s.userId,
-      createdAt,
-      expiresAt: effectiveExpiry(createdAt, s.expiresAt),
-      userAgent: (s.userAgent as string) ?? '',
+      createdAt: s.createdAt,
+      expiresAt: effectiveExpiry(s.createdAt, s.expiresAt),
+      userAgent: s.userAgent ?? '',
       refreshed: s.fresh,
     };
   }
 
   return {
     async createSession(userId: string, userAgent = ''): Promise<ActiveSession> {
-      const s = await lucia.createSession(userId, { createdAt: new Date(), userAgent: userAgent.slice(0, 300) } as never);
-      return { ...toActive(s as never), refreshed: true };
+      const s = await lucia.createSession(userId, { createdAt: new Date(), userAgent: userAgent.slice(0, 300) });
+      return { ...toActive(s), refreshed: true };
     },
 
     /** The session and its user, or null when unknown or expired (idle or absolute). */
     async validateSession(sessionId: string): Promise<{ session: ActiveSession; user: SessionUser } | null> {
       const { session, user } = await lucia.validateSession(sessionId);
       if (!session || !user) return null;
-      const active = toActive(session as never);
+      const active = toActive(session);
       if (active.createdAt.getTime() + ABSOLUTE_DAYS * DAY_MS <= Date.now()) {
         await lucia.invalidateSession(session.id);
         return null;
       }
-      const u = user as unknown as SessionUser;
-      return { session: active, user: { id: u.id, email: u.email, name: u.name, createdAt: u.createdAt } };
+      return { session: active, user: { id: user.id, email: user.email, name: user.name, createdAt: user.createdAt } };
     },
 
     invalidateSession(sessionId: string): Promise<void> {
@@ -123,7 +129,7 @@ export function createSessions(db: Db) {
     async listUserSessions(userId: string, currentSessionId?: string): Promise<PublicSession[]> {
       const list = await lucia.getUserSessions(userId);
       return list
-        .map((s) => toActive(s as never))
+        .map(toActive)
         .filter((s) => s.expiresAt.getTime() > Date.now())
         .sort((a, b) => b.createdAt.getTime() - a.createdAt.getTime())
         .map((s) => ({
