@@ -2,6 +2,7 @@ import { Navigate, type RouteObject } from 'react-router';
 import { AppShell, HomeRedirect, RequireAuth, TeamScope } from './app/AppShell';
 import { NotFoundPage } from './app/NotFound';
 import { RouteError } from './app/RouteError';
+import { PageLoading } from './components/States';
 import { AccountPage } from './features/account/AccountPage';
 import { SignInPage } from './features/auth/SignInPage';
 import { SignUpPage } from './features/auth/SignUpPage';
@@ -16,6 +17,8 @@ export const routes: RouteObject[] = [
   {
     path: '/',
     errorElement: <RouteError />,
+    // Shown while a lazy route (the editor) loads on a fresh page load.
+    hydrateFallbackElement: <PageLoading />,
     children: [
       { path: 'sign-in', element: <SignInPage /> },
       { path: 'sign-up', element: <SignUpPage /> },

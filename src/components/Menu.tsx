@@ -118,7 +118,7 @@ export function Menu({
 }
 
 export const menuItemClass =
-  'flex w-full items-center gap-2 px-3 py-1.5 text-left text-[13px] text-graphite-800 outline-none hover:bg-graphite-50 focus:bg-copper-50 focus:text-graphite-950';
+  'flex w-full items-center gap-2 px-3 py-1.5 text-left text-[13px] text-graphite-800 outline-none hover:bg-graphite-50 focus:bg-copper-100 focus:text-graphite-950 focus:shadow-[inset_2px_0_0_var(--color-copper-500)]';
 
 export function MenuSeparator() {
   return <div role="separator" className="my-1 h-px bg-graphite-100" />;
