@@ -245,13 +245,26 @@ const across = (x: Float64Array, ra: number, rb: number) => (ra >= 0 ? x[ra] : 0
  * backtracking line search. Returns the load currents, or an error when the loads collapse.
  */
 function solveLoads(loads: LoadColumn[], voc: Float64Array, W: Float64Array): { i: Float64Array; iterations: number } | SolveError {
+  const ids = loads.map((l) => l.el.id);
+  const collapsed = loads.filter((l, j) => constantPowerCollapsed(l.el, voc[j]));
+  if (collapsed.length) return collapseError(collapsed.map((l) => l.el.id));
+  const first = newton(loads, voc, W, voc);
+  if (first) return first;
+  // Past the fold of P = v i there is no upper operating point; a load with v_min_V then settles on
+  // its resistive branch, which Newton reaches from below v_min_V.
+  if (loads.some((l) => l.el.v_min_V !== undefined)) {
+    const start = voc.map((v, j) => (loads[j].el.v_min_V !== undefined ? loads[j].el.v_min_V! / 2 : v));
+    const second = newton(loads, voc, W, start);
+    if (second) return second;
+  }
+  return collapseError(ids);
+}
+
+function newton(loads: LoadColumn[], voc: Float64Array, W: Float64Array, start: Float64Array): { i: Float64Array; iterations: number } | null {
   const k = loads.length;
-  const v = Float64Array.from(voc);
+  const v = Float64Array.from(start);
   const i = new Float64Array(k);
   const F = new Float64Array(k);
-  const ids = loads.map((l) => l.el.id);
-  const collapsed = loads.filter((l, j) => constantPowerCollapsed(l.el, v[j]));
-  if (collapsed.length) return collapseError(collapsed.map((l) => l.el.id));
   let scale = 1;
   for (let j = 0; j < k; j++) scale = Math.max(scale, Math.abs(voc[j]));
   const tol = 1e-11 * scale;
@@ -276,9 +289,8 @@ function solveLoads(loads: LoadColumn[], voc: Float64Array, W: Float64Array): { 
       return { i, iterations: it };
     }
     for (let r = 0; r < k; r++) for (let c = 0; c < k; c++) J[r * k + c] = (r === c ? 1 : 0) + W[r * k + c] * constantPowerSlope(loads[c].el, v[c]);
-    const negF = F.map((x) => -x);
-    const step = denseSolve(J, negF, k);
-    if (!step) return collapseError(ids);
+    const step = denseSolve(J, F.map((x) => -x), k);
+    if (!step) return null;
     let alpha = 1;
     let accepted = false;
     for (let h = 0; h < 40; h++, alpha /= 2) {
@@ -297,9 +309,9 @@ function solveLoads(loads: LoadColumn[], voc: Float64Array, W: Float64Array): { 
         break;
       }
     }
-    if (!accepted) return collapseError(ids);
+    if (!accepted) return null;
   }
-  return collapseError(ids);
+  return null;
 }
 
 /**

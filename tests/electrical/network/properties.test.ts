@@ -1,0 +1,93 @@
+// Property tests (fast-check) on random networks: Kirchhoff's current law, power balance, invariance
+// under renaming nodes and reordering elements, and agreement of the fast path with the mathjs path.
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import { solveNetwork, solveNetworkReference } from '../../../shared/electrical/network/solve';
+import type { Network, SolveOutcome, SolveResult } from '../../../shared/electrical/network/types';
+import { arbitraryNetwork, kclResiduals, resultDifference } from './arbitrary';
+
+const solved = (r: SolveOutcome): SolveResult => {
+  if (!r.ok) throw new Error(`${r.error.code}: ${r.error.message}`);
+  return r;
+};
+const currentScale = (r: SolveResult) => Math.max(1, ...Object.values(r.element_currents_A).map(Math.abs));
+
+describe('solver properties', () => {
+  it('KCL holds at every node', () => {
+    fc.assert(
+      fc.property(arbitraryNetwork({ sources: true, constantPower: true }), (net) => {
+        const r = solveNetwork(net);
+        fc.pre(r.ok);
+        const res = r as SolveResult;
+        const tol = 1e-9 * currentScale(res);
+        for (const [node, sum] of kclResiduals(net, res)) {
+          if (!(Math.abs(sum) <= tol)) throw new Error(`KCL at ${node}: ${sum} A`);
+        }
+      }),
+      { numRuns: 300 },
+    );
+  });
+
+  it('source power equals losses plus load power', () => {
+    fc.assert(
+      fc.property(arbitraryNetwork({ sources: true, constantPower: true }), (net) => {
+        const r = solveNetwork(net);
+        fc.pre(r.ok);
+        const res = r as SolveResult;
+        const sum = (o: Record<string, number> | undefined) => Object.values(o ?? {}).reduce((a, b) => a + b, 0);
+        const source = sum(res.source_power_W);
+        const sink = sum(res.element_losses_W) + sum(res.load_power_W);
+        const scale = Math.max(1, ...Object.values(res.source_power_W).map(Math.abs), ...Object.values(res.element_losses_W));
+        expect(Math.abs(source - sink)).toBeLessThanOrEqual(1e-8 * scale);
+        for (const loss of Object.values(res.element_losses_W)) expect(loss).toBeGreaterThanOrEqual(0);
+      }),
+      { numRuns: 300 },
+    );
+  });
+
+  it('renaming nodes and reordering elements changes nothing', () => {
+    fc.assert(
+      fc.property(arbitraryNetwork({ sources: true, constantPower: true }), fc.integer({ min: 1, max: 1e6 }), (net, salt) => {
+        const a = solveNetwork(net);
+        fc.pre(a.ok);
+        const rename = (n: string) => `node-${(salt * 7919 + n.length * 31).toString(36)}-${n.split('').reverse().join('')}`;
+        const renamed: Network = {
+          ground: rename(net.ground),
+          elements: net.elements
+            .map((el) => {
+              const copy = { ...el } as Record<string, unknown>;
+              for (const k of ['pos', 'neg', 'a', 'b', 'from', 'to']) if (typeof copy[k] === 'string') copy[k] = rename(copy[k] as string);
+              return copy as unknown as Network['elements'][number];
+            })
+            .reverse(),
+        };
+        const b = solved(solveNetwork(renamed));
+        const ra = a as SolveResult;
+        for (const [n, v] of Object.entries(ra.node_voltages_V)) expect(Math.abs(b.node_voltages_V[rename(n)] - v)).toBeLessThanOrEqual(1e-9 * (1 + Math.abs(v)));
+        for (const [id, i] of Object.entries(ra.element_currents_A)) expect(Math.abs(b.element_currents_A[id] - i)).toBeLessThanOrEqual(1e-9 * currentScale(ra));
+      }),
+      { numRuns: 200 },
+    );
+  });
+
+  it('the fast path and the mathjs reference path agree (results and errors)', () => {
+    let solvedCount = 0;
+    fc.assert(
+      fc.property(arbitraryNetwork({ sources: true, constantPower: true, maxNodes: 12 }), (net) => {
+        const fast = solveNetwork(net);
+        const ref = solveNetworkReference(net);
+        if (!fast.ok || !ref.ok) {
+          expect(fast.ok ? 'ok' : fast.error.code).toBe(ref.ok ? 'ok' : ref.error.code);
+          return;
+        }
+        solvedCount++;
+        const d = resultDifference(fast, ref);
+        expect(d.volts).toBeLessThanOrEqual(1e-9);
+        expect(d.amps * (1 + 0)).toBeLessThanOrEqual(1e-8 * currentScale(ref));
+        expect(fast.notes.map((n) => n.code).sort()).toEqual(ref.notes.map((n) => n.code).sort());
+      }),
+      { numRuns: 400 },
+    );
+    expect(solvedCount).toBeGreaterThan(300);
+  });
+});
