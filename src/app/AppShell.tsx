@@ -105,15 +105,15 @@ export function AppShell() {
         Skip to content
       </a>
       <header className="on-dark sticky top-0 z-30 border-b border-graphite-950 bg-graphite-900 text-white">
-        <div className="mx-auto flex h-12 max-w-7xl items-center gap-3 px-4">
+        <div className="mx-auto flex max-w-7xl flex-wrap items-center gap-x-3 gap-y-1 px-4 py-2 md:h-12 md:flex-nowrap md:py-0">
           <Link to="/" className="flex items-center gap-2 rounded-md pr-1" aria-label="Bankwright home">
             <LogoMark size={26} />
             <span className="hidden text-[15px] font-semibold tracking-tight md:inline">Bankwright</span>
           </Link>
-          <span className="h-5 w-px bg-graphite-700" aria-hidden="true" />
+          <span className="hidden h-5 w-px bg-graphite-700 sm:block" aria-hidden="true" />
           <TeamSwitcher teams={me.teams} current={team} />
           {team ? (
-            <nav aria-label="Team" className="ml-2 flex items-center gap-1">
+            <nav aria-label="Team" className="order-last -mx-2 flex w-full items-center gap-1 overflow-x-auto md:order-none md:mx-0 md:ml-2 md:w-auto">
               <NavLink
                 to={`/teams/${team.id}/projects`}
                 className={({ isActive }) => navClass({ isActive: isActive || pathname.startsWith('/projects/') || pathname.startsWith('/diagrams/') })}

@@ -8,7 +8,7 @@ import { apiError, designer, mockApi, renderApp } from './helpers';
 const CAUTION = /battery banks can deliver thousands of amperes into a short.*not approval to install.*local electrical codes and licensed practice/;
 
 describe('app shell', () => {
-  it('shows the safety caution in the signed-in shell's footer', async () => {
+  it('shows the safety caution in the signed-in shell’s footer', async () => {
     mockApi({ 'GET /api/auth/me': { body: designer }, 'GET /api/projects?teamId=t-north': { body: { projects: [] } } });
     renderApp('/teams/t-north/projects');
     expect(await screen.findByRole('contentinfo')).toHaveTextContent(CAUTION);

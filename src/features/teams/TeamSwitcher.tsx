@@ -16,7 +16,7 @@ export function TeamSwitcher({ teams, current }: { teams: MembershipSummary[]; c
     <div className="flex min-w-0 items-center gap-2">
       <Menu
         label={current ? `Team: ${current.name}. Switch team` : 'Choose a team'}
-        buttonClassName="flex h-8 max-w-64 items-center gap-1.5 rounded-md px-2 text-sm font-medium text-graphite-50 hover:bg-graphite-800 aria-expanded:bg-graphite-800"
+        buttonClassName="flex h-8 max-w-full items-center sm:max-w-64 gap-1.5 rounded-md px-2 text-sm font-medium text-graphite-50 hover:bg-graphite-800 aria-expanded:bg-graphite-800"
         button={
           <>
             <span className="truncate">{current ? current.name : 'No team'}</span>
