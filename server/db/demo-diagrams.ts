@@ -1,32 +1,46 @@
 /**
- * The three demo diagram documents. shared/diagram/templates.ts (the diagram document builders) did
- * not exist when this was written, so these are minimal, empty documents of format version 1; wire
- * them to the templates when those land.
+ * The three demo diagram documents for the Gannet Island ranger station project, built with the
+ * diagram templates (shared/diagram/templates.ts). They are starting points for the demo, not designs
+ * approved to install.
  */
+import { diagramSchema, type DiagramDocument } from '../../shared/diagram/schema';
+import { busbarBankTemplate, postToPostTemplate, seriesParallelTemplate } from '../../shared/diagram/templates';
+
 export interface DemoDiagram {
   name: string;
   description: string;
-  content: Record<string, unknown>;
+  content: DiagramDocument;
 }
 
-const empty = () => ({ formatVersion: 1, settings: {}, parts: [], cables: [], annotations: [] });
+/** Battery-to-busbar run lengths, m: the batteries stand at different distances from the busbars. */
+const UNEQUAL_RUNS_M = [0.8, 1.2, 1.7, 2.4];
+
+function busbarBankWithUnequalCables(name: string): DiagramDocument {
+  const doc = busbarBankTemplate({ count: 4, name });
+  const cables = doc.cables.map((c) => {
+    const m = /^c-(pos|neg)(\d+)$/.exec(c.id);
+    if (!m) return c;
+    return { ...c, props: { ...c.props, length_m: UNEQUAL_RUNS_M[Number(m[2]) - 1] } };
+  });
+  return diagramSchema.parse({ ...doc, cables });
+}
 
 export function demoDiagramContents(): DemoDiagram[] {
   return [
     {
       name: 'Post-to-post bank, end take-off',
       description: 'Four 12 V batteries jumpered post to post, with both main cables taken off the end battery.',
-      content: empty(),
+      content: postToPostTemplate({ count: 4, takeOff: 'same-end', name: 'Post-to-post bank, end take-off' }),
     },
     {
       name: 'Busbar bank, unequal cables',
-      description: 'Four 12 V batteries on positive and negative busbars, each on its own fused cable; cable lengths differ.',
-      content: empty(),
+      description: `Four 12 V batteries on positive and negative busbars, each fused; battery cables of ${UNEQUAL_RUNS_M.join(', ')} m.`,
+      content: busbarBankWithUnequalCables('Busbar bank, unequal cables'),
     },
     {
       name: '48 V series-parallel 4S2P',
-      description: 'Two strings of four 12 V batteries in series, paralleled on busbars for the 48 V plant.',
-      content: empty(),
+      description: 'Two strings of four 12 V batteries in series, paralleled on busbars with a fuse per string.',
+      content: seriesParallelTemplate({ seriesCount: 4, parallelCount: 2, name: '48 V series-parallel 4S2P' }),
     },
   ];
 }

@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { count, eq } from 'drizzle-orm';
 import { activity, diagrams, projects } from '../../server/db/schema';
 import { newId } from '../../server/ids';
+import { diagramSchema } from '../../shared/diagram/schema';
 import { makeTestApp, type Agent, type TestApp } from '../helpers/app';
 
 let t: TestApp;
@@ -54,6 +55,15 @@ describe('projects', () => {
       updatedAt: expect.any(String),
       partCount: expect.any(Number),
     });
+    // The seeded documents are valid diagram documents, and partCount counts their parts.
+    const rows = await t.db.select().from(diagrams).where(eq(diagrams.projectId, station.id));
+    for (const d of list.body.diagrams) {
+      const row = rows.find((r) => r.id === d.id)!;
+      expect(diagramSchema.safeParse(row.content).success).toBe(true);
+      const parts = (row.content as { parts: unknown[] }).parts;
+      expect(parts.length).toBeGreaterThan(0);
+      expect(d.partCount).toBe(parts.length);
+    }
   });
 
   it('counts the parts of a diagram document', async () => {
