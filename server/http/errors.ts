@@ -67,7 +67,7 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   if (typeof status === 'number' && status >= 400 && status < 500) {
     // Other client errors raised by middleware (unsupported charset or encoding, aborted request, …).
     const code = status === 404 ? 'not_found' : status === 415 ? 'unsupported_media_type' : 'bad_request';
-    send(res, status, { error: { code, message: 'The request could not be read.' } });
+    send(res, status, { error: { code, message: status === 404 ? 'Not found.' : 'The request could not be read.' } });
     return;
   }
   console.error(`[api] ${req.method} ${req.originalUrl} failed:`, err);
