@@ -23,7 +23,6 @@ import {
   constantPowerCollapsed,
   constantPowerCurrent,
   constantPowerSlope,
-  elementCurrent,
   initialModes,
   isConstraintSource,
   nextModes,
@@ -54,6 +53,10 @@ interface LoadColumn {
 
 interface Core {
   red: Reduction;
+  /** Terminal node indices of element e: ends[2e], ends[2e + 1] (order of `terminals`). */
+  ends: Int32Array;
+  /** Which sources were eliminated; the same key means the same matrix pattern. */
+  key: string;
   factor: LdlFactor | null;
   /** K⁻¹ b of the network without its constant-power loads. */
   y0: Float64Array;
@@ -148,10 +151,25 @@ function assemble(m: number, rows: Int32Array, cols: Int32Array, vals: Float64Ar
   return { csc: { n: m, colPtr, rowIdx: r.slice(0, nz) }, ax: v.slice(0, nz) };
 }
 
-function buildCore(net: Network, topo: NetworkTopology, modes: ChargerModes): Core | SolveError {
-  const red = reduce(net, topo, modes);
+/** Terminal node indices of every element, in the order of `terminals`. */
+function elementEnds(net: Network, topo: NetworkTopology): Int32Array {
+  const ends = new Int32Array(2 * net.elements.length);
+  net.elements.forEach((el, e) => {
+    const [t1, t2] = terminals(el);
+    ends[2 * e] = topo.index.get(t1)!;
+    ends[2 * e + 1] = topo.index.get(t2)!;
+  });
+  return ends;
+}
+
+/**
+ * Reduced system K y = b, factorized. `reuse` is a factor of an earlier pass with the same eliminated
+ * sources: its ordering and symbolic analysis are kept, only the values are refactorized.
+ */
+function buildCore(net: Network, topo: NetworkTopology, modes: ChargerModes, ends: Int32Array, reuse: Core | null): Core | SolveError {
+  const key = net.elements.map((el, e) => (isConstraintSource(modes, el) ? e : -1)).filter((e) => e >= 0).join(',');
+  const red = reuse && reuse.key === key ? reuse.red : reduce(net, topo, modes);
   const { rep, off, m } = red;
-  const idx = topo.index;
   const cap = m + 4 * net.elements.length;
   const rows = new Int32Array(cap);
   const cols = new Int32Array(cap);
@@ -164,9 +182,8 @@ function buildCore(net: Network, topo: NetworkTopology, modes: ChargerModes): Co
   }
   const b = new Float64Array(m);
   const loads: LoadColumn[] = [];
-  const branch = (a: string, bn: string, g: number, J: number) => {
-    const na = idx.get(a)!;
-    const nb = idx.get(bn)!;
+  // Norton branch between nodes na, nb: current na -> nb = g (V[na] - V[nb]) - J.
+  const branch = (na: number, nb: number, g: number, J: number) => {
     const ra = rep[na];
     const rb = rep[nb];
     if (ra === rb) return;
@@ -184,34 +201,38 @@ function buildCore(net: Network, topo: NetworkTopology, modes: ChargerModes): Co
       rows[t] = rb; cols[t] = ra; vals[t++] = -g;
     }
   };
-  const inject = (into: string, outOf: string, amps: number) => {
-    const ri = rep[idx.get(into)!];
-    const ro = rep[idx.get(outOf)!];
+  const inject = (into: number, outOf: number, amps: number) => {
+    const ri = rep[into];
+    const ro = rep[outOf];
     if (ri >= 0) b[ri] += amps;
     if (ro >= 0) b[ro] -= amps;
   };
-  for (const el of net.elements) {
+  const els = net.elements;
+  for (let e = 0; e < els.length; e++) {
+    const el = els[e];
+    const n1 = ends[2 * e];
+    const n2 = ends[2 * e + 1];
     switch (el.kind) {
       case 'battery':
-        branch(el.pos, el.neg, 1 / el.r_ohm, el.ocv_V / el.r_ohm);
+        branch(n1, n2, 1 / el.r_ohm, el.ocv_V / el.r_ohm);
         break;
       case 'resistor':
       case 'load_resistor':
-        branch(el.a, el.b, 1 / el.r_ohm, 0);
+        branch(n1, n2, 1 / el.r_ohm, 0);
         break;
       case 'current_source':
-        inject(el.to, el.from, el.amps);
+        inject(n2, n1, el.amps);
         break;
-      case 'constant_power': {
-        const p = idx.get(el.pos)!;
-        const q = idx.get(el.neg)!;
-        loads.push({ el, ra: rep[p], rb: rep[q], c: off[p] - off[q] });
+      case 'constant_power':
+        loads.push({ el, ra: rep[n1], rb: rep[n2], c: off[n1] - off[n2] });
         break;
-      }
       case 'voltage_source':
         if (isConstraintSource(modes, el)) break;
-        if (modes.get(el.id) === 'cc') inject(el.pos, el.neg, el.i_max_A!);
-        else branch(el.pos, el.neg, 1 / el.r_ohm!, el.volts / el.r_ohm!);
+        if (modes.get(el.id) === 'cc') {
+          inject(n1, n2, el.i_max_A!);
+          // Keep the branch in the pattern (value 0) so a mode change keeps the symbolic analysis.
+          if (el.r_ohm !== undefined) branch(n1, n2, 0, 0);
+        } else branch(n1, n2, 1 / el.r_ohm!, el.volts / el.r_ohm!);
         break;
     }
   }
@@ -219,7 +240,7 @@ function buildCore(net: Network, topo: NetworkTopology, modes: ChargerModes): Co
   let y0 = new Float64Array(0);
   if (m > 0) {
     const { csc, ax } = assemble(m, rows, cols, vals, t);
-    factor = new LdlFactor(csc);
+    factor = reuse && reuse.key === key && reuse.factor ? reuse.factor : new LdlFactor(csc);
     const bad = factor.factor(ax);
     if (bad >= 0) {
       const nodes = topo.nodes.filter((_, i) => rep[i] === bad);
@@ -228,7 +249,7 @@ function buildCore(net: Network, topo: NetworkTopology, modes: ChargerModes): Co
     y0 = factor.solve(b);
   }
   const zLoads = loads.map((l) => (l.ra === l.rb ? null : factor!.solve(unitColumn(m, l.ra, l.rb))));
-  return { red, factor, y0, loads, zLoads };
+  return { red, ends, key, factor, y0, loads, zLoads };
 }
 
 function unitColumn(m: number, ra: number, rb: number): Float64Array {
@@ -325,6 +346,7 @@ function finish(
   core: Core,
   y0: Float64Array,
   zLoads: (Float64Array | null)[],
+  ends: Int32Array = core.ends,
 ): SolveOutcome | { nextModes: ChargerModes } {
   const { red, loads } = core;
   const k = loads.length;
@@ -358,16 +380,40 @@ function finish(
 
   // Current leaving each node into the elements that are not eliminated sources.
   const out = new Float64Array(n);
-  const currents = new Float64Array(net.elements.length);
-  net.elements.forEach((el, e) => {
-    if (isConstraintSource(modes, el)) return;
-    const I = elementCurrent(el, Vof, modes);
+  const els = net.elements;
+  const currents = new Float64Array(els.length);
+  for (let e = 0; e < els.length; e++) {
+    const el = els[e];
+    const n1 = ends[2 * e];
+    const n2 = ends[2 * e + 1];
+    const v12 = V[n1] - V[n2];
+    let I: number;
+    let through: number; // from n1 into the element towards n2
+    switch (el.kind) {
+      case 'battery':
+        I = (el.ocv_V - v12) / el.r_ohm;
+        through = -I;
+        break;
+      case 'resistor':
+      case 'load_resistor':
+        I = through = v12 / el.r_ohm;
+        break;
+      case 'current_source':
+        I = through = el.amps;
+        break;
+      case 'constant_power':
+        I = through = constantPowerCurrent(el, v12);
+        break;
+      case 'voltage_source':
+        if (isConstraintSource(modes, el)) continue;
+        I = modes.get(el.id) === 'cc' ? el.i_max_A! : (el.volts - v12) / el.r_ohm!;
+        through = -I;
+        break;
+    }
     currents[e] = I;
-    const [t1, t2] = terminals(el);
-    const through = el.kind === 'battery' || el.kind === 'voltage_source' ? -I : I;
-    out[idx.get(t1)!] += through;
-    out[idx.get(t2)!] -= through;
-  });
+    out[n1] += through;
+    out[n2] -= through;
+  }
   const constraintCurrents = new Map<string, number>();
   for (const { node, el, parent } of red.tree) {
     const src = net.elements[el] as Extract<NetworkElement, { kind: 'voltage_source' }>;
@@ -393,9 +439,12 @@ export function prepareNetwork(net: Network): PreparedNetwork | SolveError {
   if (!checked.ok) return checked;
   const topology = checked.topology;
   let modes = initialModes(net);
+  const ends = elementEnds(net, topology);
+  let previous: Core | null = null;
   for (let pass = 0; pass < MAX_MODE_PASSES; pass++) {
-    const core = buildCore(net, topology, modes);
+    const core = buildCore(net, topology, modes, ends, previous);
     if ('ok' in core) return core;
+    previous = core;
     const base = finish(net, topology, modes, core, core.y0, core.zLoads);
     if (!('nextModes' in base)) {
       return { network: net, topology, modes, base, core, stats: { unknowns: core.red.m, nnzL: core.factor?.nnzL ?? 0 } };
@@ -493,7 +542,17 @@ export function solvePrepared(prep: PreparedNetwork, changes: NetworkChange[] = 
     }
     zLoads = zc;
   }
-  const r = finish(changed, topo, modes, core, y0, zLoads);
+  let ends = core.ends;
+  if (changed.elements.length > prep.network.elements.length) {
+    ends = new Int32Array(2 * changed.elements.length);
+    ends.set(core.ends);
+    for (let e = prep.network.elements.length; e < changed.elements.length; e++) {
+      const [t1, t2] = terminals(changed.elements[e]);
+      ends[2 * e] = topo.index.get(t1)!;
+      ends[2 * e + 1] = topo.index.get(t2)!;
+    }
+  }
+  const r = finish(changed, topo, modes, core, y0, zLoads, ends);
   return 'nextModes' in r ? solveNetworkFast(changed) : r;
 }
 

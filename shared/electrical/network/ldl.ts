@@ -15,23 +15,35 @@ export interface SymmetricCsc {
 
 /**
  * Minimum-degree ordering: repeatedly eliminates a node of least degree in the elimination graph
- * (ties: lowest index), joining its neighbours into a clique. Returns order[k] = the k-th pivot.
+ * (ties: most recently updated first), joining its neighbours into a clique. Adjacency lists are
+ * plain arrays cleaned lazily; eliminating a node with a single neighbour (a leaf, e.g. a battery
+ * post on a busbar) only decrements that neighbour's degree, so stars cost O(n), not O(n²).
+ * Returns order[k] = the k-th pivot.
  */
 export function minimumDegreeOrder(a: SymmetricCsc): Int32Array {
   const { n, colPtr, rowIdx } = a;
-  const adj: (Set<number> | null)[] = new Array(n);
+  const adj: number[][] = new Array(n);
+  const stamp = new Int32Array(n).fill(-1);
+  const deg = new Int32Array(n);
   for (let j = 0; j < n; j++) {
-    const s = new Set<number>();
-    for (let p = colPtr[j]; p < colPtr[j + 1]; p++) if (rowIdx[p] !== j) s.add(rowIdx[p]);
-    adj[j] = s;
+    const list: number[] = [];
+    for (let p = colPtr[j]; p < colPtr[j + 1]; p++) {
+      const i = rowIdx[p];
+      if (i !== j && stamp[i] !== j) {
+        stamp[i] = j;
+        list.push(i);
+      }
+    }
+    adj[j] = list;
+    deg[j] = list.length;
   }
+  const eliminated = new Uint8Array(n);
   // Degree buckets as doubly linked lists.
   const head = new Int32Array(n + 1).fill(-1);
   const next = new Int32Array(n).fill(-1);
   const prev = new Int32Array(n).fill(-1);
-  const deg = new Int32Array(n);
-  const insert = (i: number, d: number) => {
-    deg[i] = d;
+  const insert = (i: number) => {
+    const d = deg[i];
     prev[i] = -1;
     next[i] = head[d];
     if (head[d] !== -1) prev[head[d]] = i;
@@ -42,7 +54,9 @@ export function minimumDegreeOrder(a: SymmetricCsc): Int32Array {
     else head[deg[i]] = next[i];
     if (next[i] !== -1) prev[next[i]] = prev[i];
   };
-  for (let i = n - 1; i >= 0; i--) insert(i, adj[i]!.size);
+  for (let i = n - 1; i >= 0; i--) insert(i);
+  stamp.fill(-1);
+  let mark = -1;
   const order = new Int32Array(n);
   let minDeg = 0;
   const nb: number[] = [];
@@ -51,23 +65,42 @@ export function minimumDegreeOrder(a: SymmetricCsc): Int32Array {
     const p = head[minDeg];
     remove(p);
     order[k] = p;
+    eliminated[p] = 1;
     nb.length = 0;
-    for (const u of adj[p]!) nb.push(u);
-    adj[p] = null;
-    for (const u of nb) adj[u]!.delete(p);
-    if (nb.length > 1) {
-      for (const u of nb) {
-        const s = adj[u]!;
-        for (const w of nb) if (w !== u) s.add(w);
-      }
+    for (const u of adj[p]) if (!eliminated[u]) nb.push(u);
+    adj[p] = [];
+    if (nb.length === 1) {
+      const u = nb[0];
+      remove(u);
+      deg[u]--;
+      insert(u);
+      if (deg[u] < minDeg) minDeg = deg[u];
+      continue;
     }
     for (const u of nb) {
-      const d = adj[u]!.size;
-      if (d !== deg[u]) {
-        remove(u);
-        insert(u, d);
+      // adj[u] := live neighbours of u, plus the other members of nb (deduplicated by a fresh mark).
+      const tag = ++mark;
+      stamp[u] = tag;
+      const list = adj[u];
+      let len = 0;
+      for (let r = 0; r < list.length; r++) {
+        const w = list[r];
+        if (!eliminated[w] && stamp[w] !== tag) {
+          stamp[w] = tag;
+          list[len++] = w;
+        }
       }
-      if (d < minDeg) minDeg = d;
+      list.length = len;
+      for (const w of nb) {
+        if (stamp[w] !== tag) {
+          stamp[w] = tag;
+          list.push(w);
+        }
+      }
+      remove(u);
+      deg[u] = list.length;
+      insert(u);
+      if (deg[u] < minDeg) minDeg = deg[u];
     }
   }
   return order;

@@ -71,25 +71,31 @@ class UnionFind {
 
 const finite = (v: number) => typeof v === 'number' && Number.isFinite(v);
 
+function badValue(el: NetworkElement, field: string, rule: string): SolveError {
+  return solveError('invalid_value', `element '${el.id}': ${field} must be ${rule} (got ${String((el as Record<string, unknown>)[field])})`, {
+    elements: [el.id],
+  });
+}
+const positive = (v: number | undefined) => v === undefined || (finite(v) && v > 0);
+const POSITIVE = 'a finite number > 0';
+
 function checkValues(el: NetworkElement): SolveError | null {
-  const bad = (field: string, rule: string) =>
-    solveError('invalid_value', `element '${el.id}': ${field} must be ${rule} (got ${String((el as Record<string, unknown>)[field])})`, {
-      elements: [el.id],
-    });
-  const positive = (field: string, v: number | undefined) => (v === undefined || (finite(v) && v > 0) ? null : bad(field, 'a finite number > 0'));
-  const anyFinite = (field: string, v: number) => (finite(v) ? null : bad(field, 'a finite number'));
   switch (el.kind) {
     case 'battery':
-      return anyFinite('ocv_V', el.ocv_V) ?? (el.r_ohm === undefined ? bad('r_ohm', 'a finite number > 0') : positive('r_ohm', el.r_ohm));
+      if (!finite(el.ocv_V)) return badValue(el, 'ocv_V', 'a finite number');
+      return el.r_ohm !== undefined && positive(el.r_ohm) ? null : badValue(el, 'r_ohm', POSITIVE);
     case 'resistor':
     case 'load_resistor':
-      return el.r_ohm === undefined ? bad('r_ohm', 'a finite number > 0') : positive('r_ohm', el.r_ohm);
+      return el.r_ohm !== undefined && positive(el.r_ohm) ? null : badValue(el, 'r_ohm', POSITIVE);
     case 'current_source':
-      return anyFinite('amps', el.amps);
+      return finite(el.amps) ? null : badValue(el, 'amps', 'a finite number');
     case 'constant_power':
-      return anyFinite('watts', el.watts) ?? positive('v_min_V', el.v_min_V);
+      if (!finite(el.watts)) return badValue(el, 'watts', 'a finite number');
+      return positive(el.v_min_V) ? null : badValue(el, 'v_min_V', POSITIVE);
     case 'voltage_source':
-      return anyFinite('volts', el.volts) ?? positive('r_ohm', el.r_ohm) ?? positive('i_max_A', el.i_max_A);
+      if (!finite(el.volts)) return badValue(el, 'volts', 'a finite number');
+      if (!positive(el.r_ohm)) return badValue(el, 'r_ohm', POSITIVE);
+      return positive(el.i_max_A) ? null : badValue(el, 'i_max_A', POSITIVE);
   }
 }
 
