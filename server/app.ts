@@ -13,7 +13,7 @@ import type { Mailer } from './mail/mailer';
 import { createSessions } from './auth/sessions';
 import { createSignInLimiter, type LimiterOptions } from './auth/rate-limit';
 import { apiNotFound, errorHandler } from './http/errors';
-import { noStore, originCheck, sessionLoader } from './http/middleware';
+import { noStore, originCheck, rejectNul, sessionLoader } from './http/middleware';
 import type { AppDeps } from './http/context';
 import { authRoutes } from './routes/auth';
 import { accountRoutes } from './routes/account';
@@ -78,6 +78,7 @@ export function createApp(options: CreateAppOptions): Express {
   api.use(noStore);
   api.use(originCheck(config, sessions));
   api.use(express.json({ limit: JSON_BODY_LIMIT }));
+  api.use(rejectNul);
   api.use(sessionLoader(config, sessions));
   api.get('/health', (_req, res) => {
     res.json({ ok: true });

@@ -2,6 +2,7 @@ import type { RequestHandler } from 'express';
 import type { Config } from '../config';
 import type { Sessions } from '../auth/sessions';
 import { ApiError } from './errors';
+import type { FieldErrors } from '../../shared/schemas/errors';
 import { secureCookies } from './context';
 
 const MUTATING = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
@@ -31,7 +32,9 @@ export function originCheck(config: Config, sessions: Sessions): RequestHandler 
 /** Loads the session from the cookie into res.locals.auth; refreshes or clears the cookie as needed. */
 export function sessionLoader(config: Config, sessions: Sessions): RequestHandler {
   return async (req, res, next) => {
-    const id = sessions.readSessionId(req.headers.cookie);
+    const raw = sessions.readSessionId(req.headers.cookie);
+    // Session ids are lucia's lowercase base32; anything else cannot be one (and must not reach SQL).
+    const id = raw && /^[a-z0-9]{1,128}$/.test(raw) ? raw : null;
     if (!id) return next();
     const found = await sessions.validateSession(id);
     const secure = secureCookies(req, config);
@@ -52,5 +55,35 @@ export function sessionLoader(config: Config, sessions: Sessions): RequestHandle
 /** API responses are per-user: never cache them. */
 export const noStore: RequestHandler = (_req, res, next) => {
   res.set('Cache-Control', 'no-store');
+  next();
+};
+
+const NUL_MESSAGE = 'Text must not contain NUL characters';
+
+function collectNul(value: unknown, path: string[], out: FieldErrors, depth = 0): void {
+  if (depth > 64) return;
+  if (typeof value === 'string') {
+    if (value.includes('\u0000')) out[path.join('.')] = [NUL_MESSAGE];
+  } else if (Array.isArray(value)) {
+    value.forEach((v, i) => collectNul(v, [...path, String(i)], out, depth + 1));
+  } else if (value && typeof value === 'object') {
+    for (const [k, v] of Object.entries(value)) {
+      if (k.includes('\u0000')) out[[...path, k].join('.')] = [NUL_MESSAGE];
+      collectNul(v, [...path, k], out, depth + 1);
+    }
+  }
+}
+
+/**
+ * PostgreSQL text and jsonb cannot hold U+0000, so a NUL anywhere in the URL or the JSON body would
+ * fail in the database (500). Refuse it up front as the user's mistake it is.
+ */
+export const rejectNul: RequestHandler = (req, _res, next) => {
+  if (/%00/i.test(req.originalUrl)) {
+    return next(new ApiError(400, 'validation_failed', 'The address contains a NUL character.', { fields: { '': [NUL_MESSAGE] } }));
+  }
+  const fields: FieldErrors = {};
+  collectNul(req.body, [], fields);
+  if (Object.keys(fields).length > 0) return next(new ApiError(400, 'validation_failed', 'Some fields need attention.', { fields }));
   next();
 };

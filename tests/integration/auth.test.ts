@@ -267,3 +267,32 @@ describe('request bodies', () => {
     expect(res.body.error.details.fields.name).toBeDefined();
   });
 });
+
+describe('hostile input never yields 500', () => {
+  it('refuses NUL characters in bodies and URLs with 400 validation_failed, storing nothing', async () => {
+    const a = await t.agentFor('owner');
+    const [before] = await t.db.select({ n: count() }).from(users);
+    const signUp = await t.agent().post('/api/auth/sign-up').send({ email: 'nul@example.test', password: 'long enough pw', name: 'a\u0000b' });
+    expect(signUp.status).toBe(400);
+    expect(signUp.body.error.details.fields).toEqual({ name: ['Text must not contain NUL characters'] });
+    expect((await t.db.select({ n: count() }).from(users))[0].n).toBe(before.n);
+    const nested = await a.post('/api/teams').send({ name: 'Fine name', extra: { list: ['ok', 'bad\u0000'] } });
+    expect(nested.status).toBe(400);
+    expect(nested.body.error.details.fields).toEqual({ 'extra.list.1': ['Text must not contain NUL characters'] });
+    for (const url of ['/api/projects/%00abc', '/api/projects?teamId=a%00', '/api/invites/x%00y']) {
+      const res = await a.get(url);
+      expect(res.status).toBe(400);
+      expect(res.body.error.code).toBe('validation_failed');
+    }
+  });
+
+  it('answers a malformed percent-encoding in the path with 400, and a garbage cookie as signed out', async () => {
+    const a = await t.agentFor('owner');
+    const res = await a.get('/api/projects/%E0%A4%A');
+    expect(res.status).toBe(400);
+    expect(res.body.error.code).toBe('bad_request');
+    const junk = await request(t.server).get('/api/auth/me').set('Cookie', 'bw_session=%00%27;%20drop');
+    expect(junk.status).toBe(401);
+    expect(junk.body.error.code).toBe('unauthenticated');
+  });
+});
