@@ -1,0 +1,190 @@
+/**
+ * One compile of a diagram and everything the analyses and rules look up from it: the network, which
+ * element belongs to which part, the bank's units and their nominal figures, cable ampacities, and the
+ * sub-networks of each mode (loads on / chargers on / neither). Built once per `analyzeDiagram` call.
+ */
+import type { DiagramDocument } from '../../diagram/schema';
+import { type CompileIssue, type CompileMap, compileDiagram } from '../compile/compile';
+import type { Network, NetworkElement } from '../network/types';
+import { batteryMaxContinuous_A, batteryOcv_V, stringMembers, type BatteryProps } from '../parts/battery';
+import { ampacity } from '../tables/ampacity';
+import type { CableRunProps } from '../parts/cable';
+import type { DiagramSettings } from '../../diagram/schema';
+import { type DiagramTopology, type SourcePart, diagramTopology, ownFuses } from './topology';
+import type { AnalysisIssue } from './types';
+
+export interface SourceUnit {
+  id: string;
+  type: 'battery' | 'series_string';
+  members: BatteryProps[];
+  /** Battery element ids in member order (bottom first). */
+  elements: string[];
+  nominal_V: number;
+  /** Smallest member capacity, Ah. */
+  capacity_Ah: number;
+  /** Smallest member continuous limit, A. */
+  maxContinuous_A: number;
+  ocv_V: number;
+  posNode: string;
+  negNode: string;
+  fuses: string[];
+}
+
+export interface AnalysisContext {
+  doc: DiagramDocument;
+  settings: DiagramSettings;
+  topo: DiagramTopology;
+  network: Network;
+  map: CompileMap;
+  compileNotes: CompileIssue[];
+  units: SourceUnit[];
+  unitById: Map<string, SourceUnit>;
+  /** Nominal voltage of every battery element, V. */
+  elementNominal_V: Map<string, number>;
+  /** Bank nominal voltage across the load (or charger) terminals, V. */
+  bankNominal_V: number;
+  /** Corrected ampacity of each cable, A (null: zero-length joint or size not in the table). */
+  ampacity_A: Map<string, number | null>;
+  /** Elements owned by loads / chargers. */
+  loadElements: Set<string>;
+  chargerElements: Set<string>;
+}
+
+export type ContextResult = { ok: true; ctx: AnalysisContext } | { ok: false; errors: AnalysisIssue[] };
+
+/**
+ * Corrected ampacity of a cable run, A: settings.ampacityTable read at the run's ambient (or the bank's),
+ * with the bundling adjustment and the engine-space column where the run is in one. A NEC 90 °C table is
+ * read at its 75 °C column for insulation rated below 90 °C (NEC 110.14(C), from memory). Null for a
+ * zero-length bolted joint or a size the table does not list.
+ */
+export function cableAmpacity_A(props: CableRunProps, settings: DiagramSettings): number | null {
+  if (props.length_m === 0) return null;
+  let table = settings.ampacityTable;
+  if (table === 'nec-310.16-90C' && props.insulation_C < 90) table = 'nec-310.16-75C';
+  const r = ampacity({
+    size: props.conductor,
+    table,
+    ambient_C: props.ambient_C ?? settings.ambient_C,
+    bundledConductors: props.installation === 'bundled' ? props.bundledConductors ?? 4 : 1,
+    engineSpace: props.installation === 'engine_space',
+  });
+  return r.ok ? r.amps : null;
+}
+
+function unitOf(p: SourcePart, map: CompileMap, topo: DiagramTopology): SourceUnit {
+  const members = p.type === 'battery' ? [p.props] : stringMembers(p.props);
+  const elements = p.type === 'battery' ? [p.id] : members.map((_, i) => `${p.id}/b${i + 1}`);
+  const nodes = map.parts[p.id].nodes;
+  return {
+    id: p.id,
+    type: p.type,
+    members,
+    elements,
+    nominal_V: members.reduce((s, b) => s + b.nominal_V, 0),
+    capacity_Ah: Math.min(...members.map((b) => b.capacity_Ah)),
+    maxContinuous_A: Math.min(...members.map((b) => batteryMaxContinuous_A(b))),
+    ocv_V: members.reduce((s, b) => s + batteryOcv_V(b), 0),
+    posNode: nodes.pos,
+    negNode: nodes.neg,
+    fuses: ownFuses(topo, p.id),
+  };
+}
+
+/**
+ * Bank nominal voltage: nodes joined by conductors share a potential; each battery element adds its
+ * nominal voltage; the bank's voltage is the difference across the first load (else the first charger,
+ * else the largest spread). Series adds volts, parallel does not (first principles).
+ */
+function nominalAcross(network: Network, nominal: Map<string, number>, terminals: [string, string] | null): number {
+  const parent = new Map<string, string>();
+  const find = (x: string): string => {
+    if (!parent.has(x)) parent.set(x, x);
+    let r = x;
+    while (parent.get(r) !== r) r = parent.get(r)!;
+    parent.set(x, r);
+    return r;
+  };
+  const adj = new Map<string, { to: string; dv: number }[]>();
+  for (const el of network.elements) if (el.kind === 'resistor' && el.role !== 'switch_open') parent.set(find(el.a), find(el.b));
+  const link = (a: string, b: string, dv: number) => {
+    if (!adj.has(a)) adj.set(a, []);
+    adj.get(a)!.push({ to: b, dv });
+  };
+  for (const el of network.elements) {
+    if (el.kind !== 'battery') continue;
+    const v = nominal.get(el.id) ?? 0;
+    link(find(el.neg), find(el.pos), v);
+    link(find(el.pos), find(el.neg), -v);
+  }
+  const pot = new Map<string, number>();
+  for (const start of adj.keys()) {
+    if (pot.has(start)) continue;
+    pot.set(start, 0);
+    const queue = [start];
+    for (let h = 0; h < queue.length; h++) {
+      const u = queue[h];
+      for (const { to, dv } of adj.get(u)!) {
+        if (!pot.has(to)) {
+          pot.set(to, pot.get(u)! + dv);
+          queue.push(to);
+        }
+      }
+    }
+  }
+  if (terminals) {
+    const a = pot.get(find(terminals[0]));
+    const b = pot.get(find(terminals[1]));
+    if (a !== undefined && b !== undefined && Math.abs(a - b) > 0) return Math.abs(a - b);
+  }
+  const values = [...pot.values()];
+  return values.length ? Math.max(...values) - Math.min(...values) : 0;
+}
+
+export function buildContext(doc: DiagramDocument): ContextResult {
+  const compiled = compileDiagram(doc);
+  if (!compiled.ok) return { ok: false, errors: compiled.errors.map((e) => ({ code: e.code, message: e.message, parts: e.parts })) };
+  const topo = diagramTopology(doc);
+  const { network, map } = compiled;
+  const units = topo.sources.map((p) => unitOf(p, map, topo));
+  const elementNominal_V = new Map<string, number>();
+  for (const u of units) u.elements.forEach((id, i) => elementNominal_V.set(id, u.members[i].nominal_V));
+  const loadElements = new Set<string>();
+  const chargerElements = new Set<string>();
+  for (const p of [...topo.loads]) for (const e of map.parts[p.id]?.elements ?? []) loadElements.add(e);
+  for (const p of topo.chargers) for (const e of map.parts[p.id]?.elements ?? []) chargerElements.add(e);
+  const across = topo.loads[0] ?? topo.chargers.find((c) => c.props.enabled) ?? null;
+  const terminals: [string, string] | null = across ? [map.parts[across.id].nodes.pos, map.parts[across.id].nodes.neg] : null;
+  const ampacity_A = new Map<string, number | null>();
+  for (const c of doc.cables) ampacity_A.set(c.id, cableAmpacity_A(c.props, doc.settings));
+  return {
+    ok: true,
+    ctx: {
+      doc,
+      settings: doc.settings,
+      topo,
+      network,
+      map,
+      compileNotes: compiled.notes,
+      units,
+      unitById: new Map(units.map((u) => [u.id, u])),
+      elementNominal_V,
+      bankNominal_V: nominalAcross(network, elementNominal_V, terminals),
+      ampacity_A,
+      loadElements,
+      chargerElements,
+    },
+  };
+}
+
+/** The network with some elements left out (e.g. loads and chargers for a fault study). */
+export function without(network: Network, drop: (el: NetworkElement) => boolean): Network {
+  return { ground: network.ground, elements: network.elements.filter((el) => !drop(el)) };
+}
+
+/** Network of a mode: 'load' has the loads and no chargers; 'charge' the chargers and no loads; 'idle' neither. */
+export function modeNetwork(ctx: AnalysisContext, kind: 'load' | 'charge' | 'idle'): Network {
+  return without(ctx.network, (el) =>
+    kind === 'load' ? ctx.chargerElements.has(el.id) : kind === 'charge' ? ctx.loadElements.has(el.id) : ctx.loadElements.has(el.id) || ctx.chargerElements.has(el.id),
+  );
+}

@@ -1,0 +1,438 @@
+/**
+ * The rule checks. Each is a small function over the diagram, the solved load case and the fault sweep;
+ * see registry.ts for how to add one. Numbers in messages are rounded for reading; the figures keep full
+ * precision.
+ */
+import { cableAmpacity_A } from '../analysis/context';
+import { branchesToBusbar, postToPostChains } from '../analysis/topology';
+import type { Finding } from '../analysis/types';
+import { batteryCells, stringMembers, type BatteryProps } from '../parts/battery';
+import { CHEMISTRIES } from '../tables/batteries';
+import type { DiagramPart } from '../../diagram/schema';
+import type { Rule, RuleInput } from './registry';
+
+/** "166.7 A", "1,250 A". */
+export function amps(x: number): string {
+  const a = Math.abs(x);
+  return a >= 1000 ? `${Math.round(x).toLocaleString('en-US')} A` : a >= 100 ? `${x.toFixed(0)} A` : `${x.toFixed(1)} A`;
+}
+const volts = (x: number) => `${x.toFixed(2)} V`;
+const pct = (x: number) => `${x.toFixed(1)} %`;
+
+function name(input: RuleInput, id: string): string {
+  const p = input.topo.parts.get(id);
+  if (p) return p.label ? `${p.label} (${p.id})` : p.id;
+  const c = input.topo.cables.get(id);
+  return c?.label ? `${c.label} (${c.id})` : id;
+}
+
+function membersOf(p: DiagramPart): BatteryProps[] {
+  if (p.type === 'battery') return [p.props];
+  if (p.type === 'series_string') return stringMembers(p.props);
+  return [];
+}
+
+const allBatteries = (input: RuleInput) => input.topo.sources.flatMap((s) => membersOf(s).map((b) => ({ part: s.id, b })));
+
+function distinct<T>(xs: T[]): T[] {
+  return [...new Set(xs)];
+}
+
+// --- Document rules ------------------------------------------------------------------------------------
+
+const structural: Rule = {
+  id: 'structure',
+  title: 'Wiring errors that stop the analysis',
+  severity: 'error',
+  basis: 'first principles',
+  needs: 'document',
+  check: (input) =>
+    input.compileErrors.map((e) => ({
+      id: `structure-${e.code.replace(/_/g, '-')}`,
+      severity: 'error' as const,
+      parts: e.parts,
+      message: e.message,
+      basis: 'first principles',
+    })),
+};
+
+const mixedChemistry: Rule = {
+  id: 'mixed-chemistry',
+  title: 'Batteries of different chemistries in one bank',
+  severity: 'error',
+  basis: 'common practice (each chemistry has its own charge voltages and resting curve)',
+  needs: 'document',
+  check(input) {
+    const all = allBatteries(input);
+    const chems = distinct(all.map((x) => x.b.chemistry));
+    if (chems.length < 2) return [];
+    return [{
+      id: this.id, severity: this.severity, basis: this.basis,
+      parts: distinct(all.map((x) => x.part)),
+      message: `The bank mixes ${chems.map((c) => CHEMISTRIES[c].name).join(' and ')}: they charge to different voltages and do not share current evenly.`,
+      suggestion: 'Use one chemistry per bank, or separate the banks with their own chargers.',
+    }];
+  },
+};
+
+const mixedNominal: Rule = {
+  id: 'mixed-nominal-voltage',
+  title: 'Batteries of different nominal voltage',
+  severity: 'warning',
+  basis: 'common practice',
+  needs: 'document',
+  check(input) {
+    const all = allBatteries(input);
+    const vs = distinct(all.map((x) => x.b.nominal_V));
+    if (vs.length < 2) return [];
+    return [{
+      id: this.id, severity: this.severity, basis: this.basis,
+      parts: distinct(all.map((x) => x.part)),
+      message: `Batteries of ${vs.map((v) => `${v} V`).join(', ')} nominal are used together.`,
+      suggestion: 'Build the bank from batteries of one nominal voltage.',
+    }];
+  },
+};
+
+/** Six months, in days: the usual limit on the age difference of lead-acid batteries in one bank (common practice). */
+const MAX_AGE_SPREAD_DAYS = 182.5;
+
+const mixedCapacityOrAge: Rule = {
+  id: 'mixed-capacity-or-age',
+  title: 'Batteries of different capacity or (lead-acid) age',
+  severity: 'warning',
+  basis: 'common practice (lead-acid: no more than about 6 months apart in age)',
+  needs: 'document',
+  check(input) {
+    const out: Finding[] = [];
+    const all = allBatteries(input);
+    const caps = distinct(all.map((x) => x.b.capacity_Ah));
+    if (caps.length > 1) {
+      out.push({
+        id: this.id, severity: this.severity, basis: 'common practice',
+        parts: distinct(all.map((x) => x.part)),
+        message: `Capacities differ (${caps.map((c) => `${c} Ah`).join(', ')}): the smaller batteries cycle deeper unless their resistance is in proportion.`,
+        suggestion: 'Use batteries of one capacity, or check the share figures for each battery.',
+      });
+    }
+    const lead = all.filter((x) => CHEMISTRIES[x.b.chemistry].mixingAgeRuleApplies);
+    const ageDays = lead
+      .map((x) => ({ part: x.part, days: x.b.installDate ? Date.parse(x.b.installDate) / 86_400_000 : x.b.age_years !== undefined ? -x.b.age_years * 365.25 : null }))
+      .filter((x): x is { part: string; days: number } => x.days !== null && Number.isFinite(x.days));
+    if (ageDays.length > 1) {
+      const lo = Math.min(...ageDays.map((x) => x.days));
+      const hi = Math.max(...ageDays.map((x) => x.days));
+      if (hi - lo > MAX_AGE_SPREAD_DAYS) {
+        out.push({
+          id: this.id, severity: this.severity, basis: this.basis,
+          parts: distinct(ageDays.map((x) => x.part)),
+          message: `Lead-acid batteries in this bank are ${((hi - lo) / 30.44).toFixed(0)} months apart in age (more than 6 months): the older ones hold the newer ones back.`,
+          suggestion: 'Replace lead-acid batteries as a set.',
+        });
+      }
+    }
+    return out;
+  },
+};
+
+const parallelWithoutFuse: Rule = {
+  id: 'parallel-battery-without-fuse',
+  title: 'A battery in parallel without its own fuse',
+  severity: 'warning',
+  basis: 'ABYC E-11 (battery conductor protected close to the battery, 7 in); common practice for each battery in parallel',
+  needs: 'document',
+  check(input) {
+    if (!input.ctx || input.ctx.units.length < 2) return [];
+    return input.ctx.units.filter((u) => u.fuses.length === 0).map((u) => ({
+      id: this.id, severity: this.severity, basis: this.basis, parts: [u.id],
+      message: `${name(input, u.id)} is in parallel with ${input.ctx!.units.length - 1} other${input.ctx!.units.length > 2 ? 's' : ''} but has no fuse of its own: a fault in it would be fed by the rest of the bank.`,
+      suggestion: 'Fit a fuse at its positive post (sizing suggests a rating).',
+    }));
+  },
+};
+
+/** Cables a fuse protects: the runs on both sides up to the first junction. */
+function protectedCables(input: RuleInput, fuseId: string): string[] {
+  return distinct([...input.topo.branch(fuseId, 'a').cables, ...input.topo.branch(fuseId, 'b').cables]);
+}
+
+const fuseAboveAmpacity: Rule = {
+  id: 'fuse-above-ampacity',
+  title: 'Fuse rating above the ampacity of the cable it protects',
+  severity: 'error',
+  basis: 'NEC 240.4 (conductor protected at or below its ampacity; recalled)',
+  needs: 'document',
+  check(input) {
+    const out: Finding[] = [];
+    for (const f of input.topo.fuses) {
+      for (const cid of protectedCables(input, f.id)) {
+        const c = input.topo.cables.get(cid)!;
+        const amp = cableAmpacity_A(c.props, input.doc.settings);
+        if (amp === null || f.props.rating_A <= amp + 1e-9) continue;
+        out.push({
+          id: this.id, severity: this.severity, basis: this.basis, parts: [f.id, cid],
+          message: `${name(input, f.id)} is rated ${amps(f.props.rating_A)} but ${name(input, cid)} carries only ${amps(amp)} (${input.doc.settings.ampacityTable}, corrected).`,
+          suggestion: 'Use a larger cable or a smaller fuse.',
+        });
+      }
+    }
+    return out;
+  },
+};
+
+/** Full-charge voltage of a unit (cells × cell full-charge voltage). */
+function fullCharge_V(p: DiagramPart): number {
+  return membersOf(p).reduce((s, b) => s + CHEMISTRIES[b.chemistry].cellFull_V * batteryCells(b), 0);
+}
+
+const fuseVoltageRating: Rule = {
+  id: 'fuse-voltage-rating',
+  title: 'Fuse voltage rating below the system voltage',
+  severity: 'error',
+  basis: 'common practice (a DC fuse must be rated for the circuit voltage)',
+  needs: 'document',
+  check(input) {
+    const sys = input.doc.settings.systemVoltage_V;
+    const full = Math.max(0, ...input.topo.sources.map(fullCharge_V).filter((v) => v >= 0.75 * sys));
+    const out: Finding[] = [];
+    for (const f of input.topo.fuses) {
+      const v = f.props.voltage_rating_V;
+      if (v < sys) {
+        out.push({
+          id: this.id, severity: 'error', basis: this.basis, parts: [f.id],
+          message: `${name(input, f.id)} is rated ${v} V DC, below the ${sys} V system voltage.`,
+          suggestion: 'Choose a fuse class rated for the system voltage.',
+        });
+      } else if (v < full) {
+        out.push({
+          id: this.id, severity: 'warning', basis: this.basis, parts: [f.id],
+          message: `${name(input, f.id)} is rated ${v} V DC, below the bank's full-charge voltage of about ${full.toFixed(1)} V.`,
+          suggestion: 'Choose a fuse rated above the charging voltage.',
+        });
+      }
+    }
+    return out;
+  },
+};
+
+const postToPostCount: Rule = {
+  id: 'post-to-post-count',
+  title: 'Too many batteries jumpered post to post',
+  severity: 'warning',
+  basis: 'common practice',
+  needs: 'document',
+  check(input) {
+    const max = input.doc.settings.maxPostToPost;
+    return postToPostChains(input.topo).filter((g) => g.length > max).map((g) => ({
+      id: this.id, severity: this.severity, basis: this.basis, parts: g,
+      message: `${g.length} batteries are chained post to post (more than ${max}): the batteries far from the take-off carry less of the load.`,
+      suggestion: 'Wire the batteries to a positive and a negative busbar with equal-length cables.',
+    }));
+  },
+};
+
+const busbarLengthSpread: Rule = {
+  id: 'busbar-cable-length-spread',
+  title: 'Unequal battery cable lengths to a busbar',
+  severity: 'warning',
+  basis: 'common practice (equal resistance to each battery)',
+  needs: 'document',
+  check(input) {
+    const tol = input.doc.settings.busbarLengthTolerance_pct;
+    const out: Finding[] = [];
+    for (const bus of input.topo.busbars) {
+      const runs = branchesToBusbar(input.topo, bus.id);
+      if (runs.length < 2) continue;
+      const lo = Math.min(...runs.map((r) => r.length_m));
+      const hi = Math.max(...runs.map((r) => r.length_m));
+      const spread = lo > 0 ? ((hi - lo) / lo) * 100 : hi > 0 ? Infinity : 0;
+      if (spread <= tol) continue;
+      const shortest = runs.find((r) => r.length_m === lo)!;
+      const longest = runs.find((r) => r.length_m === hi)!;
+      out.push({
+        id: this.id, severity: this.severity, basis: this.basis,
+        parts: [bus.id, ...distinct(runs.flatMap((r) => r.cables))],
+        message: `Cable runs to ${name(input, bus.id)} range from ${lo.toFixed(2)} m (${shortest.source}) to ${hi.toFixed(2)} m (${longest.source}), ${Number.isFinite(spread) ? pct(spread) : 'unbounded'} apart (tolerance ${tol} %).`,
+        suggestion: 'Make the battery cables the same length (the optimizer can equalise them).',
+      });
+    }
+    return out;
+  },
+};
+
+const bothLeadsOneBattery: Rule = {
+  id: 'both-leads-one-battery',
+  title: 'Both main leads taken from one battery',
+  severity: 'warning',
+  basis: 'first principles (the take-off battery carries the most current); common practice: diagonal take-off or busbars',
+  needs: 'document',
+  check(input) {
+    if (input.topo.sources.length < 2) return [];
+    const out: Finding[] = [];
+    for (const load of input.topo.loads) {
+      const p = input.topo.branch(load.id, 'pos').end;
+      const n = input.topo.branch(load.id, 'neg').end;
+      const part = input.topo.parts.get(p.part);
+      if (p.part !== n.part || !part || (part.type !== 'battery' && part.type !== 'series_string')) continue;
+      out.push({
+        id: this.id, severity: this.severity, basis: this.basis, parts: [load.id, p.part],
+        message: `${name(input, load.id)} takes both its positive and negative from ${name(input, p.part)}: that battery carries more than its share.`,
+        suggestion: 'Take the negative from the battery at the other end of the bank (diagonal), or use busbars.',
+      });
+    }
+    return out;
+  },
+};
+
+// --- Load-case rules ---------------------------------------------------------------------------------------
+
+const fuseBelowDesignCurrent: Rule = {
+  id: 'fuse-below-design-current',
+  title: 'Fuse rating below the expected current × design margin',
+  severity: 'warning',
+  basis: 'NEC 210.20(A) / 215.3 (125 % of continuous load); common practice 1.25–1.5 over each battery\u2019s share',
+  needs: 'load',
+  check(input) {
+    const margin = input.doc.settings.designMargin;
+    const out: Finding[] = [];
+    for (const f of input.topo.fuses) {
+      const i = Math.abs(input.load!.parts[f.id]?.current_A ?? 0);
+      if (f.props.rating_A + 1e-9 >= i * margin) continue;
+      out.push({
+        id: this.id, severity: i > f.props.rating_A ? 'error' : this.severity, basis: this.basis, parts: [f.id],
+        message: `${name(input, f.id)} carries ${amps(i)} in the load case; × ${margin} margin needs at least ${amps(i * margin)}, but it is rated ${amps(f.props.rating_A)}.`,
+        suggestion: 'Use the next standard rating above the expected current × margin (see sizing), and a cable to match.',
+      });
+    }
+    return out;
+  },
+};
+
+const cableOverAmpacity: Rule = {
+  id: 'cable-over-ampacity',
+  title: 'Cable current above its ampacity',
+  severity: 'error',
+  basis: 'NEC 310.16 / 33 CFR 183.425 ampacity tables with temperature and bundling correction',
+  needs: 'load',
+  check(input) {
+    const out: Finding[] = [];
+    for (const [id, c] of Object.entries(input.load!.cables)) {
+      if (c.ampacity_A === null || Math.abs(c.current_A) <= c.ampacity_A) continue;
+      out.push({
+        id: this.id, severity: this.severity, basis: `${input.doc.settings.ampacityTable}, corrected`, parts: [id],
+        message: `${name(input, id)} carries ${amps(Math.abs(c.current_A))}, above its ampacity of ${amps(c.ampacity_A)} (${pct(c.utilisation_pct ?? 0)}).`,
+        suggestion: 'Use a larger conductor.',
+      });
+    }
+    return out;
+  },
+};
+
+const voltageDrop: Rule = {
+  id: 'voltage-drop',
+  title: 'Voltage drop above the limit',
+  severity: 'warning',
+  basis: 'NEC 210.19(A) informational note (3 % branch circuit); ABYC E-11 (3 % for critical circuits)',
+  needs: 'load',
+  check(input) {
+    const limit = input.doc.settings.voltageDropLimit_pct;
+    const out: Finding[] = [];
+    for (const load of input.topo.loads) {
+      const f = input.load!.parts[load.id];
+      if (!f || f.drop_pct === undefined || f.drop_pct <= limit) continue;
+      out.push({
+        id: this.id, severity: this.severity, basis: this.basis, parts: [load.id],
+        message: `${name(input, load.id)} sees ${volts(f.voltage_V ?? 0)}: a wiring drop of ${volts(f.drop_V ?? 0)}, ${pct(f.drop_pct)} of ${input.doc.settings.systemVoltage_V} V (limit ${limit} %).`,
+        suggestion: 'Shorten the runs or use larger conductors.',
+      });
+    }
+    return out;
+  },
+};
+
+const batteryOverContinuous: Rule = {
+  id: 'battery-over-continuous',
+  title: 'Battery current above its continuous discharge limit',
+  severity: 'error',
+  basis: 'battery rating (max_continuous_A, else max C-rate × capacity, else the chemistry\u2019s typical C-rate, from memory)',
+  needs: 'load',
+  check(input) {
+    const out: Finding[] = [];
+    for (const [id, s] of Object.entries(input.load!.sources)) {
+      if (s.current_A <= s.maxContinuous_A) continue;
+      out.push({
+        id: this.id, severity: this.severity, basis: this.basis, parts: [id],
+        message: `${name(input, id)} delivers ${amps(s.current_A)}, above its continuous limit of ${amps(s.maxContinuous_A)} (${s.cRate.toFixed(2)} C).`,
+        suggestion: 'Add batteries in parallel, reduce the load, or balance the bank so this battery carries less.',
+      });
+    }
+    return out;
+  },
+};
+
+const imbalance: Rule = {
+  id: 'current-imbalance',
+  title: 'Current shares out of balance',
+  severity: 'warning',
+  basis: 'common practice',
+  needs: 'load',
+  check(input) {
+    const lim = input.doc.settings.imbalanceThreshold_pct;
+    const op = input.load!;
+    if (op.imbalance_pct <= lim) return [];
+    const entries = Object.entries(op.sources).filter(([, s]) => s.idealShare_pct > 0);
+    const ratio = (s: (typeof entries)[number][1]) => s.share_pct / s.idealShare_pct;
+    const hi = entries.reduce((a, b) => (ratio(b[1]) > ratio(a[1]) ? b : a));
+    const lo = entries.reduce((a, b) => (ratio(b[1]) < ratio(a[1]) ? b : a));
+    return [{
+      id: this.id, severity: this.severity, basis: this.basis, parts: [hi[0], lo[0]],
+      message: `Bank imbalance ${pct(op.imbalance_pct)} (limit ${lim} %): ${name(input, hi[0])} carries ${amps(hi[1].current_A)} (${pct(hi[1].share_pct)} against an ideal ${pct(hi[1].idealShare_pct)}), ${name(input, lo[0])} ${amps(lo[1].current_A)} (${pct(lo[1].share_pct)}).`,
+      suggestion: 'Move the take-off (see the optimizer), or equalise cable lengths to the busbars.',
+    }];
+  },
+};
+
+// --- Fault rules -------------------------------------------------------------------------------------------
+
+const interruptingRating: Rule = {
+  id: 'interrupting-rating',
+  title: 'Interrupting rating below the prospective fault current',
+  severity: 'error',
+  basis: 'common practice (interrupting rating at least the prospective short-circuit current; ABYC E-11 wording recalled)',
+  needs: 'faults',
+  check(input) {
+    const out: Finding[] = [];
+    const sweep = input.faults!;
+    for (const f of input.topo.fuses) {
+      const m = sweep.maxByFuse[f.id];
+      if (!m || m.current_A <= f.props.interrupting_A) continue;
+      const c = sweep.cases[m.case];
+      out.push({
+        id: this.id, severity: this.severity, basis: this.basis, parts: [f.id, ...(c ? [c.part] : [])],
+        message: `${name(input, f.id)} may have to break ${amps(m.current_A)}${c ? ` (${c.label})` : ''}, above its interrupting rating of ${amps(f.props.interrupting_A)}.`,
+        suggestion: 'Use a fuse class with a higher DC interrupting rating (e.g. Class T).',
+      });
+    }
+    return out;
+  },
+};
+
+/** Every rule, in the order findings of equal severity are listed. */
+export const RULES: readonly Rule[] = [
+  structural,
+  mixedChemistry,
+  mixedNominal,
+  mixedCapacityOrAge,
+  parallelWithoutFuse,
+  fuseAboveAmpacity,
+  fuseVoltageRating,
+  interruptingRating,
+  fuseBelowDesignCurrent,
+  cableOverAmpacity,
+  voltageDrop,
+  batteryOverContinuous,
+  postToPostCount,
+  busbarLengthSpread,
+  imbalance,
+  bothLeadsOneBattery,
+];
