@@ -194,7 +194,7 @@ export function billOfMaterials(doc: DiagramDocument, opts: BomOptions): BillOfM
   // Lugs: two per cable (one per end); ends that land on a lug part take its stud.
   const lugPartsReached = new Set<string>();
   const addLug = (conductor: ConductorSize | null, material: string, stud: string | undefined, partId: string) => {
-    const forWhat = conductor ? `for ${formatConductor(conductor, us).text} ${materialName(material)}` : 'conductor size not set';
+    const forWhat = conductor ? `for ${formatConductor(conductor, us).text} ${materialName(material)}` : '(conductor size not set)';
     const kind = material === 'aluminium' ? 'Crimp lug (aluminium/bimetal)' : 'Crimp lug';
     lines.add('lugs', `${conductor ? conductorKey(conductor) : '-'}|${material}|${stud ?? ''}`, `${kind} ${forWhat}, ${lugStudText(stud)}`, 1, 'pcs', partId);
   };
