@@ -20,8 +20,19 @@ import { accountRoutes } from './routes/account';
 import { teamRoutes } from './routes/teams';
 import { inviteRoutes } from './routes/invites';
 import { projectRoutes } from './routes/projects';
+import { diagramRoutes } from './routes/diagrams';
 
 export const JSON_BODY_LIMIT = '1mb';
+/** Routes that carry a whole diagram document (up to 2,000 parts and 5,000 cables) take larger bodies. */
+export const DIAGRAM_BODY_LIMIT = '5mb';
+const DIAGRAM_BODY_ROUTES = [/^\/projects\/[^/]+\/diagrams\/?$/, /^\/diagrams\/[^/]+\/(working-copy|revisions)\/?$/];
+
+/** JSON body parser: DIAGRAM_BODY_LIMIT on the diagram document routes, JSON_BODY_LIMIT everywhere else. */
+function jsonBodies(): RequestHandler {
+  const small = express.json({ limit: JSON_BODY_LIMIT });
+  const large = express.json({ limit: DIAGRAM_BODY_LIMIT });
+  return (req, res, next) => (DIAGRAM_BODY_ROUTES.some((re) => re.test(req.path)) ? large : small)(req, res, next);
+}
 
 export type ClientServing =
   | { mode: 'static'; dir: string }
@@ -77,7 +88,7 @@ export function createApp(options: CreateAppOptions): Express {
   const api = express.Router();
   api.use(noStore);
   api.use(originCheck(config, sessions));
-  api.use(express.json({ limit: JSON_BODY_LIMIT }));
+  api.use(jsonBodies());
   api.use(rejectNul);
   api.use(sessionLoader(config, sessions));
   api.get('/health', (_req, res) => {
@@ -88,6 +99,7 @@ export function createApp(options: CreateAppOptions): Express {
   api.use('/teams', teamRoutes(deps));
   api.use('/invites', inviteRoutes(deps));
   api.use('/projects', projectRoutes(deps));
+  api.use('/diagrams', diagramRoutes(deps));
   api.use(apiNotFound);
   api.use(errorHandler);
   app.use('/api', api);

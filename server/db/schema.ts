@@ -6,7 +6,7 @@
  * id simply matches no row.
  */
 import { sql } from 'drizzle-orm';
-import { check, index, jsonb, pgTable, primaryKey, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core';
+import { check, integer, index, jsonb, pgTable, primaryKey, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core';
 import type { Role } from '../../shared/roles';
 
 const createdAt = () => timestamp('created_at', { withTimezone: true, mode: 'date' }).notNull().defaultNow();
@@ -123,6 +123,10 @@ export const diagrams = pgTable(
     description: text('description').notNull().default(''),
     /** Working copy of the diagram document (shared/diagram). */
     content: jsonb('content').notNull().default(sql`'{}'::jsonb`),
+    /** Optimistic concurrency of the working copy: +1 on every save (PUT …/working-copy). */
+    workingCopyVersion: integer('working_copy_version').notNull().default(1),
+    /** Who last changed the working copy or the diagram's name and description. */
+    updatedBy: text('updated_by').references(() => users.id, { onDelete: 'set null' }),
     createdBy: text('created_by').references(() => users.id, { onDelete: 'set null' }),
     createdAt: createdAt(),
     updatedAt: updatedAt(),

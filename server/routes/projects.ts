@@ -1,10 +1,12 @@
 import { Router } from 'express';
 import { z } from 'zod';
 import { createProjectSchema, updateProjectSchema } from '../../shared/schemas/projects';
+import { createDiagramSchema } from '../../shared/schemas/diagrams';
 import { requireAuth, type AppDeps } from '../http/context';
 import { parse } from '../http/validate';
 import { requireProjectRole, requireTeamRole } from '../services/access';
 import { createProject, deleteProject, getProject, listDiagrams, listProjects, updateProject } from '../services/projects';
+import { createDiagram } from '../services/diagrams';
 
 const listQuery = z.object({ teamId: z.string({ error: 'teamId is required' }).min(1, 'teamId is required') });
 
@@ -50,6 +52,13 @@ export function projectRoutes(deps: AppDeps): Router {
     const { user } = requireAuth(res);
     await requireProjectRole(db, user.id, req.params.id, 'project.read');
     res.json({ diagrams: await listDiagrams(db, req.params.id) });
+  });
+
+  r.post('/:id/diagrams', async (req, res) => {
+    const { user } = requireAuth(res);
+    await requireProjectRole(db, user.id, req.params.id, 'diagram.edit');
+    const input = parse(createDiagramSchema, req.body);
+    res.status(201).json({ diagram: await createDiagram(db, user.id, req.params.id, input) });
   });
 
   return r;

@@ -5,7 +5,7 @@
 import { and, eq } from 'drizzle-orm';
 import { can, type Permission, type Role } from '../../shared/roles';
 import type { DbOrTx } from '../db/client';
-import { memberships, projects } from '../db/schema';
+import { diagrams, memberships, projects } from '../db/schema';
 import { forbidden, notFound } from '../http/errors';
 
 export async function membershipRole(db: DbOrTx, userId: string, teamId: string): Promise<Role | null> {
@@ -38,6 +38,26 @@ export async function requireProjectRole(
     .innerJoin(memberships, and(eq(memberships.teamId, projects.teamId), eq(memberships.userId, userId)))
     .where(eq(projects.id, projectId));
   if (!row) throw notFound('No such project.');
+  if (!can(row.role, permission)) throw forbidden();
+  return row;
+}
+
+export type DiagramRow = typeof diagrams.$inferSelect;
+
+/** The diagram with its project and the caller's role in the project's team (404 / 403 as above). */
+export async function requireDiagramRole(
+  db: DbOrTx,
+  userId: string,
+  diagramId: string,
+  permission: Permission,
+): Promise<{ diagram: DiagramRow; project: ProjectRow; role: Role }> {
+  const [row] = await db
+    .select({ diagram: diagrams, project: projects, role: memberships.role })
+    .from(diagrams)
+    .innerJoin(projects, eq(projects.id, diagrams.projectId))
+    .innerJoin(memberships, and(eq(memberships.teamId, projects.teamId), eq(memberships.userId, userId)))
+    .where(eq(diagrams.id, diagramId));
+  if (!row) throw notFound('No such diagram.');
   if (!can(row.role, permission)) throw forbidden();
   return row;
 }

@@ -9,10 +9,11 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
-import { invites, memberships, projects, teams, users } from '../../server/db/schema';
+import { diagrams, invites, memberships, projects, teams, users } from '../../server/db/schema';
 import { newId, newToken, sha256Hex } from '../../server/ids';
 import { hashPassword } from '../../server/auth/passwords';
 import { makeTestApp, DEMO_PASSWORD, type Agent, type TestApp } from '../helpers/app';
+import { smallBank } from './fixtures';
 
 const ROLES = ['owner', 'designer', 'reviewer', 'trainer', 'viewer'] as const;
 type DemoRole = (typeof ROLES)[number];
@@ -26,6 +27,7 @@ const GRANTED: Record<string, readonly DemoRole[]> = {
   'project.create': ['owner', 'designer'],
   'project.edit': ['owner', 'designer'],
   'outbox.read': ['owner'],
+  'diagram.edit': ['owner', 'designer'],
 };
 
 type Requirement =
@@ -35,7 +37,7 @@ type Requirement =
   | { kind: 'permission'; permission: keyof typeof GRANTED };
 
 interface Call {
-  method: 'get' | 'post' | 'patch' | 'delete';
+  method: 'get' | 'post' | 'put' | 'patch' | 'delete';
   url: string;
   body?: unknown;
 }
@@ -62,6 +64,7 @@ function expected(c: RouteCase, actor: Actor): number {
 let t: TestApp;
 let teamId: string;
 let projectId: string;
+let diagramId: string;
 const OUTSIDER_EMAIL = 'outsider@elsewhere.test';
 const OUTSIDER_PASSWORD = 'outsider password 1';
 let placeholderHash: string;
@@ -79,6 +82,11 @@ function passwordOf(actor: Actor): string {
 async function freshProject(): Promise<string> {
   const id = newId();
   await t.db.insert(projects).values({ id, teamId, name: unique('Matrix project ') });
+  return id;
+}
+async function freshDiagram(): Promise<string> {
+  const id = newId();
+  await t.db.insert(diagrams).values({ id, projectId, name: unique('Matrix diagram '), content: smallBank() });
   return id;
 }
 async function freshMember(): Promise<string> {
@@ -242,6 +250,36 @@ const ROUTES: RouteCase[] = [
     success: 200,
     call: async () => ({ method: 'get', url: `/api/projects/${projectId}/diagrams` }),
   },
+  {
+    route: 'POST /api/projects/:id/diagrams',
+    requires: { kind: 'permission', permission: 'diagram.edit' },
+    success: 201,
+    call: async () => ({ method: 'post', url: `/api/projects/${projectId}/diagrams`, body: { name: unique('Created diagram ') } }),
+  },
+  {
+    route: 'GET /api/diagrams/:id',
+    requires: { kind: 'permission', permission: 'project.read' },
+    success: 200,
+    call: async () => ({ method: 'get', url: `/api/diagrams/${diagramId}` }),
+  },
+  {
+    route: 'PUT /api/diagrams/:id/working-copy',
+    requires: { kind: 'permission', permission: 'diagram.edit' },
+    success: 200,
+    call: async () => ({ method: 'put', url: `/api/diagrams/${await freshDiagram()}/working-copy`, body: { content: smallBank('Matrix edit'), baseVersion: 1 } }),
+  },
+  {
+    route: 'PATCH /api/diagrams/:id',
+    requires: { kind: 'permission', permission: 'diagram.edit' },
+    success: 200,
+    call: async () => ({ method: 'patch', url: `/api/diagrams/${await freshDiagram()}`, body: { description: 'Edited in the matrix' } }),
+  },
+  {
+    route: 'DELETE /api/diagrams/:id',
+    requires: { kind: 'permission', permission: 'diagram.edit' },
+    success: 204,
+    call: async () => ({ method: 'delete', url: `/api/diagrams/${await freshDiagram()}` }),
+  },
 ];
 
 const agents = new Map<Actor, Agent>();
@@ -256,6 +294,7 @@ beforeAll(async () => {
   const owner = await t.agentFor('owner');
   teamId = (await owner.get('/api/teams')).body.teams[0].id;
   projectId = (await owner.get(`/api/projects?teamId=${teamId}`)).body.projects[0].id;
+  diagramId = await freshDiagram();
   // The outsider owns a team of their own, so "member of another team" is a real member.
   const outsider = t.agent();
   expect((await outsider.post('/api/auth/sign-up').send({ email: OUTSIDER_EMAIL, password: OUTSIDER_PASSWORD, name: 'Outsider' })).status).toBe(201);
@@ -267,8 +306,8 @@ afterAll(async () => {
 });
 
 describe('authorization matrix', () => {
-  it('lists all 28 foundation routes (add each new route here)', () => {
-    expect(ROUTES.map((r) => r.route)).toHaveLength(28);
+  it('lists all 33 routes (add each new route here)', () => {
+    expect(ROUTES.map((r) => r.route)).toHaveLength(33);
   });
 
   for (const c of ROUTES) {

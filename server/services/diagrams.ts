@@ -1,0 +1,119 @@
+/**
+ * Diagrams and their working copy: the document the editor autosaves. The working copy is guarded by
+ * `workingCopyVersion` (optimistic concurrency): a save names the version it started from and is refused
+ * with 409 working_copy_conflict when someone saved since. Revisions (immutable snapshots) are in
+ * ./revisions.ts.
+ */
+import { and, eq, sql } from 'drizzle-orm';
+import { alias } from 'drizzle-orm/pg-core';
+import { emptyDiagram, type DiagramDocument } from '../../shared/diagram/schema';
+import type { Db, DbOrTx } from '../db/client';
+import { activity, diagrams, projects, users } from '../db/schema';
+import { conflict, notFound } from '../http/errors';
+import { newId } from '../ids';
+
+const updater = alias(users, 'updater');
+
+const diagramColumns = {
+  id: diagrams.id,
+  projectId: diagrams.projectId,
+  teamId: projects.teamId,
+  projectName: projects.name,
+  name: diagrams.name,
+  description: diagrams.description,
+  content: diagrams.content,
+  workingCopyVersion: diagrams.workingCopyVersion,
+  createdAt: diagrams.createdAt,
+  updatedAt: diagrams.updatedAt,
+  updatedById: updater.id,
+  updatedByName: updater.name,
+};
+
+function selectDiagrams(db: DbOrTx) {
+  return db
+    .select(diagramColumns)
+    .from(diagrams)
+    .innerJoin(projects, eq(projects.id, diagrams.projectId))
+    .leftJoin(updater, eq(updater.id, diagrams.updatedBy));
+}
+
+type DiagramSelect = Awaited<ReturnType<typeof selectDiagrams>>[number];
+
+function publicDiagram(row: DiagramSelect) {
+  const { updatedById, updatedByName, ...rest } = row;
+  return { ...rest, updatedBy: updatedById && updatedByName !== null ? { id: updatedById, name: updatedByName } : null };
+}
+
+export type DiagramRecord = ReturnType<typeof publicDiagram>;
+
+export async function getDiagram(db: DbOrTx, diagramId: string) {
+  const [row] = await selectDiagrams(db).where(eq(diagrams.id, diagramId));
+  if (!row) throw notFound('No such diagram.');
+  return publicDiagram(row);
+}
+
+export async function createDiagram(
+  db: Db,
+  userId: string,
+  projectId: string,
+  input: { name: string; description: string; content?: DiagramDocument },
+  action: { action: string; detail?: Record<string, unknown> } = { action: 'diagram.created' },
+) {
+  const id = newId();
+  const content = input.content ?? emptyDiagram(input.name);
+  await db.transaction(async (tx) => {
+    await tx.insert(diagrams).values({ id, projectId, name: input.name, description: input.description, content, createdBy: userId, updatedBy: userId });
+    await tx.insert(activity).values({ id: newId(), projectId, userId, action: action.action, detail: { diagramId: id, name: input.name, ...action.detail } });
+  });
+  return getDiagram(db, id);
+}
+
+export async function updateDiagram(db: Db, userId: string, diagramId: string, input: { name?: string; description?: string }) {
+  await db.transaction(async (tx) => {
+    const [before] = await tx.select({ name: diagrams.name, projectId: diagrams.projectId }).from(diagrams).where(eq(diagrams.id, diagramId)).for('update');
+    if (!before) throw notFound('No such diagram.');
+    await tx
+      .update(diagrams)
+      .set({ ...input, updatedAt: new Date(), updatedBy: userId })
+      .where(eq(diagrams.id, diagramId));
+    const renamed = input.name !== undefined && input.name !== before.name;
+    await tx.insert(activity).values({
+      id: newId(),
+      projectId: before.projectId,
+      userId,
+      action: renamed ? 'diagram.renamed' : 'diagram.updated',
+      detail: { diagramId, name: input.name ?? before.name, ...(renamed ? { previousName: before.name } : {}), fields: Object.keys(input) },
+    });
+  });
+  return getDiagram(db, diagramId);
+}
+
+export async function deleteDiagram(db: Db, userId: string, diagramId: string) {
+  await db.transaction(async (tx) => {
+    const [gone] = await tx.delete(diagrams).where(eq(diagrams.id, diagramId)).returning({ projectId: diagrams.projectId, name: diagrams.name });
+    if (!gone) throw notFound('No such diagram.');
+    await tx.insert(activity).values({ id: newId(), projectId: gone.projectId, userId, action: 'diagram.deleted', detail: { diagramId, name: gone.name } });
+  });
+}
+
+/**
+ * Replace the working copy when `baseVersion` is still the current version (one atomic UPDATE, so two
+ * concurrent saves from the same version cannot both succeed). Working-copy saves are autosaves and are
+ * not written to the activity log; saved revisions are.
+ */
+export async function saveWorkingCopy(db: Db, userId: string, diagramId: string, content: DiagramDocument, baseVersion: number) {
+  const [saved] = await db
+    .update(diagrams)
+    .set({ content, workingCopyVersion: sql`${diagrams.workingCopyVersion} + 1`, updatedAt: new Date(), updatedBy: userId })
+    .where(and(eq(diagrams.id, diagramId), eq(diagrams.workingCopyVersion, baseVersion)))
+    .returning({ workingCopyVersion: diagrams.workingCopyVersion, updatedAt: diagrams.updatedAt });
+  if (saved) return saved;
+  const current = await getDiagram(db, diagramId);
+  throw conflict(
+    'working_copy_conflict',
+    current.updatedBy
+      ? `${current.updatedBy.name} saved this diagram since you opened it (version ${current.workingCopyVersion}).`
+      : `This diagram was saved since you opened it (version ${current.workingCopyVersion}).`,
+    { workingCopyVersion: current.workingCopyVersion, updatedAt: current.updatedAt, updatedBy: current.updatedBy },
+  );
+}

@@ -1,0 +1,57 @@
+/** API bodies for diagrams, their working copy and their revisions. The document itself is shared/diagram/schema.ts. */
+import { z } from 'zod';
+import { diagramSchema } from '../diagram/schema';
+
+const name = z.string().trim().min(1, 'Diagram name is required').max(120, 'Diagram name is too long');
+const description = z.string().trim().max(2000, 'Description is too long');
+const message = z.string().trim().max(500, 'Message is too long');
+
+export const createDiagramSchema = z.object({
+  name,
+  description: description.default(''),
+  /** The diagram document; an empty diagram when missing. */
+  content: diagramSchema.optional(),
+});
+export type CreateDiagramInput = z.input<typeof createDiagramSchema>;
+
+export const updateDiagramSchema = z
+  .object({ name, description })
+  .partial()
+  .refine((v) => Object.keys(v).length > 0, { message: 'Nothing to update' });
+export type UpdateDiagramInput = z.input<typeof updateDiagramSchema>;
+
+export const workingCopySchema = z.object({
+  content: diagramSchema,
+  /** The workingCopyVersion this edit started from. */
+  baseVersion: z.int('baseVersion must be a whole number').min(1, 'baseVersion must be at least 1'),
+});
+export type WorkingCopyInput = z.input<typeof workingCopySchema>;
+
+export const saveRevisionSchema = z.object({
+  /** The number of the latest revision this edit started from; null for a diagram's first revision. */
+  baseRevision: z.int('baseRevision must be a whole number or null').min(1, 'baseRevision must be at least 1').nullable(),
+  message: message.default(''),
+  content: diagramSchema,
+});
+export type SaveRevisionInput = z.input<typeof saveRevisionSchema>;
+
+export const restoreRevisionSchema = z.object({ message: message.optional() });
+export type RestoreRevisionInput = z.input<typeof restoreRevisionSchema>;
+
+export const duplicateDiagramSchema = z.object({
+  name,
+  description: description.optional(),
+  /** Copy this revision; without it, the latest revision (or the working copy when there is none). */
+  revision: z.int('revision must be a whole number').min(1, 'revision must be at least 1').optional(),
+});
+export type DuplicateDiagramInput = z.input<typeof duplicateDiagramSchema>;
+
+export const REVISION_STATES = ['draft', 'in_review', 'changes_requested', 'approved'] as const;
+export type RevisionState = (typeof REVISION_STATES)[number];
+
+export const REVISION_STATE_LABELS: Record<RevisionState, string> = {
+  draft: 'Draft',
+  in_review: 'In review',
+  changes_requested: 'Changes requested',
+  approved: 'Approved',
+};
