@@ -277,6 +277,7 @@ const FIELDS: Record<string, { label: string; fmt: Fmt }> = {
   // Document, parts, cables
   label: { label: 'Label', fmt: quoted },
   name: { label: 'Name', fmt: quoted },
+  text: { label: 'Text', fmt: quoted },
 };
 
 const lowerFirst = (s: string) => s.charAt(0).toLowerCase() + s.slice(1);
@@ -568,28 +569,29 @@ export function diffResultsSummaries(a: ResultsSummary, b: ResultsSummary): Resu
     if (!aIds.has(y.id)) batteries.push({ id: y.id, label: y.label, b: { current_A: y.current_A, share: y.share } });
   }
 
-  // Multiset match: two identical findings in A and one in B leave one resolved.
-  const pool = new Map<string, number>();
-  for (const f of a.findings) pool.set(findingKey(f), (pool.get(findingKey(f)) ?? 0) + 1);
-  const findingsAdded: ResultsFinding[] = [];
-  const findingsKept: ResultsFinding[] = [];
-  for (const f of b.findings) {
-    const k = findingKey(f);
-    const left = pool.get(k) ?? 0;
-    if (left > 0) {
-      pool.set(k, left - 1);
-      findingsKept.push(f);
-    } else findingsAdded.push(f);
-  }
-  const findingsResolved: ResultsFinding[] = [];
-  for (const f of a.findings) {
-    const k = findingKey(f);
-    const left = pool.get(k) ?? 0;
-    if (left > 0) {
-      pool.set(k, left - 1);
-      findingsResolved.push(f);
+  // Multiset match, first to first: two identical findings in A and one in B leave A's second resolved.
+  const count = (fs: readonly ResultsFinding[]) => {
+    const m = new Map<string, number>();
+    for (const f of fs) m.set(findingKey(f), (m.get(findingKey(f)) ?? 0) + 1);
+    return m;
+  };
+  const unmatched = (fs: readonly ResultsFinding[], other: Map<string, number>) => {
+    const out: ResultsFinding[] = [];
+    const kept: ResultsFinding[] = [];
+    for (const f of fs) {
+      const k = findingKey(f);
+      const left = other.get(k) ?? 0;
+      if (left > 0) {
+        other.set(k, left - 1);
+        kept.push(f);
+      } else out.push(f);
     }
-  }
+    return { out, kept };
+  };
+  const added = unmatched(b.findings, count(a.findings));
+  const findingsAdded = added.out;
+  const findingsKept = added.kept;
+  const findingsResolved = unmatched(a.findings, count(b.findings)).out;
   return {
     batteries,
     imbalance_pct: delta(a.imbalance_pct, b.imbalance_pct),
