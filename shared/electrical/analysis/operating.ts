@@ -37,6 +37,32 @@ const fin = (x: number) => (Number.isFinite(x) ? x : 0);
 /** Current magnitude below which a bank is taken as carrying no current, A. */
 const NO_CURRENT_A = 1e-6;
 
+/**
+ * Bank imbalance from each unit's current: (max − min) / mean of share / ideal share, % (see
+ * OperatingPoint.imbalance_pct), and the bank current Σ I·V_nom / V_bank.
+ */
+export function shareImbalance(ctx: AnalysisContext, currentOf: (elementId: string) => number): { imbalance_pct: number; bankCurrent_A: number } {
+  const vBank = ctx.bankNominal_V > 0 ? ctx.bankNominal_V : ctx.settings.systemVoltage_V;
+  let sumIV = 0;
+  let sumCV = 0;
+  for (const u of ctx.units) {
+    sumIV += currentOf(u.elements[0]) * u.nominal_V;
+    sumCV += u.capacity_Ah * u.nominal_V;
+  }
+  if (!(Math.abs(sumIV) / vBank > NO_CURRENT_A) || !(sumCV > 0) || ctx.units.length < 2) return { imbalance_pct: 0, bankCurrent_A: fin(sumIV / vBank) };
+  let lo = Infinity;
+  let hi = -Infinity;
+  let sum = 0;
+  for (const u of ctx.units) {
+    const r = (currentOf(u.elements[0]) * sumCV) / (sumIV * u.capacity_Ah);
+    lo = Math.min(lo, r);
+    hi = Math.max(hi, r);
+    sum += r;
+  }
+  const mean = sum / ctx.units.length;
+  return { imbalance_pct: mean > 0 ? fin(((hi - lo) / mean) * 100) : 0, bankCurrent_A: fin(sumIV / vBank) };
+}
+
 export function operatingPoint(ctx: AnalysisContext, sol: SolveResult): OperatingPoint {
   const I = sol.element_currents_A;
   const loss = sol.element_losses_W;
