@@ -67,6 +67,8 @@ export interface EditorState {
   resultsStatus: ResultsStatus;
   /** A request for the canvas to frame these ids; `seq` changes with each request. */
   focusRequest: { ids: string[]; seq: number } | null;
+  /** Parts added in this session that the user has not moved by hand ("Arrange new parts" lays these out). */
+  freshParts: string[];
 
   load: (doc: DiagramDocument, opts?: { diagramId?: string | null; readOnly?: boolean; unitSystem?: UnitSystem }) => void;
   setReadOnly: (readOnly: boolean) => void;
@@ -87,6 +89,8 @@ export interface EditorState {
   /** Move parts; pass the same `dragKey` for every move of one drag so the drag is one step. */
   moveParts: (moves: { id: string; position: XY }[], dragKey?: string) => void;
   rotateSelection: () => void;
+  /** Forget "fresh" parts (after arranging them). */
+  clearFresh: (ids?: string[]) => void;
   deleteSelection: () => void;
   deleteIds: (ids: string[]) => void;
   copySelection: () => void;
@@ -185,7 +189,10 @@ export const useEditorStore = create<EditorState>()((set, get) => {
         newIds.push(id);
       }
     });
-    if (newIds.length) set({ selection: newIds });
+    if (newIds.length) {
+      const partIds = new Set(get().doc.parts.map((p) => p.id));
+      set((s) => ({ selection: newIds, freshParts: [...s.freshParts, ...newIds.filter((id) => partIds.has(id))] }));
+    }
     return newIds;
   };
 
@@ -204,6 +211,7 @@ export const useEditorStore = create<EditorState>()((set, get) => {
     results: null,
     resultsStatus: 'idle',
     focusRequest: null,
+    freshParts: [],
 
     load: (doc, opts = {}) =>
       set((s) => ({
@@ -217,6 +225,7 @@ export const useEditorStore = create<EditorState>()((set, get) => {
         future: [],
         results: null,
         resultsStatus: 'idle',
+        freshParts: [],
       })),
     setReadOnly: (readOnly) => set({ readOnly }),
     setUnitSystem: (unitSystem) => set({ unitSystem }),
@@ -279,7 +288,7 @@ export const useEditorStore = create<EditorState>()((set, get) => {
         const props = opts.props ?? defaultPartProps(type);
         d.parts.push({ id, type, label: opts.label ?? nextLabel(d, type), position: { x: position.x, y: position.y }, rotation: 0, props } as DiagramPart);
       });
-      if (ok && id && opts.select !== false) set({ selection: [id] });
+      if (ok && id) set((s) => ({ freshParts: [...s.freshParts, id!], ...(opts.select !== false ? { selection: [id!] } : {}) }));
       return ok ? id : null;
     },
 
@@ -345,7 +354,10 @@ export const useEditorStore = create<EditorState>()((set, get) => {
           if (to && (p.position.x !== to.x || p.position.y !== to.y)) p.position = { x: to.x, y: to.y };
         }
       }, { coalesce: dragKey ? `drag:${dragKey}` : 'nudge' });
+      const fresh = get().freshParts;
+      if (fresh.length && fresh.some((id) => byId.has(id))) set({ freshParts: fresh.filter((id) => !byId.has(id)) });
     },
+    clearFresh: (ids) => set((s) => ({ freshParts: ids ? s.freshParts.filter((id) => !ids.includes(id)) : [] })),
 
     rotateSelection: () => {
       const sel = new Set(get().selection);

@@ -1,0 +1,267 @@
+/**
+ * The drawing surface. Nodes and edges are derived from the document (memoised, with unchanged parts
+ * keeping their node objects so memoised nodes skip rendering); React Flow's changes are turned into
+ * store edits (moves, selection) rather than stored.
+ */
+import { useCallback, useEffect, useMemo, useRef, useState, type DragEvent } from 'react';
+import {
+  Background, BackgroundVariant, ConnectionMode, Controls, MiniMap, ReactFlow, useReactFlow,
+  type Connection, type Edge, type EdgeChange, type IsValidConnection, type NodeChange,
+} from '@xyflow/react';
+import type { DiagramCable, DiagramDocument, DiagramPart } from '@shared/diagram';
+import { compileDiagram } from '@shared/electrical/compile';
+import { PART_TYPE_IDS, type PartType } from '@shared/electrical/parts';
+import { useEditorStore } from '../store';
+import { toast } from '../toasts';
+import { edgeTypes, type CableFlowEdge } from './CableEdge';
+import { GRID, partBox } from './geometry';
+import { nodeTypes, terminalPolarity, type PartNode } from './nodes';
+
+export const PART_DRAG_MIME = 'application/x-bankwright-part';
+
+type Measured = { width: number; height: number };
+
+/** Which edge of each busbar its taps are drawn on: towards the side most of its cables go. */
+function busbarTapSides(parts: DiagramPart[], cables: DiagramCable[]): Map<string, 'top' | 'bottom'> {
+  const out = new Map<string, 'top' | 'bottom'>();
+  const busbars = parts.filter((p) => p.type === 'busbar');
+  if (busbars.length === 0) return out;
+  const byId = new Map(parts.map((p) => [p.id, p]));
+  for (const bar of busbars) {
+    let above = 0;
+    let below = 0;
+    const cy = bar.position.y + partBox(bar).h / 2;
+    for (const c of cables) {
+      const other = c.from.part === bar.id ? c.to.part : c.to.part === bar.id ? c.from.part : null;
+      const p = other ? byId.get(other) : undefined;
+      if (!p || p.id === bar.id) continue;
+      if (p.position.y + partBox(p).h / 2 < cy) above++;
+      else below++;
+    }
+    out.set(bar.id, above > below ? 'top' : 'bottom');
+  }
+  return out;
+}
+
+function useDerivedNodes(parts: DiagramPart[], cables: DiagramCable[], selection: Set<string>, readOnly: boolean, measured: Map<string, Measured>, measureTick: number) {
+  const cache = useRef(new Map<string, { part: DiagramPart; selected: boolean; side: string; readOnly: boolean; m?: Measured; node: PartNode }>());
+  return useMemo(() => {
+    void measureTick;
+    const sides = busbarTapSides(parts, cables);
+    const next = new Map<string, { part: DiagramPart; selected: boolean; side: string; readOnly: boolean; m?: Measured; node: PartNode }>();
+    const nodes = parts.map((part) => {
+      const selected = selection.has(part.id);
+      const side = sides.get(part.id) ?? 'bottom';
+      const m = measured.get(part.id);
+      const prev = cache.current.get(part.id);
+      if (prev && prev.part === part && prev.selected === selected && prev.side === side && prev.readOnly === readOnly && prev.m === m) {
+        next.set(part.id, prev);
+        return prev.node;
+      }
+      const node: PartNode = {
+        id: part.id,
+        type: part.type,
+        position: part.position,
+        data: { part, tapSide: side as 'top' | 'bottom', readOnly },
+        selected,
+        draggable: !readOnly,
+        connectable: !readOnly,
+        ...(m ? { measured: m } : {}),
+      };
+      next.set(part.id, { part, selected, side, readOnly, m, node });
+      return node;
+    });
+    cache.current = next;
+    return nodes;
+  }, [parts, cables, selection, readOnly, measured, measureTick]);
+}
+
+function useDerivedEdges(cables: DiagramCable[], selection: Set<string>) {
+  const cache = useRef(new Map<string, { cable: DiagramCable; selected: boolean; edge: CableFlowEdge }>());
+  return useMemo(() => {
+    const next = new Map<string, { cable: DiagramCable; selected: boolean; edge: CableFlowEdge }>();
+    const edges = cables.map((cable) => {
+      const selected = selection.has(cable.id);
+      const prev = cache.current.get(cable.id);
+      if (prev && prev.cable === cable && prev.selected === selected) {
+        next.set(cable.id, prev);
+        return prev.edge;
+      }
+      const edge: CableFlowEdge = {
+        id: cable.id, type: 'cable', source: cable.from.part, sourceHandle: cable.from.terminal,
+        target: cable.to.part, targetHandle: cable.to.terminal, data: { cable }, selected,
+      };
+      next.set(cable.id, { cable, selected, edge });
+      return edge;
+    });
+    cache.current = next;
+    return edges;
+  }, [cables, selection]);
+}
+
+/** After a new cable, say so when it makes a short through a battery (the core's structural check). */
+function warnIfShort(doc: DiagramDocument, ends: string[]) {
+  const compiled = compileDiagram(doc);
+  if (compiled.ok) return;
+  const short = compiled.errors.find((e) => (e.code === 'shorted_source' || e.code === 'reversed_polarity') && e.parts.some((p) => ends.includes(p)));
+  if (short) toast('error', `Short circuit: ${short.message}`);
+}
+
+const snap = (v: number) => Math.round(v / GRID) * GRID;
+
+export function Canvas() {
+  const parts = useEditorStore((s) => s.doc.parts);
+  const cables = useEditorStore((s) => s.doc.cables);
+  const selectionList = useEditorStore((s) => s.selection);
+  const readOnly = useEditorStore((s) => s.readOnly);
+  const focusRequest = useEditorStore((s) => s.focusRequest);
+  const selection = useMemo(() => new Set(selectionList), [selectionList]);
+  const measured = useRef(new Map<string, Measured>()).current;
+  const [measureTick, setMeasureTick] = useState(0);
+  const dragKey = useRef<string | undefined>(undefined);
+  const dragCount = useRef(0);
+  const rf = useReactFlow();
+
+  const nodes = useDerivedNodes(parts, cables, selection, readOnly, measured, measureTick);
+  const edges = useDerivedEdges(cables, selection);
+
+  const onNodesChange = useCallback((changes: NodeChange<PartNode>[]) => {
+    const store = useEditorStore.getState();
+    const moves: { id: string; position: { x: number; y: number } }[] = [];
+    const sel: { id: string; selected: boolean }[] = [];
+    let dims = false;
+    for (const c of changes) {
+      if (c.type === 'position' && c.position) moves.push({ id: c.id, position: c.position });
+      else if (c.type === 'dimensions' && c.dimensions) {
+        const prev = measured.get(c.id);
+        if (!prev || prev.width !== c.dimensions.width || prev.height !== c.dimensions.height) {
+          measured.set(c.id, { width: c.dimensions.width, height: c.dimensions.height });
+          dims = true;
+        }
+      } else if (c.type === 'select') sel.push({ id: c.id, selected: c.selected });
+    }
+    if (moves.length && !store.readOnly) store.moveParts(moves, dragKey.current);
+    if (sel.length) store.setSelectedMany(sel);
+    if (dims) setMeasureTick((t) => t + 1);
+  }, [measured]);
+
+  const onEdgesChange = useCallback((changes: EdgeChange<CableFlowEdge>[]) => {
+    const sel = changes.flatMap((c) => (c.type === 'select' ? [{ id: c.id, selected: c.selected }] : []));
+    if (sel.length) useEditorStore.getState().setSelectedMany(sel);
+  }, []);
+
+  const onDragStart = useCallback(() => {
+    dragCount.current += 1;
+    dragKey.current = String(dragCount.current);
+  }, []);
+  const onDragStop = useCallback(() => {
+    dragKey.current = undefined;
+  }, []);
+
+  const isValidConnection = useCallback<IsValidConnection<Edge>>((c) => {
+    // Never a terminal to itself, nor to the same part's other terminal.
+    return !!c.source && !!c.target && c.source !== c.target && !!c.sourceHandle && !!c.targetHandle;
+  }, []);
+
+  const onConnect = useCallback((c: Connection) => {
+    if (!c.sourceHandle || !c.targetHandle || c.source === c.target) return;
+    const store = useEditorStore.getState();
+    const id = store.addCable({ part: c.source, terminal: c.sourceHandle }, { part: c.target, terminal: c.targetHandle });
+    if (!id) return;
+    const doc = useEditorStore.getState().doc;
+    const a = doc.parts.find((p) => p.id === c.source);
+    const b = doc.parts.find((p) => p.id === c.target);
+    const pa = terminalPolarity(a, c.sourceHandle);
+    const pb = terminalPolarity(b, c.targetHandle);
+    if (pa && pb && pa !== pb) {
+      warnIfShort(doc, [c.source, c.target]);
+    }
+    store.select([id]);
+  }, []);
+
+  const onReconnect = useCallback((old: Edge, c: Connection) => {
+    if (!c.sourceHandle || !c.targetHandle) return;
+    const store = useEditorStore.getState();
+    if (c.source === old.source && c.sourceHandle === old.sourceHandle) store.moveCableEnd(old.id, 'to', { part: c.target, terminal: c.targetHandle });
+    else store.moveCableEnd(old.id, 'from', { part: c.source, terminal: c.sourceHandle });
+  }, []);
+
+  const onDragOver = useCallback((e: DragEvent) => {
+    if (e.dataTransfer.types.includes(PART_DRAG_MIME)) {
+      e.preventDefault();
+      e.dataTransfer.dropEffect = 'copy';
+    }
+  }, []);
+
+  const onDrop = useCallback((e: DragEvent) => {
+    const type = e.dataTransfer.getData(PART_DRAG_MIME) as PartType;
+    if (!(PART_TYPE_IDS as readonly string[]).includes(type)) return;
+    e.preventDefault();
+    const at = rf.screenToFlowPosition({ x: e.clientX, y: e.clientY });
+    placePart(type, at);
+  }, [rf]);
+
+  useEffect(() => {
+    if (!focusRequest) return;
+    const doc = useEditorStore.getState().doc;
+    let ids = focusRequest.ids;
+    if (ids.length) {
+      // Cables are framed by the parts at their ends.
+      const partIds = new Set(doc.parts.map((p) => p.id));
+      ids = [...new Set(ids.flatMap((id) => (partIds.has(id) ? [id] : doc.cables.filter((c) => c.id === id).flatMap((c) => [c.from.part, c.to.part]))))];
+    }
+    // Wait a frame so freshly added nodes are measured.
+    const t = requestAnimationFrame(() => {
+      void rf.fitView({ ...(ids.length ? { nodes: ids.map((id) => ({ id })) } : {}), padding: 0.25, duration: 250, maxZoom: 1.4 });
+    });
+    return () => cancelAnimationFrame(t);
+  }, [focusRequest, rf]);
+
+  return (
+    <div className="bw-canvas h-full w-full" onDragOver={onDragOver} onDrop={onDrop}>
+      <ReactFlow<PartNode, CableFlowEdge>
+        nodes={nodes}
+        edges={edges}
+        nodeTypes={nodeTypes}
+        edgeTypes={edgeTypes}
+        onNodesChange={onNodesChange}
+        onEdgesChange={onEdgesChange}
+        onNodeDragStart={onDragStart}
+        onNodeDragStop={onDragStop}
+        onSelectionDragStart={onDragStart}
+        onSelectionDragStop={onDragStop}
+        onConnect={onConnect}
+        onReconnect={onReconnect}
+        isValidConnection={isValidConnection}
+        connectionMode={ConnectionMode.Loose}
+        nodesDraggable={!readOnly}
+        nodesConnectable={!readOnly}
+        edgesReconnectable={!readOnly}
+        deleteKeyCode={null}
+        multiSelectionKeyCode={['Shift', 'Meta', 'Control']}
+        selectionKeyCode="Shift"
+        snapToGrid
+        snapGrid={[GRID, GRID]}
+        fitView
+        fitViewOptions={{ padding: 0.25, maxZoom: 1.2 }}
+        minZoom={0.1}
+        maxZoom={3}
+        proOptions={{ hideAttribution: true }}
+        connectionRadius={24}
+        aria-label="Diagram canvas"
+      >
+        <Background variant={BackgroundVariant.Dots} gap={GRID * 2} size={1} color="var(--color-graphite-300)" />
+        <MiniMap pannable zoomable ariaLabel="Overview of the diagram" nodeStrokeWidth={2} className="bw-minimap" />
+        <Controls showInteractive={false} aria-label="Zoom controls" />
+      </ReactFlow>
+    </div>
+  );
+}
+
+/** Add a part centred on a canvas point (snapped to the grid). */
+export function placePart(type: PartType, centre: { x: number; y: number }): string | null {
+  const store = useEditorStore.getState();
+  const probe = { type, rotation: 0, props: type === 'busbar' ? { tapCount: 6 } : {} } as DiagramPart;
+  const box = partBox(probe);
+  return store.addPart(type, { x: snap(centre.x - box.w / 2), y: snap(centre.y - box.h / 2) });
+}

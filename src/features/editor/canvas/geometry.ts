@@ -1,0 +1,97 @@
+/**
+ * Where each part's terminals sit on its drawing, before rotation: a side of the node box and a
+ * fraction along that side. Rotation (clockwise, in 90° steps) turns sides and swaps the box.
+ */
+import { Position } from '@xyflow/react';
+import type { DiagramPart } from '@shared/diagram';
+import type { PartType } from '@shared/electrical/parts';
+
+export type Side = 'top' | 'right' | 'bottom' | 'left';
+export interface TerminalPlacement {
+  terminal: string;
+  side: Side;
+  /** 0..1 along the side (left→right on top/bottom, top→bottom on left/right). */
+  at: number;
+  /** Polarity mark: '+' and '−' for sources and loads; null for pass-through terminals. */
+  polarity: '+' | '−' | null;
+}
+
+export const GRID = 10;
+
+const BOX: Record<PartType, { w: number; h: number }> = {
+  battery: { w: 120, h: 64 },
+  series_string: { w: 140, h: 80 },
+  lug: { w: 44, h: 56 },
+  busbar: { w: 240, h: 28 },
+  fuse: { w: 48, h: 76 },
+  switch: { w: 56, h: 76 },
+  shunt: { w: 56, h: 76 },
+  inverter: { w: 112, h: 72 },
+  dc_load: { w: 100, h: 64 },
+  charger: { w: 112, h: 64 },
+  note: { w: 180, h: 72 },
+};
+
+export function busbarWidth(tapCount: number): number {
+  return Math.max(160, tapCount * 36 + 16);
+}
+
+/** Box of a part before rotation. */
+export function baseBox(part: DiagramPart): { w: number; h: number } {
+  if (part.type === 'busbar') return { w: busbarWidth(part.props.tapCount), h: BOX.busbar.h };
+  return BOX[part.type];
+}
+
+/** Box of a part as drawn (rotation applied). */
+export function partBox(part: DiagramPart): { w: number; h: number } {
+  const b = baseBox(part);
+  return part.rotation === 90 || part.rotation === 270 ? { w: b.h, h: b.w } : b;
+}
+
+/** Terminal placements before rotation. `tapSide` puts a busbar's taps on its top or bottom edge. */
+export function terminalPlacements(part: DiagramPart, tapSide: 'top' | 'bottom' = 'bottom'): TerminalPlacement[] {
+  switch (part.type) {
+    case 'battery':
+    case 'series_string':
+    case 'inverter':
+    case 'dc_load':
+    case 'charger':
+      return [
+        { terminal: 'pos', side: 'top', at: 0.5, polarity: '+' },
+        { terminal: 'neg', side: 'bottom', at: 0.5, polarity: '−' },
+      ];
+    case 'lug':
+    case 'fuse':
+    case 'switch':
+    case 'shunt':
+      return [
+        { terminal: 'a', side: 'bottom', at: 0.5, polarity: null },
+        { terminal: 'b', side: 'top', at: 0.5, polarity: null },
+      ];
+    case 'busbar': {
+      const n = part.props.tapCount;
+      const w = busbarWidth(n);
+      return Array.from({ length: n }, (_, i) => ({ terminal: `t${i + 1}`, side: tapSide, at: (26 + i * 36) / w, polarity: null }));
+    }
+    case 'note':
+      return [];
+  }
+}
+
+const SIDES: Side[] = ['top', 'right', 'bottom', 'left'];
+
+/** A placement turned clockwise by `rotation`. */
+export function rotatePlacement(p: TerminalPlacement, rotation: number): TerminalPlacement {
+  const steps = ((rotation / 90) % 4 + 4) % 4;
+  let side = p.side;
+  let at = p.at;
+  for (let i = 0; i < steps; i++) {
+    // Clockwise: top→right keeps the fraction, right→bottom mirrors it, bottom→left keeps it, left→top mirrors it.
+    const next = SIDES[(SIDES.indexOf(side) + 1) % 4];
+    if (side === 'right' || side === 'left') at = 1 - at;
+    side = next;
+  }
+  return { ...p, side, at };
+}
+
+export const POSITION: Record<Side, Position> = { top: Position.Top, right: Position.Right, bottom: Position.Bottom, left: Position.Left };

@@ -1,0 +1,255 @@
+/**
+ * One memoised React Flow node component per part type, defined at module scope. Each draws its
+ * symbol, its label and its terminals (handles marked + / − by shape and text), and subscribes only
+ * to its own slice of the live results.
+ */
+import { memo, type ReactNode } from 'react';
+import { Handle, useConnection, type Node, type NodeProps } from '@xyflow/react';
+import { useShallow } from 'zustand/react/shallow';
+import type { DiagramPart } from '@shared/diagram';
+import { PART_TYPES, type PartType } from '@shared/electrical/parts';
+import { ErrorIcon, NoteIcon, WarningIcon } from '@/components/icons';
+import { useEditorStore } from '../store';
+import { baseBox, partBox, POSITION, rotatePlacement, terminalPlacements, type TerminalPlacement } from './geometry';
+import { PartSymbol } from './symbols';
+import { fmtAmps, fmtPct, fmtVolts } from '../units';
+
+export interface PartNodeData extends Record<string, unknown> {
+  part: DiagramPart;
+  tapSide: 'top' | 'bottom';
+  readOnly: boolean;
+}
+export type PartNode = Node<PartNodeData>;
+
+/** Polarity of a terminal of a part, for connection hints. */
+export function terminalPolarity(part: DiagramPart | undefined, terminal: string): '+' | '−' | null {
+  if (!part) return null;
+  return terminalPlacements(part).find((t) => t.terminal === terminal)?.polarity ?? null;
+}
+
+function TerminalHandle({ nodeId, placement, readOnly, label }: { nodeId: string; placement: TerminalPlacement; readOnly: boolean; label: string }) {
+  // A primitive key so handles re-render only when a connection starts or ends.
+  const from = useConnection((c) => (c.inProgress && c.fromHandle ? `${c.fromHandle.nodeId}\u0000${c.fromHandle.id ?? ''}` : ''));
+  const [fromNode, fromTerminal] = from ? from.split('\u0000') : ['', ''];
+  const fromPolarity = useEditorStore((s) => (fromNode ? terminalPolarity(s.doc.parts.find((p) => p.id === fromNode), fromTerminal) : null));
+  const isSource = from !== '' && fromNode === nodeId && fromTerminal === placement.terminal;
+  const allowed = from !== '' && fromNode !== nodeId;
+  const crossesPolarity = allowed && !!fromPolarity && !!placement.polarity && fromPolarity !== placement.polarity;
+  const style: React.CSSProperties =
+    placement.side === 'top' || placement.side === 'bottom' ? { left: `${placement.at * 100}%` } : { top: `${placement.at * 100}%` };
+  const kind = placement.polarity === '+' ? 'pos' : placement.polarity === '−' ? 'neg' : 'pass';
+  const hint = crossesPolarity ? `; joins ${fromPolarity} to ${placement.polarity} directly` : '';
+  return (
+    <Handle
+      type="source"
+      id={placement.terminal}
+      position={POSITION[placement.side]}
+      style={style}
+      isConnectable={!readOnly}
+      className={`bw-terminal bw-terminal-${kind}${allowed ? (crossesPolarity ? ' bw-target-caution' : ' bw-target') : ''}${isSource ? ' bw-terminal-from' : ''}`}
+      title={`${label} terminal ${placement.terminal}${placement.polarity ? ` (${placement.polarity === '+' ? 'positive' : 'negative'})` : ''}${hint}`}
+      aria-label={`${label} ${placement.polarity === '+' ? 'positive' : placement.polarity === '−' ? 'negative' : `terminal ${placement.terminal}`}`}
+    >
+      {placement.polarity ? <span aria-hidden="true" className="bw-terminal-mark">{placement.polarity}</span> : null}
+    </Handle>
+  );
+}
+
+function FindingsBadge({ id }: { id: string }) {
+  const badge = useEditorStore(useShallow((s) => s.results?.canvas.badges[id] ?? null));
+  if (!badge) return null;
+  const Icon = badge.severity === 'error' ? ErrorIcon : badge.severity === 'warning' ? WarningIcon : NoteIcon;
+  const word = badge.severity === 'error' ? 'error' : badge.severity === 'warning' ? 'warning' : 'note';
+  return (
+    <span className={`bw-badge bw-badge-${badge.severity}`} title={`${badge.count} finding${badge.count === 1 ? '' : 's'}, worst: ${word}`}>
+      <Icon size={12} />
+      <span>{badge.count}</span>
+      <span className="sr-only"> {word}{badge.count === 1 ? '' : 's'}</span>
+    </span>
+  );
+}
+
+/** Frame shared by every part: rotated symbol, label, handles, findings badge, and a results strip below. */
+function PartShell({ id, data, selected, caption, children }: { id: string; data: PartNodeData; selected: boolean; caption?: ReactNode; children?: ReactNode }) {
+  const { part, tapSide, readOnly } = data;
+  const base = baseBox(part);
+  const box = partBox(part);
+  const label = part.label || PART_TYPES[part.type].name;
+  const closed = part.type === 'switch' ? part.props.closed : true;
+  return (
+    <div
+      className={`bw-part bw-part-${part.type}${selected ? ' bw-selected' : ''}`}
+      style={{ width: box.w, height: box.h }}
+      data-part-id={id}
+      aria-label={`${PART_TYPES[part.type].name}: ${label}`}
+    >
+      <svg width={box.w} height={box.h} viewBox={`0 0 ${box.w} ${box.h}`} className="bw-symbol" aria-hidden="true" focusable="false">
+        <g transform={`translate(${box.w / 2} ${box.h / 2}) rotate(${part.rotation}) translate(${-base.w / 2} ${-base.h / 2})`}>
+          <PartSymbol type={part.type} w={base.w} h={base.h} closed={closed} />
+        </g>
+      </svg>
+      {part.type !== 'note' ? (
+        <div className={`bw-part-label bw-label-${part.type}`}>
+          <span className="bw-part-name">{label}</span>
+          {caption ? <span className="bw-part-caption">{caption}</span> : null}
+        </div>
+      ) : null}
+      {terminalPlacements(part, tapSide).map((t) => (
+        <TerminalHandle key={t.terminal} nodeId={id} placement={rotatePlacement(t, part.rotation)} readOnly={readOnly} label={label} />
+      ))}
+      <FindingsBadge id={id} />
+      {children}
+    </div>
+  );
+}
+
+function BatteryResult({ id }: { id: string }) {
+  const r = useEditorStore(
+    useShallow((s) => {
+      const b = s.results?.canvas.batteries[id];
+      return b ? { i: Math.round(b.current_A * 10) / 10, share: Math.round(b.share * 1000) / 1000 } : null;
+    }),
+  );
+  if (!r) return null;
+  const pct = Math.max(0, Math.min(1, r.share));
+  return (
+    <div className="bw-result" data-testid={`share-${id}`}>
+      <div className="bw-share-bar" aria-hidden="true">
+        <div style={{ width: `${pct * 100}%` }} />
+      </div>
+      <span className="bw-result-text">
+        {fmtAmps(r.i)} · <strong>{fmtPct(r.share * 100)}</strong>
+      </span>
+    </div>
+  );
+}
+
+function FuseResult({ id }: { id: string }) {
+  const r = useEditorStore(
+    useShallow((s) => {
+      const f = s.results?.canvas.fuses[id];
+      return f ? { i: Math.round(f.current_A * 10) / 10, loading: Math.round(f.loading * 1000) / 1000 } : null;
+    }),
+  );
+  if (!r) return null;
+  const over = r.loading > 1;
+  return (
+    <div className={`bw-result bw-result-side${over ? ' bw-over' : ''}`}>
+      <span className="bw-result-text">
+        {fmtAmps(Math.abs(r.i))}
+        <br />
+        {over ? '▲ ' : ''}
+        {fmtPct(r.loading * 100)} of rating
+      </span>
+    </div>
+  );
+}
+
+function LoadResult({ id }: { id: string }) {
+  const r = useEditorStore(
+    useShallow((s) => {
+      const l = s.results?.canvas.loads[id];
+      return l ? { v: Math.round(l.voltage_V * 100) / 100, drop: Math.round(l.drop_pct * 100) / 100 } : null;
+    }),
+  );
+  if (!r) return null;
+  return (
+    <div className="bw-result">
+      <span className="bw-result-text">
+        {fmtVolts(r.v)} · drop {fmtPct(r.drop, 1)}
+      </span>
+    </div>
+  );
+}
+
+type P = NodeProps<PartNode>;
+
+function caption(part: DiagramPart): string | undefined {
+  switch (part.type) {
+    case 'battery': return `${part.props.nominal_V} V ${part.props.capacity_Ah} Ah`;
+    case 'series_string': return `${part.props.count}S · ${part.props.member.capacity_Ah} Ah`;
+    case 'fuse': return `${part.props.rating_A} A`;
+    case 'switch': return part.props.closed ? 'closed' : 'OPEN';
+    case 'shunt': return `${part.props.rating_A} A`;
+    case 'inverter': return `${part.props.power_W} W`;
+    case 'dc_load':
+      return part.props.mode === 'current' ? `${part.props.current_A} A` : part.props.mode === 'power' ? `${part.props.power_W} W` : `${part.props.r_ohm} Ω`;
+    case 'charger': return part.props.enabled ? `${part.props.voltage_setpoint_V} V ${part.props.current_limit_A} A` : 'off';
+    case 'busbar': return `${part.props.tapCount} taps`;
+    default: return undefined;
+  }
+}
+
+const BatteryNode = memo(function BatteryNode({ id, data, selected }: P) {
+  return (
+    <PartShell id={id} data={data} selected={selected} caption={caption(data.part)}>
+      <BatteryResult id={id} />
+    </PartShell>
+  );
+});
+const SeriesStringNode = memo(function SeriesStringNode({ id, data, selected }: P) {
+  return (
+    <PartShell id={id} data={data} selected={selected} caption={caption(data.part)}>
+      <BatteryResult id={id} />
+    </PartShell>
+  );
+});
+const LugNode = memo(function LugNode({ id, data, selected }: P) {
+  return <PartShell id={id} data={data} selected={selected} />;
+});
+const BusbarNode = memo(function BusbarNode({ id, data, selected }: P) {
+  return <PartShell id={id} data={data} selected={selected} caption={caption(data.part)} />;
+});
+const FuseNode = memo(function FuseNode({ id, data, selected }: P) {
+  return (
+    <PartShell id={id} data={data} selected={selected} caption={caption(data.part)}>
+      <FuseResult id={id} />
+    </PartShell>
+  );
+});
+const SwitchNode = memo(function SwitchNode({ id, data, selected }: P) {
+  return <PartShell id={id} data={data} selected={selected} caption={caption(data.part)} />;
+});
+const ShuntNode = memo(function ShuntNode({ id, data, selected }: P) {
+  return <PartShell id={id} data={data} selected={selected} caption={caption(data.part)} />;
+});
+const InverterNode = memo(function InverterNode({ id, data, selected }: P) {
+  return (
+    <PartShell id={id} data={data} selected={selected} caption={caption(data.part)}>
+      <LoadResult id={id} />
+    </PartShell>
+  );
+});
+const DcLoadNode = memo(function DcLoadNode({ id, data, selected }: P) {
+  return (
+    <PartShell id={id} data={data} selected={selected} caption={caption(data.part)}>
+      <LoadResult id={id} />
+    </PartShell>
+  );
+});
+const ChargerNode = memo(function ChargerNode({ id, data, selected }: P) {
+  return <PartShell id={id} data={data} selected={selected} caption={caption(data.part)} />;
+});
+const NoteNode = memo(function NoteNode({ id, data, selected }: P) {
+  const text = data.part.type === 'note' ? data.part.props.text : '';
+  return (
+    <PartShell id={id} data={data} selected={selected}>
+      <div className="bw-note-text">{text || data.part.label || 'Note'}</div>
+    </PartShell>
+  );
+});
+
+/** React Flow node types, one per part type (module scope: a stable object). */
+export const nodeTypes: Record<PartType, React.ComponentType<P>> = {
+  battery: BatteryNode,
+  series_string: SeriesStringNode,
+  lug: LugNode,
+  busbar: BusbarNode,
+  fuse: FuseNode,
+  switch: SwitchNode,
+  shunt: ShuntNode,
+  inverter: InverterNode,
+  dc_load: DcLoadNode,
+  charger: ChargerNode,
+  note: NoteNode,
+};

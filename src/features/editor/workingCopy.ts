@@ -1,0 +1,232 @@
+/**
+ * Keeping the working copy safe: autosave to the server (debounced, with the base version), a copy in
+ * localStorage whenever there are changes the server has not confirmed, a restore of that copy on
+ * load when it is newer, a warning when another tab edits the same diagram, and a conflict state that
+ * never drops the user's edits.
+ */
+import { useEffect } from 'react';
+import { create } from 'zustand';
+import type { DiagramDocument } from '@shared/diagram';
+import { isApiError } from '@/lib/api';
+import { fetchDiagram, saveWorkingCopy, type ConflictDetails } from './api';
+import { useEditorStore } from './store';
+
+export type SaveStatus = 'saved' | 'pending' | 'saving' | 'offline' | 'conflict' | 'error';
+
+interface SaveState {
+  status: SaveStatus;
+  baseVersion: number;
+  lastSavedAt: string | null;
+  conflict: ConflictDetails | null;
+  error: string | null;
+  otherTab: boolean;
+  set: (patch: Partial<Omit<SaveState, 'set'>>) => void;
+}
+
+export const useSaveState = create<SaveState>()((set) => ({
+  status: 'saved', baseVersion: 0, lastSavedAt: null, conflict: null, error: null, otherTab: false,
+  set: (patch) => set(patch),
+}));
+
+/** Wait after the last change before saving to the server, ms. */
+export const SAVE_DEBOUNCE_MS = 1000;
+const LOCAL_DEBOUNCE_MS = 250;
+const RETRY_MS = 5000;
+
+export interface LocalCopy {
+  doc: DiagramDocument;
+  baseVersion: number;
+  savedAt: number;
+}
+
+export const localKey = (diagramId: string) => `bankwright:working-copy:${diagramId}`;
+
+export function readLocalCopy(diagramId: string): LocalCopy | null {
+  try {
+    const raw = window.localStorage.getItem(localKey(diagramId));
+    if (!raw) return null;
+    const v = JSON.parse(raw) as LocalCopy;
+    return v && typeof v === 'object' && v.doc && typeof v.savedAt === 'number' ? v : null;
+  } catch {
+    return null;
+  }
+}
+
+export function writeLocalCopy(diagramId: string, copy: LocalCopy) {
+  try {
+    window.localStorage.setItem(localKey(diagramId), JSON.stringify(copy));
+  } catch {
+    /* storage full or blocked: the server copy is still the fallback */
+  }
+}
+
+export function clearLocalCopy(diagramId: string) {
+  try {
+    window.localStorage.removeItem(localKey(diagramId));
+  } catch {
+    /* ignore */
+  }
+}
+
+/**
+ * Which copy to open: the local one when it holds unsaved changes newer than the server's copy.
+ * Returns the local copy or null.
+ */
+export function localCopyToRestore(diagramId: string, serverUpdatedAt: string, serverContent: unknown): LocalCopy | null {
+  const local = readLocalCopy(diagramId);
+  if (!local) return null;
+  const serverTime = Date.parse(serverUpdatedAt);
+  if (Number.isFinite(serverTime) && local.savedAt <= serverTime) return null;
+  if (JSON.stringify(local.doc) === JSON.stringify(serverContent)) return null;
+  return local;
+}
+
+interface Controller {
+  saveNow: () => void;
+  keepMine: () => void;
+  reloadTheirs: () => Promise<void>;
+}
+
+let controller: Controller | null = null;
+/** Conflict choices and "save now" for the banner and toolbar. */
+export const workingCopyActions = {
+  saveNow: () => controller?.saveNow(),
+  keepMine: () => controller?.keepMine(),
+  reloadTheirs: () => controller?.reloadTheirs() ?? Promise.resolve(),
+};
+
+/**
+ * Runs while the editor is open on `diagramId`. `initialDirty` starts with a save pending (after a
+ * local copy was restored).
+ */
+export function useWorkingCopySync(diagramId: string, enabled: boolean, initialDirty: boolean) {
+  useEffect(() => {
+    if (!enabled) return;
+    const saveState = useSaveState.getState();
+    let saveTimer: ReturnType<typeof setTimeout> | undefined;
+    let localTimer: ReturnType<typeof setTimeout> | undefined;
+    let inFlight = false;
+    let dirty = initialDirty;
+    let disposed = false;
+    const tabId = Math.random().toString(36).slice(2);
+    const channel = typeof BroadcastChannel !== 'undefined' ? new BroadcastChannel(`bankwright:diagram:${diagramId}`) : null;
+
+    const writeLocal = () => {
+      clearTimeout(localTimer);
+      if (!dirty) return;
+      writeLocalCopy(diagramId, { doc: useEditorStore.getState().doc, baseVersion: useSaveState.getState().baseVersion, savedAt: Date.now() });
+    };
+
+    const save = async () => {
+      clearTimeout(saveTimer);
+      if (disposed || inFlight || !dirty) return;
+      const st = useSaveState.getState();
+      if (st.status === 'conflict') return;
+      inFlight = true;
+      const doc = useEditorStore.getState().doc;
+      st.set({ status: 'saving' });
+      try {
+        const res = await saveWorkingCopy(diagramId, doc, st.baseVersion);
+        if (disposed) return;
+        const changedSince = useEditorStore.getState().doc !== doc;
+        dirty = changedSince;
+        useSaveState.getState().set({ baseVersion: res.workingCopyVersion, lastSavedAt: res.updatedAt, status: changedSince ? 'pending' : 'saved', error: null });
+        channel?.postMessage({ type: 'saved', tabId, version: res.workingCopyVersion });
+        if (changedSince) schedule();
+        else clearLocalCopy(diagramId);
+      } catch (err) {
+        if (disposed) return;
+        writeLocal();
+        if (isApiError(err) && err.code === 'working_copy_conflict') {
+          useSaveState.getState().set({ status: 'conflict', conflict: (err.details as ConflictDetails) ?? null });
+        } else if (isApiError(err) && (err.status === 0 || err.status >= 500)) {
+          useSaveState.getState().set({ status: 'offline', error: err.message });
+          saveTimer = setTimeout(save, RETRY_MS);
+        } else {
+          useSaveState.getState().set({ status: 'error', error: isApiError(err) ? err.message : String(err) });
+        }
+      } finally {
+        inFlight = false;
+      }
+    };
+
+    const schedule = () => {
+      clearTimeout(saveTimer);
+      saveTimer = setTimeout(save, SAVE_DEBOUNCE_MS);
+    };
+
+    const onDocChange = () => {
+      dirty = true;
+      const st = useSaveState.getState();
+      if (st.status !== 'conflict' && st.status !== 'offline') st.set({ status: 'pending' });
+      clearTimeout(localTimer);
+      localTimer = setTimeout(writeLocal, LOCAL_DEBOUNCE_MS);
+      channel?.postMessage({ type: 'edited', tabId });
+      if (st.status !== 'conflict') schedule();
+    };
+
+    const unsubscribe = useEditorStore.subscribe((s, prev) => {
+      if (s.doc !== prev.doc && s.diagramId === diagramId && prev.diagramId === diagramId) onDocChange();
+    });
+
+    if (channel) {
+      channel.onmessage = (e: MessageEvent<{ type: string; tabId: string }>) => {
+        if (e.data.tabId === tabId) return;
+        if (e.data.type === 'hello') channel.postMessage({ type: 'here', tabId });
+        if (e.data.type === 'bye') useSaveState.getState().set({ otherTab: false });
+        else useSaveState.getState().set({ otherTab: true });
+      };
+      channel.postMessage({ type: 'hello', tabId });
+    }
+
+    const onOnline = () => {
+      if (useSaveState.getState().status === 'offline') void save();
+    };
+    const onUnload = () => {
+      writeLocal();
+      channel?.postMessage({ type: 'bye', tabId });
+    };
+    window.addEventListener('online', onOnline);
+    window.addEventListener('pagehide', onUnload);
+    window.addEventListener('beforeunload', onUnload);
+
+    controller = {
+      saveNow: () => void save(),
+      keepMine: () => {
+        const c = useSaveState.getState().conflict;
+        useSaveState.getState().set({ status: 'pending', baseVersion: c?.workingCopyVersion ?? useSaveState.getState().baseVersion, conflict: null });
+        dirty = true;
+        void save();
+      },
+      reloadTheirs: async () => {
+        const res = await fetchDiagram(diagramId);
+        const { parseStoredDiagram } = await import('./loadDocument');
+        const parsed = parseStoredDiagram(res.diagram.content);
+        dirty = false;
+        clearLocalCopy(diagramId);
+        useSaveState.getState().set({ status: 'saved', conflict: null, baseVersion: res.diagram.workingCopyVersion, lastSavedAt: res.diagram.updatedAt });
+        if (parsed.ok) useEditorStore.getState().load(parsed.doc, { diagramId });
+      },
+    };
+
+    if (initialDirty) {
+      writeLocal();
+      schedule();
+    }
+    void saveState;
+
+    return () => {
+      disposed = true;
+      writeLocal();
+      unsubscribe();
+      clearTimeout(saveTimer);
+      clearTimeout(localTimer);
+      window.removeEventListener('online', onOnline);
+      window.removeEventListener('pagehide', onUnload);
+      window.removeEventListener('beforeunload', onUnload);
+      channel?.postMessage({ type: 'bye', tabId });
+      channel?.close();
+      controller = null;
+    };
+  }, [diagramId, enabled, initialDirty]);
+}
