@@ -19,14 +19,21 @@ import type { BillOfMaterials } from './bom';
  */
 const FORMULA_START = /^[=+\-@\t\r]/;
 
-/** A cell made safe against CSV injection (OWASP): a leading apostrophe before = + - @ tab CR. */
+/** Text that `unguardCell` would shorten: apostrophes, then a formula-start character. */
+const GUARDED = /^'+[=+\-@\t\r]/;
+
+/**
+ * A cell made safe against CSV injection (OWASP): a leading apostrophe before = + - @ tab CR. Text
+ * that already starts with apostrophes before such a character gets one more, so `unguardCell` is
+ * its exact inverse.
+ */
 export function guardCell(text: string): string {
-  return FORMULA_START.test(text) ? `'${text}` : text;
+  return FORMULA_START.test(text) || GUARDED.test(text) ? `'${text}` : text;
 }
 
-/** Undo `guardCell`: an apostrophe followed by a formula-start character is dropped. */
+/** Undo `guardCell`: one apostrophe dropped from apostrophes followed by a formula-start character. */
 export function unguardCell(text: string): string {
-  return text.length >= 2 && text[0] === "'" && FORMULA_START.test(text.slice(1)) ? text.slice(1) : text;
+  return GUARDED.test(text) ? text.slice(1) : text;
 }
 
 /** One field as RFC 4180 text: quoted when it holds a comma, quote, CR or LF; quotes doubled. */
