@@ -18,19 +18,23 @@ const flag = (name: string) => {
   return i >= 0 ? (args[i + 1] ?? '') : undefined;
 };
 
-async function loadCases(): Promise<BenchCase[]> {
-  const files = readdirSync(here).filter((f) => f.endsWith('.bench.ts')).sort();
-  const all: BenchCase[] = [];
+type Loaded = BenchCase & { file: string };
+
+async function loadCases(only?: string): Promise<Loaded[]> {
+  const files = readdirSync(here).filter((f) => f.endsWith('.bench.ts') && (only === undefined || f === only)).sort();
+  const all: Loaded[] = [];
   for (const f of files) {
     const mod = (await import(pathToFileURL(join(here, f)).href)) as { cases?: BenchCase[] };
-    for (const c of mod.cases ?? []) all.push(c);
+    for (const c of mod.cases ?? []) all.push({ ...c, file: f });
   }
   return all;
 }
 
-function runInChild(name: string): Promise<BenchResult> {
+/** Runs a case in a fresh process that loads only the case's own file. */
+function runInChild(c: Loaded): Promise<BenchResult> {
+  const name = c.name;
   return new Promise((resolve, reject) => {
-    execFile(process.execPath, [...process.execArgv, fileURLToPath(import.meta.url), '--child', name], { maxBuffer: 16 * 2 ** 20, timeout: 170_000 }, (err, stdout, stderr) => {
+    execFile(process.execPath, [...process.execArgv, fileURLToPath(import.meta.url), '--child', name, '--file', c.file], { maxBuffer: 16 * 2 ** 20, timeout: 170_000 }, (err, stdout, stderr) => {
       if (err) return reject(new Error(`${name}: ${err.message}\n${stderr}`));
       resolve(JSON.parse(stdout.trim().split('\n').pop()!));
     });
@@ -40,7 +44,7 @@ function runInChild(name: string): Promise<BenchResult> {
 const fmt = (x: number | null | undefined, digits = 2) => (x === null || x === undefined ? '' : x.toFixed(digits));
 
 function table(results: BenchResult[]): string {
-  const rows = [['case', 'samples', 'median ms', 'min ms', 'max ms', 'target ms', 'peak RSS MB', 'heap MB', 'target MB']];
+  const rows = [['case', 'samples', 'median ms', 'min ms', 'max ms', 'target ms', 'peak RSS MB', 'RSS before MB', 'peak heap MB', 'target MB']];
   for (const r of results) {
     rows.push([
       r.name,
@@ -50,6 +54,7 @@ function table(results: BenchResult[]): string {
       fmt(r.maxMs, r.maxMs !== null && r.maxMs < 10 ? 3 : 1),
       r.targetMs !== undefined ? `<= ${r.targetMs}` : '',
       fmt(r.peakRssMb, 0),
+      fmt(r.baselineRssMb, 0),
       fmt(r.peakHeapMb, 0),
       r.targetMb !== undefined ? `< ${r.targetMb}` : '',
     ]);
@@ -60,8 +65,8 @@ function table(results: BenchResult[]): string {
 }
 
 async function main() {
-  const cases = await loadCases();
   const child = flag('--child');
+  const cases = await loadCases(child !== undefined ? flag('--file') : undefined);
   if (child !== undefined) {
     const c = cases.find((x) => x.name === child);
     if (!c) throw new Error(`no bench case ${child}`);
@@ -74,7 +79,7 @@ async function main() {
   const t0 = performance.now();
   for (const c of selected) {
     process.stderr.write(`running ${c.name} ...\n`);
-    results.push(c.memory ? await runInChild(c.name) : await runCase(c));
+    results.push(c.memory ? await runInChild(c) : await runCase(c));
   }
   if (args.includes('--json')) {
     process.stdout.write(JSON.stringify(results, null, 2) + '\n');

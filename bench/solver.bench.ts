@@ -1,20 +1,15 @@
 /**
  * Nodal solver benchmarks: the 40-battery bank with every battery shorted in turn, generated meshes of
- * 1,000 / 5,000 / 50,000 elements on the fast path, the mathjs reference path beside it (capped), and
- * ngspice's own analysis time for the same circuits when ngspice is installed.
+ * 1,000 / 5,000 / 50,000 elements on the fast path, and ngspice's own analysis time for the same
+ * circuits when ngspice is installed. The mathjs reference path: solver.reference.bench.ts.
  */
 import { existsSync } from 'node:fs';
 import { postToPostBank, randomMesh } from '../shared/electrical/network/builders';
-import {
-  batteryShortVariants,
-  prepareNetwork,
-  solveNetwork,
-  solveNetworkReference,
-  solvePrepared,
-  solveVariants,
-  withShunt,
-  type PreparedNetwork,
-} from '../shared/electrical/network/solve';
+// The fast path and the change helpers only (not solve.ts, which also loads mathjs for the reference
+// path): the memory case then measures what the fast path costs. The mathjs cases are in
+// solver.reference.bench.ts.
+import { batteryShortVariants, withShunt } from '../shared/electrical/network/changes';
+import { prepareNetwork, solveNetworkFast as solveNetwork, solvePrepared, solveVariants, type PreparedNetwork } from '../shared/electrical/network/fast';
 import type { Network } from '../shared/electrical/network/types';
 import { NGSPICE, parsePrintAll, runNgspiceRaw, toSpice } from '../tests/helpers/ngspice';
 import type { BenchCase } from './registry';
@@ -73,7 +68,7 @@ export const cases: BenchCase<any>[] = [
     targetMs: 300,
     targetMb: 300,
     memory: true,
-    note: 'peak RSS is the whole child process (Node + tsx + the network objects + solver), measured with process.resourceUsage().maxRSS',
+    note: 'peak RSS of a child process that loads only this file (Node + tsx + network objects + fast path), process.resourceUsage().maxRSS; RSS before = before the network is built',
   },
   {
     name: 'solver: mesh 50,000 elements, one fault on the prepared factorization',
@@ -83,15 +78,6 @@ export const cases: BenchCase<any>[] = [
     },
     run: (prep: PreparedNetwork) => solvePrepared(prep, [withShunt('m1000.5', 'm0.0', 0.001)]),
     samples: 11,
-  },
-  { name: 'mathjs path: mesh 1,000 elements', setup: () => mesh(1000), run: solveNetworkReference, samples: 9 },
-  {
-    name: 'mathjs path: mesh 5,000 elements',
-    setup: () => mesh(5000),
-    run: solveNetworkReference,
-    samples: 5,
-    maxSeconds: 10,
-    note: 'mathjs path not run at 50,000 elements: it grows much faster than the fast path and would take most of the bench time budget',
   },
   { name: 'ngspice op: mesh 1,000 elements', setup: () => ngspiceCase(mesh(1000)), measure: ngspiceAnalysisMs, samples: 5, note: NGSPICE_NOTE },
   { name: 'ngspice op: mesh 5,000 elements', setup: () => ngspiceCase(mesh(5000)), measure: ngspiceAnalysisMs, samples: 5 },

@@ -7,6 +7,7 @@
  * Exit status 1 when any file failed, else 0. Nothing else goes to stdout.
  */
 import { readFileSync } from 'node:fs';
+import { resolve } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { parseNetworkJson } from '../shared/electrical/network/parse';
 import { solveNetwork } from '../shared/electrical/network/solve';
@@ -39,7 +40,8 @@ for (const file of files) {
   let line: object;
   let text: string | null = null;
   try {
-    text = readFileSync(file, 'utf8');
+    // npm runs scripts from the package root; INIT_CWD is where the command was typed.
+    text = readFileSync(resolve(process.env.INIT_CWD ?? process.cwd(), file), 'utf8');
   } catch (e) {
     line = { file, error: { code: 'unreadable_file', message: `cannot read ${file}: ${(e as NodeJS.ErrnoException).code ?? (e as Error).message}` } };
   }

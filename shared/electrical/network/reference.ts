@@ -26,7 +26,10 @@ import {
 } from './model';
 import { solveError, validateNetwork, type NetworkTopology } from './validate';
 
-const math = create({ lusolveDependencies, sluDependencies, SparseMatrixDependencies });
+// Created on first use, so a bundle that never calls the reference path can drop mathjs.
+let mathInstance: ReturnType<typeof createMath> | null = null;
+const createMath = () => create({ lusolveDependencies, sluDependencies, SparseMatrixDependencies });
+const mathjs = () => (mathInstance ??= createMath());
 
 type Triplets = Map<number, Map<number, number>>; // column -> row -> value
 
@@ -51,7 +54,7 @@ function toSparse(t: Triplets, size: number) {
     }
     ptr.push(index.length);
   }
-  return new math.SparseMatrix({ values, index, ptr, size: [size, size] });
+  return new (mathjs().SparseMatrix)({ values, index, ptr, size: [size, size] });
 }
 
 interface LinearSolution {
@@ -131,6 +134,7 @@ function solveLinear(
   if (size > 0) {
     let x: number[];
     try {
+      const math = mathjs();
       const lu = math.slu(toSparse(A, size), 1, 1);
       x = (math.lusolve(lu, b).valueOf() as number[][]).map((r) => r[0]);
     } catch {
