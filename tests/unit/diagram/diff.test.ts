@@ -211,7 +211,8 @@ describe('diffDiagrams', () => {
     addCount: fc.integer({ min: 0, max: 3 }),
     ambient: fc.option(fc.integer({ min: -20, max: 60 }), { nil: undefined }),
   });
-  function edit(doc: DiagramDocument, e: fc.RecordValue<typeof editArb extends fc.Arbitrary<infer T> ? T : never>) {
+  type Edit = typeof editArb extends fc.Arbitrary<infer T> ? T : never;
+  function edit(doc: DiagramDocument, e: Edit) {
     const b = clone(doc);
     const batteries = (d: DiagramDocument) => d.parts.filter((p): p is Extract<DiagramPart, { type: 'battery' }> => p.type === 'battery');
     for (const [i, ah] of e.capacity) { const p = batteries(b)[i - 1]; if (p) p.props.capacity_Ah = ah; }
