@@ -72,9 +72,10 @@ export function cableAmpacity_A(props: CableRunProps, settings: DiagramSettings)
   return r.ok ? r.amps : null;
 }
 
-function unitOf(p: SourcePart, map: CompileMap, topo: DiagramTopology): SourceUnit {
+function unitOf(p: SourcePart, map: CompileMap, topo: DiagramTopology, batteryIds: Set<string>): SourceUnit {
   const members = p.type === 'battery' ? [p.props] : stringMembers(p.props);
-  const elements = p.type === 'battery' ? [p.id] : members.map((_, i) => `${p.id}/b${i + 1}`);
+  // The compiled battery elements in model order (a one-element part uses the part id itself).
+  const elements = map.parts[p.id].elements.filter((e) => batteryIds.has(e));
   const nodes = map.parts[p.id].nodes;
   return {
     id: p.id,
@@ -146,7 +147,8 @@ export function buildContext(doc: DiagramDocument): ContextResult {
   if (!compiled.ok) return { ok: false, errors: compiled.errors.map((e) => ({ code: e.code, message: e.message, parts: e.parts })) };
   const topo = diagramTopology(doc);
   const { network, map } = compiled;
-  const units = topo.sources.map((p) => unitOf(p, map, topo));
+  const batteryIds = new Set(network.elements.filter((e) => e.kind === 'battery').map((e) => e.id));
+  const units = topo.sources.map((p) => unitOf(p, map, topo, batteryIds));
   const elementNominal_V = new Map<string, number>();
   for (const u of units) u.elements.forEach((id, i) => elementNominal_V.set(id, u.members[i].nominal_V));
   const loadElements = new Set<string>();
