@@ -1,0 +1,180 @@
+import { describe, expect, it } from 'vitest';
+import { type DiagramDocument, busbarBankTemplate, postToPostTemplate } from '../../../shared/diagram';
+import { analyzeDiagram } from '../../../shared/electrical/analysis';
+import { batteryDefaults, fuseDefaults } from '../../../shared/electrical/parts';
+import { RULES } from '../../../shared/electrical/rules';
+import { battery, currentLoad, diagram, end, ladder, run } from '../analysis/helpers';
+
+const ids = (doc: DiagramDocument) => analyzeDiagram(doc).findings.map((f) => f.id);
+const findings = (doc: DiagramDocument, id: string) => analyzeDiagram(doc).findings.filter((f) => f.id === id);
+const clone = (d: DiagramDocument) => structuredClone(d);
+function part<T = Record<string, unknown>>(d: DiagramDocument, id: string): T {
+  return d.parts.find((p) => p.id === id)!.props as T;
+}
+
+/** A clean 4-battery busbar bank: no findings expected. */
+const clean = () => busbarBankTemplate({ count: 4 });
+
+describe('rule registry', () => {
+  it('every rule has a stable id, a basis and a title', () => {
+    const seen = new Set<string>();
+    for (const r of RULES) {
+      expect(r.id).toMatch(/^[a-z]+(-[a-z]+)*$/);
+      expect(r.basis.length).toBeGreaterThan(5);
+      expect(seen.has(r.id)).toBe(false);
+      seen.add(r.id);
+    }
+  });
+  it('the clean busbar bank has no findings', () => {
+    expect(ids(clean())).toEqual([]);
+  });
+});
+
+describe('each rule fires where it should and not elsewhere', () => {
+  it('mixed-chemistry', () => {
+    const d = clean();
+    d.parts.find((p) => p.id === 'bat2')!.props = { ...batteryDefaults('agm', 100) } as never;
+    expect(ids(d)).toContain('mixed-chemistry');
+    expect(ids(clean())).not.toContain('mixed-chemistry');
+  });
+
+  it('mixed-nominal-voltage', () => {
+    // 12.8 V LFP next to a 12.0 V LFP-labelled battery (within the compiler's parallel tolerance).
+    const d = clean();
+    part<{ nominal_V: number }>(d, 'bat2').nominal_V = 12.75;
+    const f = findings(d, 'mixed-nominal-voltage');
+    expect(f).toHaveLength(1);
+    expect(f[0].message).toContain('12.75 V');
+    expect(ids(clean())).not.toContain('mixed-nominal-voltage');
+  });
+
+  it('mixed-capacity-or-age: capacity, and lead-acid more than 6 months apart (common practice)', () => {
+    const d = clean();
+    part<{ capacity_Ah: number }>(d, 'bat3').capacity_Ah = 200;
+    expect(findings(d, 'mixed-capacity-or-age')[0].message).toMatch(/100 Ah, 200 Ah/);
+    const agm = (date: string) => ({ ...batteryDefaults('agm', 100), installDate: date });
+    const old = busbarBankTemplate({ count: 2, battery: agm('2023-01-10') });
+    old.parts.find((p) => p.id === 'bat2')!.props = agm('2023-09-01') as never; // ~7.7 months
+    expect(findings(old, 'mixed-capacity-or-age').some((f) => /months apart/.test(f.message))).toBe(true);
+    const close = busbarBankTemplate({ count: 2, battery: agm('2023-01-10') });
+    close.parts.find((p) => p.id === 'bat2')!.props = agm('2023-05-01') as never; // under 4 months
+    expect(findings(close, 'mixed-capacity-or-age')).toEqual([]);
+  });
+
+  it('parallel-battery-without-fuse', () => {
+    const d = busbarBankTemplate({ count: 3, batteryFuse: null });
+    expect(findings(d, 'parallel-battery-without-fuse').map((f) => f.parts[0]).sort()).toEqual(['bat1', 'bat2', 'bat3']);
+    expect(ids(busbarBankTemplate({ count: 1, batteryFuse: null }))).not.toContain('parallel-battery-without-fuse');
+    expect(ids(clean())).not.toContain('parallel-battery-without-fuse');
+  });
+
+  it('fuse-above-ampacity (NEC 240.4): 60 A fuse on 8 AWG (50 A at 75 °C, NEC 310.16)', () => {
+    const d = clean();
+    for (const c of d.cables) if (['c-fuse1', 'c-pos1'].includes(c.id)) c.props.conductor = { system: 'awg', size: '8' };
+    const f = findings(d, 'fuse-above-ampacity');
+    expect(f.map((x) => x.parts[1]).sort()).toEqual(['c-fuse1', 'c-pos1']);
+    expect(f[0].message).toContain('50.0 A');
+    expect(ids(clean())).not.toContain('fuse-above-ampacity');
+  });
+
+  it('fuse-voltage-rating: a 32 V fuse on a 48 V system', () => {
+    const d = clean();
+    d.settings.systemVoltage_V = 48;
+    part<{ voltage_rating_V: number }>(d, 'fuse2').voltage_rating_V = 32;
+    const f = findings(d, 'fuse-voltage-rating');
+    expect(f.some((x) => x.parts[0] === 'fuse2' && x.severity === 'error')).toBe(true);
+    expect(ids(clean())).not.toContain('fuse-voltage-rating');
+  });
+
+  it('interrupting-rating: a 1 kA fuse where the bank can deliver more', () => {
+    const d = clean();
+    part<{ interrupting_A: number }>(d, 'fuse1').interrupting_A = 1000;
+    expect(findings(d, 'interrupting-rating').map((f) => f.parts[0])).toEqual(['fuse1']);
+    expect(ids(clean())).not.toContain('interrupting-rating');
+  });
+
+  it('fuse-below-design-current: 42.5 A × 1.25 needs 53 A, a 50 A fuse is short', () => {
+    const d = clean();
+    part<{ rating_A: number }>(d, 'fuse1').rating_A = 50;
+    expect(findings(d, 'fuse-below-design-current').map((f) => f.parts[0])).toEqual(['fuse1']);
+    expect(ids(clean())).not.toContain('fuse-below-design-current');
+  });
+
+  it('cable-over-ampacity', () => {
+    const d = clean();
+    const c = d.cables.find((x) => x.id === 'c-neg2')!;
+    c.props.conductor = { system: 'awg', size: '12' }; // 25 A at 75 °C (NEC 310.16)
+    expect(findings(d, 'cable-over-ampacity').map((f) => f.parts[0])).toContain('c-neg2');
+    expect(ids(clean())).not.toContain('cable-over-ampacity');
+  });
+
+  it('voltage-drop above 3 % (NEC 210.19(A) note / ABYC E-11)', () => {
+    const d = clean();
+    d.cables.find((x) => x.id === 'c-main-neg')!.props.length_m = 6;
+    expect(findings(d, 'voltage-drop')[0].parts).toEqual(['inverter']);
+    const relaxed = clone(d);
+    relaxed.settings.voltageDropLimit_pct = 10;
+    expect(ids(relaxed)).not.toContain('voltage-drop');
+  });
+
+  it('battery-over-continuous', () => {
+    const d = clean();
+    part<{ max_continuous_A: number }>(d, 'bat4').max_continuous_A = 30;
+    expect(findings(d, 'battery-over-continuous').map((f) => f.parts[0])).toEqual(['bat4']);
+    expect(ids(clean())).not.toContain('battery-over-continuous');
+  });
+
+  it('post-to-post-count: 5 batteries chained with the default limit of 4', () => {
+    expect(ids(postToPostTemplate({ count: 5, takeOff: 'diagonal' }))).toContain('post-to-post-count');
+    expect(ids(postToPostTemplate({ count: 4, takeOff: 'diagonal' }))).not.toContain('post-to-post-count');
+  });
+
+  it('busbar-cable-length-spread', () => {
+    const d = clean();
+    d.cables.find((x) => x.id === 'c-neg3')!.props.length_m = 1.5;
+    expect(findings(d, 'busbar-cable-length-spread')[0].parts).toContain('bus-neg');
+    const within = clean();
+    within.cables.find((x) => x.id === 'c-neg3')!.props.length_m = 1.05;
+    expect(ids(within)).not.toContain('busbar-cable-length-spread');
+  });
+
+  it('current-imbalance', () => {
+    const d = ladder(4); // both leads on b1
+    const f = findings(d, 'current-imbalance');
+    expect(f).toHaveLength(1);
+    expect(f[0].parts[0]).toBe('b1');
+    expect(ids(ladder(2, { posTap: 1, negTap: 2 }))).not.toContain('current-imbalance');
+  });
+
+  it('both-leads-one-battery', () => {
+    expect(ids(ladder(2))).toContain('both-leads-one-battery');
+    expect(ids(ladder(2, { posTap: 1, negTap: 2 }))).not.toContain('both-leads-one-battery');
+    // A single battery has nothing to share with.
+    const single = diagram([battery('b1', 0), currentLoad('load', 10)], [
+      { id: 'cp', from: end('b1', 'pos'), to: end('load', 'pos'), props: run(35, 1) },
+      { id: 'cn', from: end('b1', 'neg'), to: end('load', 'neg'), props: run(35, 1) },
+    ]);
+    expect(ids(single)).not.toContain('both-leads-one-battery');
+  });
+
+  it('structural errors become findings', () => {
+    const d = clean();
+    d.cables = d.cables.filter((c) => c.id !== 'c-neg1');
+    const f = analyzeDiagram(d).findings;
+    expect(f.some((x) => x.id === 'structure-unconnected-terminal' && x.parts.includes('bat1'))).toBe(true);
+    expect(ids(clean()).some((x) => x.startsWith('structure-'))).toBe(false);
+  });
+
+  it('equalization findings: a battery far below the others pushes its fuse', () => {
+    const d = busbarBankTemplate({ count: 2, batteryFuse: fuseDefaults('class_t', 60) });
+    part<{ restingVoltage_V: number }>(d, 'bat1').restingVoltage_V = 13.4;
+    part<{ restingVoltage_V: number }>(d, 'bat2').restingVoltage_V = 12.6;
+    // 0.8 V across about 20 mΩ of loop (two internal resistances, four 6 AWG runs, two fuses): ~40 A.
+    part<{ rating_A: number }>(d, 'fuse1').rating_A = 25;
+    part<{ rating_A: number }>(d, 'fuse2').rating_A = 25;
+    const r = analyzeDiagram(d, { mode: 'equalize' });
+    expect(r.findings.some((f) => f.id === 'equalization-current-over-fuse')).toBe(true);
+    const same = busbarBankTemplate({ count: 2, batteryFuse: fuseDefaults('class_t', 25) });
+    expect(analyzeDiagram(same, { mode: 'equalize' }).findings.some((f) => f.id.startsWith('equalization'))).toBe(false);
+  });
+});
