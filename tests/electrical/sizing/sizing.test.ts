@@ -1,0 +1,84 @@
+import { describe, expect, it } from 'vitest';
+import { busbarBankTemplate } from '../../../shared/diagram';
+import { analyzeDiagram } from '../../../shared/electrical/analysis';
+import { fuseDefaults } from '../../../shared/electrical/parts';
+import { applySizing, suggestSizing } from '../../../shared/electrical/sizing';
+import { battery, currentLoad, diagram, end } from '../analysis/helpers';
+
+/** One battery through a fuse to a busbar, feeding a constant-current load of `amps`. */
+function branch(amps: number, length_m = 1) {
+  const cable = (len: number) => ({ conductor: { system: 'awg', size: '4/0' }, length_m: len }) as const;
+  return diagram(
+    [
+      battery('b1', 0, { max_continuous_A: 500 }),
+      { id: 'f1', type: 'fuse', position: { x: 0, y: -100 }, props: fuseDefaults('class_t', 300) },
+      { id: 'bus', type: 'busbar', position: { x: 0, y: -300 }, props: { material: 'copper', width_mm: 25, thickness_mm: 6, tapCount: 2, tapSpacing_m: 0.04, rating_A: 300 } },
+      { id: 'busn', type: 'busbar', position: { x: 0, y: 300 }, props: { material: 'copper', width_mm: 25, thickness_mm: 6, tapCount: 2, tapSpacing_m: 0.04, rating_A: 300 } },
+      currentLoad('load', amps),
+    ],
+    [
+      { id: 'c1', from: end('b1', 'pos'), to: end('f1', 'a'), props: cable(0.1) },
+      { id: 'c2', from: end('f1', 'b'), to: end('bus', 't1'), props: cable(length_m) },
+      { id: 'c3', from: end('b1', 'neg'), to: end('busn', 't1'), props: cable(length_m) },
+      { id: 'c4', from: end('bus', 't2'), to: end('load', 'pos'), props: cable(1) },
+      { id: 'c5', from: end('busn', 't2'), to: end('load', 'neg'), props: cable(1) },
+    ],
+  );
+}
+
+describe('fuse and cable sizing', () => {
+  it('80 A × 1.25 = 100 A → 100 A fuse (NEC 240.6(A)); 4 AWG is 85 A, 2 AWG 115 A at 75 °C (NEC 310.16) → 2 AWG', () => {
+    const r = suggestSizing(branch(80));
+    if (!r.ok) throw new Error('sizing failed');
+    const b = r.branches[0];
+    expect(b.share_A).toBeCloseTo(80, 9);
+    expect(b.required_A).toBeCloseTo(100, 9);
+    expect(b.fuse).toMatchObject({ part: 'f1', rating_A: 100, present_A: 300 });
+    expect(b.cables.map((c) => c.id).sort()).toEqual(['c1', 'c2', 'c3']);
+    expect(b.cables.every((c) => c.conductor.system === 'awg' && c.conductor.size === '2')).toBe(true);
+    expect(b.ampacity_A).toBe(115);
+    expect(b.reasoning).toMatch(/80\.0 A × 1\.25 = 100(\.0)? A/);
+    expect(b.reasoning).toMatch(/100 A \(NEC 240\.6\(A\)\)/);
+  });
+
+  it('81 A × 1.25 = 101.25 A → the next standard rating, 110 A; 2 AWG still carries it', () => {
+    const r = suggestSizing(branch(81));
+    if (!r.ok) throw new Error('sizing failed');
+    expect(r.branches[0].fuse.rating_A).toBe(110);
+    expect(r.branches[0].cables[0].conductor).toEqual({ system: 'awg', size: '2' });
+  });
+
+  it('a long run is sized up for the voltage drop limit', () => {
+    const r = suggestSizing(branch(80, 6));
+    if (!r.ok) throw new Error('sizing failed');
+    const b = r.branches[0];
+    // 2 AWG (33.6 mm², flexible) over 12.1 m of branch at 80 A: ~0.57 V, 4.8 % of 12 V — too much.
+    expect(b.cables[0].conductor).not.toEqual({ system: 'awg', size: '2' });
+    expect(b.branchDrop_pct).toBeLessThanOrEqual(3);
+    expect(b.reasoning).toMatch(/drop/);
+  });
+
+  it('applySizing re-rates the fuse and resizes the cables, leaving the input untouched', () => {
+    const doc = branch(80);
+    const r = suggestSizing(doc);
+    if (!r.ok) throw new Error('sizing failed');
+    const next = applySizing(doc, r.branches[0]);
+    expect(doc.parts.find((p) => p.id === 'f1')!.props).toMatchObject({ rating_A: 300 });
+    expect(next.parts.find((p) => p.id === 'f1')!.props).toMatchObject({ rating_A: 100 });
+    expect(next.cables.find((c) => c.id === 'c2')!.props.conductor).toEqual({ system: 'awg', size: '2' });
+  });
+
+  it('a branch without a fuse gets one bolted to its positive post, and the result analyses clean', () => {
+    const doc = busbarBankTemplate({ count: 2, batteryFuse: null });
+    expect(analyzeDiagram(doc).findings.some((f) => f.id === 'parallel-battery-without-fuse')).toBe(true);
+    const r = suggestSizing(doc);
+    if (!r.ok) throw new Error('sizing failed');
+    expect(r.branches.every((b) => b.fuse.part === null)).toBe(true);
+    const next = applySizing(doc, r.branches);
+    expect(next.parts.filter((p) => p.type === 'fuse')).toHaveLength(3); // two new + the main fuse
+    const after = analyzeDiagram(next);
+    expect(after.ok).toBe(true);
+    expect(after.findings.map((f) => f.id)).not.toContain('parallel-battery-without-fuse');
+    expect(after.findings.filter((f) => f.severity === 'error')).toEqual([]);
+  });
+});
