@@ -9,6 +9,7 @@ import { create } from 'zustand';
 import type { DiagramDocument } from '@shared/diagram';
 import { isApiError } from '@/lib/api';
 import { fetchDiagram, saveWorkingCopy, type ConflictDetails } from './api';
+import { parseStoredDiagram } from './loadDocument';
 import { useEditorStore } from './store';
 
 export type SaveStatus = 'saved' | 'pending' | 'saving' | 'offline' | 'conflict' | 'error';
@@ -200,7 +201,6 @@ export function useWorkingCopySync(diagramId: string, enabled: boolean, initialD
       },
       reloadTheirs: async () => {
         const res = await fetchDiagram(diagramId);
-        const { parseStoredDiagram } = await import('./loadDocument');
         const parsed = parseStoredDiagram(res.diagram.content);
         dirty = false;
         clearLocalCopy(diagramId);

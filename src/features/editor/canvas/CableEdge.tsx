@@ -42,6 +42,8 @@ function CableEdgeView({ id, data, selected, sourceX, sourceY, targetX, targetY,
           className={`bw-cable-label nodrag nopan${selected ? ' bw-cable-label-selected' : ''}${over ? ' bw-over' : ''}`}
           style={{ transform: `translate(-50%, -50%) translate(${labelX}px, ${labelY}px)` }}
           data-cable-id={id}
+          onClick={(e) => useEditorStore.getState().select([id], { additive: e.shiftKey || e.metaKey || e.ctrlKey })}
+          title={`${cable.label ? `${cable.label}: ` : ''}${cable.props.role === 'jumper' ? 'jumper' : 'cable'}, ${cable.props.material}${r?.loading != null ? `; ${fmtPct(r.loading * 100)} of ampacity` : ''}`}
         >
           <span>
             {shortConductor(cable.props.conductor, unitSystem)} · {lengthText(cable.props.length_m, unitSystem)}
@@ -49,7 +51,7 @@ function CableEdgeView({ id, data, selected, sourceX, sourceY, targetX, targetY,
           {r ? (
             <span className="bw-cable-figures">
               {fmtAmps(r.i)}
-              {r.loading !== null ? ` · ${over ? '▲ ' : ''}${fmtPct(r.loading * 100)} of ampacity` : ''}
+              {r.loading !== null ? ` · ${over ? '▲ over ' : ''}${fmtPct(r.loading * 100)}` : ''}
             </span>
           ) : null}
           {badge && BadgeIcon ? (

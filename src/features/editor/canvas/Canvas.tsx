@@ -5,7 +5,7 @@
  */
 import { useCallback, useEffect, useMemo, useRef, useState, type DragEvent } from 'react';
 import {
-  Background, BackgroundVariant, ConnectionMode, Controls, MiniMap, ReactFlow, useReactFlow,
+  Background, BackgroundVariant, ConnectionMode, Controls, MiniMap, ReactFlow, useNodesInitialized, useReactFlow,
   type Connection, type Edge, type EdgeChange, type IsValidConnection, type NodeChange,
 } from '@xyflow/react';
 import type { DiagramCable, DiagramDocument, DiagramPart } from '@shared/diagram';
@@ -198,8 +198,20 @@ export function Canvas() {
     if (!(PART_TYPE_IDS as readonly string[]).includes(type)) return;
     e.preventDefault();
     const at = rf.screenToFlowPosition({ x: e.clientX, y: e.clientY });
-    placePart(type, at);
+    const id = placePart(type, at);
+    // Dropped where the user wanted it: not a candidate for "Arrange new parts".
+    if (id) useEditorStore.getState().clearFresh([id]);
   }, [rf]);
+
+  // Fit once, when the first nodes have been measured.
+  const initialized = useNodesInitialized();
+  const fitted = useRef(false);
+  useEffect(() => {
+    if (initialized && !fitted.current) {
+      fitted.current = true;
+      void rf.fitView({ padding: 0.15, maxZoom: 1.25 });
+    }
+  }, [initialized, rf]);
 
   useEffect(() => {
     if (!focusRequest) return;
@@ -263,5 +275,9 @@ export function placePart(type: PartType, centre: { x: number; y: number }): str
   const store = useEditorStore.getState();
   const probe = { type, rotation: 0, props: type === 'busbar' ? { tapCount: 6 } : {} } as DiagramPart;
   const box = partBox(probe);
-  return store.addPart(type, { x: snap(centre.x - box.w / 2), y: snap(centre.y - box.h / 2) });
+  let at = { x: snap(centre.x - box.w / 2), y: snap(centre.y - box.h / 2) };
+  // Do not stack a new part exactly on one already there: step down and right until free.
+  const taken = new Set(store.doc.parts.map((p) => `${p.position.x},${p.position.y}`));
+  for (let i = 0; i < 50 && taken.has(`${at.x},${at.y}`); i++) at = { x: at.x + GRID * 3, y: at.y + GRID * 3 };
+  return store.addPart(type, at);
 }

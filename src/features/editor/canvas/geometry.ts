@@ -19,16 +19,16 @@ export interface TerminalPlacement {
 export const GRID = 10;
 
 const BOX: Record<PartType, { w: number; h: number }> = {
-  battery: { w: 120, h: 64 },
-  series_string: { w: 140, h: 80 },
+  battery: { w: 128, h: 84 },
+  series_string: { w: 136, h: 90 },
   lug: { w: 44, h: 56 },
   busbar: { w: 240, h: 28 },
   fuse: { w: 48, h: 76 },
   switch: { w: 56, h: 76 },
   shunt: { w: 56, h: 76 },
-  inverter: { w: 112, h: 72 },
-  dc_load: { w: 100, h: 64 },
-  charger: { w: 112, h: 64 },
+  inverter: { w: 128, h: 84 },
+  dc_load: { w: 120, h: 76 },
+  charger: { w: 120, h: 72 },
   note: { w: 180, h: 72 },
 };
 

@@ -70,7 +70,7 @@ function FindingsBadge({ id }: { id: string }) {
 }
 
 /** Frame shared by every part: rotated symbol, label, handles, findings badge, and a results strip below. */
-function PartShell({ id, data, selected, caption, children }: { id: string; data: PartNodeData; selected: boolean; caption?: ReactNode; children?: ReactNode }) {
+function PartShell({ id, data, selected, caption, inside, children }: { id: string; data: PartNodeData; selected: boolean; caption?: ReactNode; inside?: ReactNode; children?: ReactNode }) {
   const { part, tapSide, readOnly } = data;
   const base = baseBox(part);
   const box = partBox(part);
@@ -92,6 +92,7 @@ function PartShell({ id, data, selected, caption, children }: { id: string; data
         <div className={`bw-part-label bw-label-${part.type}`}>
           <span className="bw-part-name">{label}</span>
           {caption ? <span className="bw-part-caption">{caption}</span> : null}
+          {inside}
         </div>
       ) : null}
       {terminalPlacements(part, tapSide).map((t) => (
@@ -113,7 +114,7 @@ function BatteryResult({ id }: { id: string }) {
   if (!r) return null;
   const pct = Math.max(0, Math.min(1, r.share));
   return (
-    <div className="bw-result" data-testid={`share-${id}`}>
+    <div className="bw-result-inside" data-testid={`share-${id}`}>
       <div className="bw-share-bar" aria-hidden="true">
         <div style={{ width: `${pct * 100}%` }} />
       </div>
@@ -154,7 +155,7 @@ function LoadResult({ id }: { id: string }) {
   );
   if (!r) return null;
   return (
-    <div className="bw-result">
+    <div className="bw-result-inside">
       <span className="bw-result-text">
         {fmtVolts(r.v)} · drop {fmtPct(r.drop, 1)}
       </span>
@@ -181,18 +182,10 @@ function caption(part: DiagramPart): string | undefined {
 }
 
 const BatteryNode = memo(function BatteryNode({ id, data, selected }: P) {
-  return (
-    <PartShell id={id} data={data} selected={selected} caption={caption(data.part)}>
-      <BatteryResult id={id} />
-    </PartShell>
-  );
+  return <PartShell id={id} data={data} selected={selected} caption={caption(data.part)} inside={<BatteryResult id={id} />} />;
 });
 const SeriesStringNode = memo(function SeriesStringNode({ id, data, selected }: P) {
-  return (
-    <PartShell id={id} data={data} selected={selected} caption={caption(data.part)}>
-      <BatteryResult id={id} />
-    </PartShell>
-  );
+  return <PartShell id={id} data={data} selected={selected} caption={caption(data.part)} inside={<BatteryResult id={id} />} />;
 });
 const LugNode = memo(function LugNode({ id, data, selected }: P) {
   return <PartShell id={id} data={data} selected={selected} />;
@@ -214,18 +207,10 @@ const ShuntNode = memo(function ShuntNode({ id, data, selected }: P) {
   return <PartShell id={id} data={data} selected={selected} caption={caption(data.part)} />;
 });
 const InverterNode = memo(function InverterNode({ id, data, selected }: P) {
-  return (
-    <PartShell id={id} data={data} selected={selected} caption={caption(data.part)}>
-      <LoadResult id={id} />
-    </PartShell>
-  );
+  return <PartShell id={id} data={data} selected={selected} caption={caption(data.part)} inside={<LoadResult id={id} />} />;
 });
 const DcLoadNode = memo(function DcLoadNode({ id, data, selected }: P) {
-  return (
-    <PartShell id={id} data={data} selected={selected} caption={caption(data.part)}>
-      <LoadResult id={id} />
-    </PartShell>
-  );
+  return <PartShell id={id} data={data} selected={selected} caption={caption(data.part)} inside={<LoadResult id={id} />} />;
 });
 const ChargerNode = memo(function ChargerNode({ id, data, selected }: P) {
   return <PartShell id={id} data={data} selected={selected} caption={caption(data.part)} />;

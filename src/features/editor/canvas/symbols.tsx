@@ -36,11 +36,11 @@ function SeriesStringSymbol({ w, h }: { w: number; h: number }) {
       <rect x={6} y={8} width={w - 12} height={h - 14} rx={5} className="bw-case" {...S} strokeDasharray="5 3" />
       <rect x={w / 2 - 7} y={3} width={14} height={6} rx={1.5} className="bw-post" {...S} />
       <rect x={w / 2 - 7} y={h - 7} width={14} height={5} rx={1.5} className="bw-post" {...S} />
-      <Cell x={20} y={20} w={14} />
-      <path d="M20 29v4" {...S} strokeDasharray="1.5 2" />
-      <Cell x={20} y={37} w={14} />
-      <path d="M20 46v4" {...S} strokeDasharray="1.5 2" />
-      <Cell x={20} y={54} w={14} />
+      <Cell x={20} y={h / 2 - 24} w={14} />
+      <path d={`M20 ${h / 2 - 15}v4`} {...S} strokeDasharray="1.5 2" />
+      <Cell x={20} y={h / 2 - 6} w={14} />
+      <path d={`M20 ${h / 2 + 3}v4`} {...S} strokeDasharray="1.5 2" />
+      <Cell x={20} y={h / 2 + 12} w={14} />
     </g>
   );
 }
@@ -102,14 +102,27 @@ function ShuntSymbol({ w, h }: { w: number; h: number }) {
   );
 }
 
+/** Icon area on the left of a boxed load or charger: a small square with the part's mark. */
+function IconSquare({ h, children }: { h: number; children: ReactNode }) {
+  return (
+    <g>
+      <rect x={9} y={h / 2 - 12} width={22} height={24} rx={2} {...S} strokeWidth={1.2} />
+      {children}
+    </g>
+  );
+}
+
 function InverterSymbol({ w, h }: { w: number; h: number }) {
+  // DC in the top-left corner of the square, one AC wave in the bottom-right, split by a diagonal.
+  const y = h / 2 - 12;
   return (
     <g {...S}>
       <rect x={4} y={6} width={w - 8} height={h - 12} rx={4} className="bw-case" />
-      <path d={`M${w - 8} 10L8 ${h - 10}`} strokeWidth={1} />
-      {/* DC side (top-left): a flat line; AC side (bottom-right): one wave */}
-      <path d="M14 20h16M14 25h5m2 0h5m2 0h2" />
-      <path d={`M${w - 34} ${h - 22}q4-8 8 0t8 0`} />
+      <IconSquare h={h}>
+        <path d={`M9 ${y + 24}L31 ${y}`} strokeWidth={1} />
+        <path d={`M12 ${y + 5}h8M12 ${y + 8}h2.5m1.5 0h2.5`} strokeWidth={1.1} />
+        <path d={`M20 ${y + 18}q2.5-4 5 0t5 0`} strokeWidth={1.1} />
+      </IconSquare>
     </g>
   );
 }
@@ -118,8 +131,10 @@ function DcLoadSymbol({ w, h }: { w: number; h: number }) {
   return (
     <g {...S}>
       <rect x={4} y={6} width={w - 8} height={h - 12} rx={4} className="bw-case" />
-      {/* a heating-element zigzag */}
-      <path d={`M16 ${h / 2}l4-7 6 14 6-14 6 14 4-7`} />
+      <IconSquare h={h}>
+        {/* a heating-element zigzag */}
+        <path d={`M11 ${h / 2}l2-5 3 10 3-10 3 10 3-10 2 5`} strokeWidth={1.1} />
+      </IconSquare>
     </g>
   );
 }
@@ -128,9 +143,11 @@ function ChargerSymbol({ w, h }: { w: number; h: number }) {
   return (
     <g {...S}>
       <rect x={4} y={6} width={w - 8} height={h - 12} rx={4} className="bw-case" />
-      <path d={`M12 ${h / 2 + 2}q3-6 6 0t6 0`} />
-      <path d={`M28 ${h / 2 - 1}h7m-3-3l3 3-3 3`} />
-      <path d={`M39 ${h / 2 - 3}h10M39 ${h / 2 + 2}h3m2 0h3m2 0h1`} />
+      <IconSquare h={h}>
+        <path d={`M12 ${h / 2 - 5}q2-3 4 0t4 0`} strokeWidth={1.1} />
+        <path d={`M20 ${h / 2 + 1}l3 3-3 3`} strokeWidth={1.1} />
+        <path d={`M12 ${h / 2 + 4}h6`} strokeWidth={1.1} />
+      </IconSquare>
     </g>
   );
 }
@@ -163,8 +180,8 @@ export function PartSymbol({ type, w, h, closed = true }: { type: PartType; w: n
 /** A small version of a part's symbol for the palette (24×24 box). */
 export function PaletteGlyph({ type }: { type: PartType }) {
   const boxes: Record<PartType, [number, number]> = {
-    battery: [120, 64], series_string: [140, 80], lug: [44, 56], busbar: [160, 28], fuse: [48, 76], switch: [56, 76],
-    shunt: [56, 76], inverter: [112, 72], dc_load: [100, 64], charger: [112, 64], note: [180, 72],
+    battery: [128, 84], series_string: [136, 90], lug: [44, 56], busbar: [100, 28], fuse: [48, 76], switch: [56, 76],
+    shunt: [56, 76], inverter: [128, 84], dc_load: [120, 76], charger: [120, 72], note: [120, 72],
   };
   const [w, h] = boxes[type];
   return (

@@ -1,0 +1,130 @@
+import { act, render, screen } from '@testing-library/react';
+import userEvent from '@testing-library/user-event';
+import { describe, expect, it } from 'vitest';
+import { postToPostTemplate, type DiagramPart } from '@shared/diagram';
+import { PropertiesPanel } from '@/features/editor/properties/PropertiesPanel';
+import { editor, resetEditor } from './flow-mocks';
+
+const battery = (id = 'bat1') => editor().doc.parts.find((p) => p.id === id) as Extract<DiagramPart, { type: 'battery' }>;
+const cable = (id: string) => editor().doc.cables.find((c) => c.id === id)!;
+
+function openOn(id: string | null, unitSystem: 'metric' | 'us' = 'metric') {
+  resetEditor(postToPostTemplate({ count: 2, takeOff: 'diagonal' }), { unitSystem });
+  if (id) act(() => editor().select([id]));
+  render(<PropertiesPanel />);
+}
+
+describe('properties panel: battery', () => {
+  it("edits a battery's capacity, typing coalescing into one undo step", async () => {
+    openOn('bat1');
+    const user = userEvent.setup();
+    const field = screen.getByLabelText('Capacity');
+    expect(field).toHaveValue('100');
+    const steps = editor().past.length;
+    await user.clear(field);
+    await user.type(field, '230');
+    expect(battery().props.capacity_Ah).toBe(230);
+    expect(editor().past.length).toBe(steps + 1);
+    act(() => editor().undo());
+    expect(battery().props.capacity_Ah).toBe(100);
+  });
+
+  it('shows a field error naming the field for a bad value and does not commit it', async () => {
+    openOn('bat1');
+    const user = userEvent.setup();
+    const field = screen.getByLabelText('Capacity');
+    await user.clear(field);
+    await user.type(field, '-5');
+    expect(field).toHaveAttribute('aria-invalid', 'true');
+    expect(screen.getByText('Capacity must be more than 0 Ah')).toBeInTheDocument();
+    expect(battery().props.capacity_Ah).toBe(100);
+    await user.clear(field);
+    await user.type(field, 'lots');
+    expect(screen.getByText('Capacity must be a number (Ah)')).toBeInTheDocument();
+  });
+
+  it('shows internal resistance in mΩ and stores ohms', async () => {
+    openOn('bat1');
+    const user = userEvent.setup();
+    const field = screen.getByLabelText('Internal resistance');
+    await user.clear(field);
+    await user.type(field, '3.5');
+    expect(battery().props.r_internal_ohm).toBeCloseTo(0.0035, 10);
+  });
+});
+
+describe('properties panel: cable', () => {
+  it('accepts "2/0" and "35 mm²" as conductor sizes', async () => {
+    openOn('j-pos-1');
+    const user = userEvent.setup();
+    const field = screen.getByLabelText('Conductor size');
+    await user.clear(field);
+    await user.type(field, '2/0');
+    expect(cable('j-pos-1').props.conductor).toEqual({ system: 'awg', size: '2/0' });
+    await user.clear(field);
+    await user.type(field, '35 mm²');
+    expect(cable('j-pos-1').props.conductor).toEqual({ system: 'mm2', size: 35 });
+  });
+
+  it('reads "12 ft" as metres and a bare number in the team unit', async () => {
+    openOn('c-main-neg', 'us');
+    const user = userEvent.setup();
+    const field = screen.getByLabelText('Length (one conductor)');
+    await user.clear(field);
+    await user.type(field, '12 ft');
+    // 12 ft × 0.3048 m/ft (international foot, exact)
+    expect(cable('c-main-neg').props.length_m).toBeCloseTo(3.6576, 9);
+    await user.clear(field);
+    await user.type(field, '10');
+    expect(cable('c-main-neg').props.length_m).toBeCloseTo(3.048, 9);
+    await user.clear(field);
+    await user.type(field, '3.5 m');
+    expect(cable('c-main-neg').props.length_m).toBeCloseTo(3.5, 9);
+  });
+
+  it("shows lengths in the team's unit system", () => {
+    openOn('c-main-neg', 'us');
+    // The template's 2 m main cable: 2 / 0.3048 = 6.56 ft.
+    expect(screen.getByLabelText('Length (one conductor)')).toHaveValue('6.6 ft');
+    expect(screen.getByText(/US customary/)).toBeInTheDocument();
+  });
+
+  it('shows metric lengths for a metric team', () => {
+    openOn('c-main-neg', 'metric');
+    expect(screen.getByLabelText('Length (one conductor)')).toHaveValue('2.00 m');
+  });
+
+  it('applies a conductor preset', async () => {
+    openOn('j-pos-1');
+    const user = userEvent.setup();
+    await user.selectOptions(screen.getByLabelText('Conductor size presets'), 'mm2-50');
+    expect(cable('j-pos-1').props.conductor).toEqual({ system: 'mm2', size: 50 });
+  });
+});
+
+describe('properties panel: bank settings and roles', () => {
+  it('edits the bank settings when nothing is selected, with the ambient in °F for a US team', async () => {
+    openOn(null, 'us');
+    expect(screen.getByRole('heading', { name: 'Bank settings' })).toBeInTheDocument();
+    const ambient = screen.getByLabelText('Ambient temperature');
+    // 30 °C = 86 °F
+    expect(ambient).toHaveValue('86 °F');
+    const user = userEvent.setup();
+    await user.clear(ambient);
+    await user.type(ambient, '104');
+    // 104 °F = 40 °C
+    expect(editor().doc.settings.ambient_C).toBeCloseTo(40, 9);
+    const drop = screen.getByLabelText('Voltage-drop limit');
+    await user.clear(drop);
+    await user.type(drop, '0');
+    expect(screen.getByText('Voltage-drop limit must be more than 0 %')).toBeInTheDocument();
+  });
+
+  it('disables every field for a read-only role', () => {
+    resetEditor(postToPostTemplate({ count: 2, takeOff: 'diagonal' }), { readOnly: true });
+    act(() => editor().select(['bat1']));
+    render(<PropertiesPanel />);
+    expect(screen.getByLabelText('Capacity')).toBeDisabled();
+    expect(screen.queryByRole('button', { name: 'Delete selection' })).not.toBeInTheDocument();
+  });
+});
