@@ -88,7 +88,7 @@ export interface BomOptions {
 const num = (x: number) => String(Number(x.toPrecision(6)));
 const roundUp = (x: number, step: number) => Math.ceil(x / step - 1e-9) * step;
 const round = (x: number, step: number) => Math.round(x / step) * step;
-const clean = (x: number) => Number(x.toFixed(6));
+const clean = (x: number) => Math.round(x * 1e6) / 1e6;
 
 function smallLength(mm: number, us: UnitSystem) {
   return us === 'metric' ? `${num(mm)} mm` : `${(mToIn(mm / 1000)).toFixed(2)} in`;
@@ -114,11 +114,12 @@ const HOLDER_NAME: Record<FuseClassId, string | null> = {
 
 class Lines {
   private groups = new Map<string, BomLine & { ids: Set<string> }>();
-  add(category: BomCategory, key: string, description: string, quantity: number, unit: BomUnit, partId: string) {
+  /** `describe` runs once per group (descriptions format sizes; keys are cheap). */
+  add(category: BomCategory, key: string, describe: () => string, quantity: number, unit: BomUnit, partId: string) {
     const k = `${category}|${key}`;
     let g = this.groups.get(k);
     if (!g) {
-      g = { category, description, quantity: 0, unit, partIds: [], ids: new Set() };
+      g = { category, description: describe(), quantity: 0, unit, partIds: [], ids: new Set() };
       this.groups.set(k, g);
     }
     g.quantity += quantity;
@@ -175,7 +176,7 @@ export function billOfMaterials(doc: DiagramDocument, opts: BomOptions): BillOfM
     const insulation = s.insulation_C === undefined ? 'insulation rating not set' : `${s.insulation_C} °C insulation`;
     const line = lines.add(
       'cables', `${conductorKey(s.conductor)}|${s.material}|${s.insulation_C ?? ''}`,
-      `${formatConductor(s.conductor, us).text} ${materialName(s.material)} cable, ${insulation}`,
+      () => `${formatConductor(s.conductor, us).text} ${materialName(s.material)} cable, ${insulation}`,
       cut_m, lengthUnit, partIdOf(s.id),
     );
     const cuts = cutsByLine.get(line) ?? [];
@@ -194,9 +195,11 @@ export function billOfMaterials(doc: DiagramDocument, opts: BomOptions): BillOfM
   // Lugs: two per cable (one per end); ends that land on a lug part take its stud.
   const lugPartsReached = new Set<string>();
   const addLug = (conductor: ConductorSize | null, material: string, stud: string | undefined, partId: string) => {
-    const forWhat = conductor ? `for ${formatConductor(conductor, us).text} ${materialName(material)}` : '(conductor size not set)';
-    const kind = material === 'aluminium' ? 'Crimp lug (aluminium/bimetal)' : 'Crimp lug';
-    lines.add('lugs', `${conductor ? conductorKey(conductor) : '-'}|${material}|${stud ?? ''}`, `${kind} ${forWhat}, ${lugStudText(stud)}`, 1, 'pcs', partId);
+    lines.add('lugs', `${conductor ? conductorKey(conductor) : '-'}|${material}|${stud ?? ''}`, () => {
+      const forWhat = conductor ? `for ${formatConductor(conductor, us).text} ${materialName(material)}` : '(conductor size not set)';
+      const kind = material === 'aluminium' ? 'Crimp lug (aluminium/bimetal)' : 'Crimp lug';
+      return `${kind} ${forWhat}, ${lugStudText(stud)}`;
+    }, 1, 'pcs', partId);
   };
   for (const c of doc.cables) {
     if (c.props.length_m <= 0) continue;
@@ -221,7 +224,7 @@ export function billOfMaterials(doc: DiagramDocument, opts: BomOptions): BillOfM
   const addBattery = (b: BatteryProps, partId: string) => {
     const model = b.model ? `, ${b.model}` : '';
     lines.add('batteries', `${b.chemistry}|${b.nominal_V}|${b.capacity_Ah}|${b.model ?? ''}`,
-      `${CHEMISTRIES[b.chemistry].name} battery, ${num(b.nominal_V)} V, ${num(b.capacity_Ah)} Ah${model}`, 1, 'pcs', partId);
+      () => `${CHEMISTRIES[b.chemistry].name} battery, ${num(b.nominal_V)} V, ${num(b.capacity_Ah)} Ah${model}`, 1, 'pcs', partId);
   };
   for (const p of doc.parts) addPart(p);
   function addPart(p: DiagramPart) {
@@ -235,9 +238,9 @@ export function billOfMaterials(doc: DiagramDocument, opts: BomOptions): BillOfM
         const f = p.props;
         const cls = FUSE_CLASSES[f.fuseClass];
         lines.add('fuses', `${f.fuseClass}|${f.rating_A}|${f.voltage_rating_V}|${f.interrupting_A}`,
-          `${cls.name}, ${num(f.rating_A)} A, ${num(f.voltage_rating_V)} V DC, interrupting rating ${num(f.interrupting_A / 1000)} kA`, 1, 'pcs', p.id);
+          () => `${cls.name}, ${num(f.rating_A)} A, ${num(f.voltage_rating_V)} V DC, interrupting rating ${num(f.interrupting_A / 1000)} kA`, 1, 'pcs', p.id);
         const holder = HOLDER_NAME[f.fuseClass];
-        if (holder) lines.add('fuse_holders', `${f.fuseClass}|${f.rating_A}`, `${holder} for a ${num(f.rating_A)} A fuse`, 1, 'pcs', p.id);
+        if (holder) lines.add('fuse_holders', `${f.fuseClass}|${f.rating_A}`, () => `${holder} for a ${num(f.rating_A)} A fuse`, 1, 'pcs', p.id);
         return;
       }
       case 'busbar': {
@@ -245,24 +248,24 @@ export function billOfMaterials(doc: DiagramDocument, opts: BomOptions): BillOfM
         const area = b.area_mm2 !== undefined ? `, ${num(busbarArea_mm2(b))} mm²` : '';
         const spacing = b.segmentLengths_m ? 'uneven tap spacing' : `at ${smallLength(b.tapSpacing_m * 1000, us)}`;
         lines.add('busbars', `${b.material}|${b.width_mm}|${b.thickness_mm}|${b.area_mm2 ?? ''}|${b.tapCount}|${b.tapSpacing_m}|${(b.segmentLengths_m ?? []).join(';')}|${b.rating_A}`,
-          `${b.material === 'aluminium' ? 'Aluminium' : 'Copper'} busbar ${smallLength(b.width_mm, us)} × ${smallLength(b.thickness_mm, us)}${area}, ${b.tapCount} taps ${spacing}, ${num(b.rating_A)} A`,
+          () => `${b.material === 'aluminium' ? 'Aluminium' : 'Copper'} busbar ${smallLength(b.width_mm, us)} × ${smallLength(b.thickness_mm, us)}${area}, ${b.tapCount} taps ${spacing}, ${num(b.rating_A)} A`,
           1, 'pcs', p.id);
         return;
       }
       case 'switch':
-        lines.add('switches', `${p.props.rating_A}`, `Battery disconnect switch, ${num(p.props.rating_A)} A`, 1, 'pcs', p.id);
+        lines.add('switches', `${p.props.rating_A}`, () => `Battery disconnect switch, ${num(p.props.rating_A)} A`, 1, 'pcs', p.id);
         return;
       case 'shunt':
-        lines.add('shunts', `${p.props.rating_A}|${p.props.drop_mV}`, `Shunt ${num(p.props.rating_A)} A / ${num(p.props.drop_mV)} mV`, 1, 'pcs', p.id);
+        lines.add('shunts', `${p.props.rating_A}|${p.props.drop_mV}`, () => `Shunt ${num(p.props.rating_A)} A / ${num(p.props.drop_mV)} mV`, 1, 'pcs', p.id);
         return;
       case 'charger':
         lines.add('chargers', `${p.props.voltage_setpoint_V}|${p.props.current_limit_A}`,
-          `Charger, ${num(p.props.voltage_setpoint_V)} V set point, ${num(p.props.current_limit_A)} A`, 1, 'pcs', p.id);
+          () => `Charger, ${num(p.props.voltage_setpoint_V)} V set point, ${num(p.props.current_limit_A)} A`, 1, 'pcs', p.id);
         return;
       case 'inverter': {
         const r = p.props.rated_W;
         lines.add('inverters', `${r ?? `load:${p.props.power_W}`}`,
-          r !== undefined ? `Inverter, ${num(r)} W continuous` : `Inverter, rating not set (${num(p.props.power_W)} W load analysed)`, 1, 'pcs', p.id);
+          () => r !== undefined ? `Inverter, ${num(r)} W continuous` : `Inverter, rating not set (${num(p.props.power_W)} W load analysed)`, 1, 'pcs', p.id);
         return;
       }
       case 'lug': // counted with the cables above

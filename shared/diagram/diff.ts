@@ -142,11 +142,16 @@ export function deepEqual(a: Json, b: Json): boolean {
   if (Array.isArray(b)) return false;
   const ao = a as Record<string, Json>;
   const bo = b as Record<string, Json>;
-  const ak = Object.keys(ao).filter((k) => ao[k] !== undefined);
-  const bk = Object.keys(bo).filter((k) => bo[k] !== undefined);
-  if (ak.length !== bk.length) return false;
-  for (const k of ak) if (!deepEqual(ao[k], bo[k])) return false;
-  return true;
+  // Keys whose value is undefined count as absent.
+  let na = 0;
+  for (const k in ao) {
+    if (ao[k] === undefined) continue;
+    na++;
+    if (!deepEqual(ao[k], bo[k])) return false;
+  }
+  let nb = 0;
+  for (const k in bo) if (bo[k] !== undefined) nb++;
+  return na === nb;
 }
 
 const isConductor = (v: Json): v is ConductorSize =>
@@ -337,7 +342,10 @@ const placement = (p: DiagramPart): Placement => ({ position: { x: p.position.x,
 const sameRef = (x: TerminalRef, y: TerminalRef) => x.part === y.part && x.terminal === y.terminal;
 const refText = (r: TerminalRef) => `${r.part}.${r.terminal}`;
 
+const NONE: CableReconnection[] = [];
+
 function reconnections(a: DiagramCable, b: DiagramCable): CableReconnection[] {
+  if (sameRef(a.from, b.from) && sameRef(a.to, b.to)) return NONE;
   const out: CableReconnection[] = [];
   const push = (end: 'from' | 'to', from: TerminalRef, to: TerminalRef) =>
     out.push({ end, from: { ...from }, to: { ...to }, summary: `Reconnected ${refText(from)} → ${refText(to)}` });
@@ -386,7 +394,7 @@ export function diffDiagrams(a: DiagramDocument, b: DiagramDocument, opts: DiffO
       const moved = pa.position.x !== pb.position.x || pa.position.y !== pb.position.y || pa.rotation !== pb.rotation;
       const changes = [
         ...(pa.label !== pb.label ? fieldChanges(pa.label, pb.label, ['label'], us) : []),
-        ...fieldChanges(pa.props, pb.props, ['props'], us),
+        ...(deepEqual(pa.props, pb.props) ? [] : fieldChanges(pa.props, pb.props, ['props'], us)),
       ];
       if (changes.length) {
         parts.changed.push({
@@ -417,12 +425,12 @@ export function diffDiagrams(a: DiagramDocument, b: DiagramDocument, opts: DiffO
       const rec = reconnections(ca, cb);
       const changes = [
         ...((ca.label ?? '') !== label ? fieldChanges(ca.label, cb.label, ['label'], us) : []),
-        ...fieldChanges(ca.props, cb.props, ['props'], us),
+        ...(deepEqual(ca.props, cb.props) ? [] : fieldChanges(ca.props, cb.props, ['props'], us)),
       ];
-      const waypointsChanged = !deepEqual(ca.waypoints ?? [], cb.waypoints ?? []);
+      const waypointsChanged = (ca.waypoints !== undefined || cb.waypoints !== undefined) && !deepEqual(ca.waypoints ?? [], cb.waypoints ?? []);
       if (rec.length || changes.length) {
         cables.changed.push({
-          id: cb.id, label, reconnections: rec, changes, summary: [...rec.map((r) => r.summary), ...changes.map((c) => c.summary)], waypointsChanged,
+          id: cb.id, label, reconnections: rec === NONE ? [] : rec, changes, summary: [...rec.map((r) => r.summary), ...changes.map((c) => c.summary)], waypointsChanged,
         });
       } else if (waypointsChanged) {
         cables.moved.push({ id: cb.id, label });
