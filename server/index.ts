@@ -15,6 +15,7 @@ import { acquireDataDirLock, DataDirLockedError, type DataDirLock } from './db/l
 import { DEMO_ACCOUNTS, seedDemo } from './db/seed';
 import { createMailer } from './mail/mailer';
 import { createSessions } from './auth/sessions';
+import { warmResultsSummaries } from './services/summaries';
 
 export const ROOT_DIR = fileURLToPath(new URL('..', import.meta.url));
 export const CLIENT_DIST_DIR = path.join(ROOT_DIR, 'dist', 'client');
@@ -68,6 +69,7 @@ export async function runServer(options: RunOptions = {}) {
   const app = createApp({ db, mailer, config, client });
 
   const server = app.listen(config.port);
+  warmResultsSummaries();
   await new Promise<void>((resolve) => {
     server.once('listening', resolve);
     server.once('error', async (err: NodeJS.ErrnoException) => {

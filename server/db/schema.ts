@@ -6,7 +6,7 @@
  * id simply matches no row.
  */
 import { sql } from 'drizzle-orm';
-import { check, integer, index, jsonb, pgTable, primaryKey, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core';
+import { type AnyPgColumn, check, integer, index, jsonb, pgTable, primaryKey, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core';
 import type { Role } from '../../shared/roles';
 
 const createdAt = () => timestamp('created_at', { withTimezone: true, mode: 'date' }).notNull().defaultNow();
@@ -162,4 +162,92 @@ export const activity = pgTable(
     createdAt: createdAt(),
   },
   (t) => [index('activity_project_idx').on(t.projectId)],
+);
+
+const REVISION_STATE_CHECK = sql`in ('draft', 'in_review', 'changes_requested', 'approved')`;
+
+/**
+ * Immutable snapshots of a diagram. Numbered 1, 2, … per diagram. The content and its hash never change
+ * after insert (a trigger in the migrations refuses it); only the review state moves, and an approved
+ * revision is frozen entirely. docs/decisions/005-revisions.md.
+ */
+export const diagramRevisions = pgTable(
+  'diagram_revisions',
+  {
+    id: text('id').primaryKey(),
+    diagramId: text('diagram_id')
+      .notNull()
+      .references(() => diagrams.id, { onDelete: 'cascade' }),
+    number: integer('number').notNull(),
+    authorId: text('author_id').references(() => users.id, { onDelete: 'set null' }),
+    message: text('message').notNull().default(''),
+    content: jsonb('content').notNull(),
+    /** SHA-256 (hex) of the content's canonical JSON (keys sorted). */
+    contentHash: text('content_hash').notNull(),
+    /** Results computed on the server when the revision was saved (server/services/results-summary.ts). */
+    resultsSummary: jsonb('results_summary').notNull(),
+    /** The revision whose content this one restored, if any. */
+    restoredFrom: integer('restored_from'),
+    state: text('state', { enum: ['draft', 'in_review', 'changes_requested', 'approved'] }).notNull().default('draft'),
+    approvedBy: text('approved_by').references(() => users.id, { onDelete: 'set null' }),
+    approvedAt: timestamp('approved_at', { withTimezone: true, mode: 'date' }),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    uniqueIndex('diagram_revisions_number_unique').on(t.diagramId, t.number),
+    check('diagram_revisions_number_check', sql`${t.number} >= 1`),
+    check('diagram_revisions_state_check', sql`${t.state} ${REVISION_STATE_CHECK}`),
+  ],
+);
+
+/** Reviewers asked to review a revision. */
+export const reviewRequests = pgTable(
+  'review_requests',
+  {
+    revisionId: text('revision_id')
+      .notNull()
+      .references(() => diagramRevisions.id, { onDelete: 'cascade' }),
+    reviewerId: text('reviewer_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    requestedBy: text('requested_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+  },
+  (t) => [primaryKey({ columns: [t.revisionId, t.reviewerId] }), index('review_requests_reviewer_idx').on(t.reviewerId)],
+);
+
+/** Approve / request changes, in order; the latest one sets the revision's state. */
+export const reviewDecisions = pgTable(
+  'review_decisions',
+  {
+    id: text('id').primaryKey(),
+    revisionId: text('revision_id')
+      .notNull()
+      .references(() => diagramRevisions.id, { onDelete: 'cascade' }),
+    reviewerId: text('reviewer_id').references(() => users.id, { onDelete: 'set null' }),
+    decision: text('decision', { enum: ['approve', 'request_changes'] }).notNull(),
+    note: text('note').notNull().default(''),
+    createdAt: createdAt(),
+  },
+  (t) => [index('review_decisions_revision_idx').on(t.revisionId), check('review_decisions_decision_check', sql`${t.decision} in ('approve', 'request_changes')`)],
+);
+
+/** Review comments on a revision: on the diagram, or pinned to a part (or cable) id; threaded by parent. */
+export const reviewComments = pgTable(
+  'review_comments',
+  {
+    id: text('id').primaryKey(),
+    revisionId: text('revision_id')
+      .notNull()
+      .references(() => diagramRevisions.id, { onDelete: 'cascade' }),
+    authorId: text('author_id').references(() => users.id, { onDelete: 'set null' }),
+    /** The thread's first comment; null for a thread's first comment itself. */
+    parentId: text('parent_id').references((): AnyPgColumn => reviewComments.id, { onDelete: 'cascade' }),
+    partId: text('part_id'),
+    body: text('body').notNull(),
+    resolvedAt: timestamp('resolved_at', { withTimezone: true, mode: 'date' }),
+    resolvedBy: text('resolved_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+  },
+  (t) => [index('review_comments_revision_idx').on(t.revisionId)],
 );

@@ -1,9 +1,17 @@
 import { Router } from 'express';
-import { updateDiagramSchema, workingCopySchema } from '../../shared/schemas/diagrams';
+import { duplicateDiagramSchema, restoreRevisionSchema, saveRevisionSchema, updateDiagramSchema, workingCopySchema } from '../../shared/schemas/diagrams';
 import { requireAuth, type AppDeps } from '../http/context';
+import { notFound } from '../http/errors';
 import { parse } from '../http/validate';
 import { requireDiagramRole } from '../services/access';
-import { deleteDiagram, getDiagram, saveWorkingCopy, updateDiagram } from '../services/diagrams';
+import { deleteDiagram, saveWorkingCopy, updateDiagram } from '../services/diagrams';
+import { duplicateDiagram, getDiagramWithLatest, getRevision, listRevisions, restoreRevision, saveRevision } from '../services/revisions';
+
+/** A revision number from the URL: 1, 2, … (anything else names no revision). */
+export function revisionNumber(raw: string): number {
+  if (!/^[1-9][0-9]{0,8}$/.test(raw)) throw notFound('No such revision.');
+  return Number(raw);
+}
 
 export function diagramRoutes(deps: AppDeps): Router {
   const { db } = deps;
@@ -12,7 +20,7 @@ export function diagramRoutes(deps: AppDeps): Router {
   r.get('/:id', async (req, res) => {
     const { user } = requireAuth(res);
     const { role } = await requireDiagramRole(db, user.id, req.params.id, 'project.read');
-    res.json({ diagram: await getDiagram(db, req.params.id), role });
+    res.json({ diagram: await getDiagramWithLatest(db, req.params.id), role });
   });
 
   r.put('/:id/working-copy', async (req, res) => {
@@ -34,6 +42,40 @@ export function diagramRoutes(deps: AppDeps): Router {
     await requireDiagramRole(db, user.id, req.params.id, 'diagram.edit');
     await deleteDiagram(db, user.id, req.params.id);
     res.status(204).end();
+  });
+
+  r.post('/:id/duplicate', async (req, res) => {
+    const { user } = requireAuth(res);
+    await requireDiagramRole(db, user.id, req.params.id, 'diagram.edit');
+    const input = parse(duplicateDiagramSchema, req.body);
+    res.status(201).json({ diagram: await duplicateDiagram(db, user.id, req.params.id, input) });
+  });
+
+  r.get('/:id/revisions', async (req, res) => {
+    const { user } = requireAuth(res);
+    await requireDiagramRole(db, user.id, req.params.id, 'project.read');
+    res.json({ revisions: await listRevisions(db, req.params.id) });
+  });
+
+  r.post('/:id/revisions', async (req, res) => {
+    const { user } = requireAuth(res);
+    await requireDiagramRole(db, user.id, req.params.id, 'diagram.edit');
+    const input = parse(saveRevisionSchema, req.body);
+    res.status(201).json({ revision: await saveRevision(db, user.id, req.params.id, input) });
+  });
+
+  r.get('/:id/revisions/:n', async (req, res) => {
+    const { user } = requireAuth(res);
+    await requireDiagramRole(db, user.id, req.params.id, 'project.read');
+    res.json({ revision: await getRevision(db, req.params.id, revisionNumber(req.params.n)) });
+  });
+
+  r.post('/:id/revisions/:n/restore', async (req, res) => {
+    const { user } = requireAuth(res);
+    await requireDiagramRole(db, user.id, req.params.id, 'diagram.edit');
+    const n = revisionNumber(req.params.n);
+    const input = parse(restoreRevisionSchema, req.body);
+    res.status(201).json({ revision: await restoreRevision(db, user.id, req.params.id, n, input.message) });
   });
 
   return r;

@@ -2,6 +2,7 @@ import { asc, desc, eq, sql } from 'drizzle-orm';
 import type { Db } from '../db/client';
 import { activity, diagrams, projects } from '../db/schema';
 import { newId } from '../ids';
+import { latestRevisionStates } from './revisions';
 
 // Table-qualified by hand: drizzle leaves columns unqualified in single-table selects, which would bind to d.
 const diagramCount = sql<number>`(select count(*)::int from "diagrams" d where d.project_id = "projects"."id")`;
@@ -67,7 +68,7 @@ export async function deleteProject(db: Db, projectId: string) {
 const partCount = sql<number>`coalesce(jsonb_array_length(case when jsonb_typeof(${diagrams.content}->'parts') = 'array' then ${diagrams.content}->'parts' end), 0)::int`;
 
 export async function listDiagrams(db: Db, projectId: string) {
-  return db
+  const rows = await db
     .select({
       id: diagrams.id,
       projectId: diagrams.projectId,
@@ -79,4 +80,6 @@ export async function listDiagrams(db: Db, projectId: string) {
     .from(diagrams)
     .where(eq(diagrams.projectId, projectId))
     .orderBy(asc(diagrams.createdAt), asc(diagrams.id));
+  const latest = await latestRevisionStates(db, rows.map((r) => r.id));
+  return rows.map((r) => ({ ...r, latestRevision: latest.get(r.id) ?? null }));
 }

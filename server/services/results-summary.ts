@@ -1,0 +1,68 @@
+/**
+ * The results summary a revision stores beside its content: each battery's share of the bank current,
+ * the imbalance, the losses, the worst load's voltage and drop, and the rule findings (with counts by
+ * severity). Computed on the server with the shared core (`analyzeDiagram`, load case) when the revision
+ * is saved, so history and compare views never solve old revisions again. The shape is the shared
+ * `ResultsSummary` (shared/diagram/diff.ts) plus `status`, `findingCounts` and `issues`.
+ *
+ * These are design-check figures, not an approval to install.
+ */
+import type { ResultsSummary } from '../../shared/diagram/diff';
+import type { DiagramDocument } from '../../shared/diagram/schema';
+import { analyzeDiagram } from '../../shared/electrical/analysis';
+import type { Severity } from '../../shared/electrical/analysis';
+
+export const RESULTS_SUMMARY_VERSION = 1;
+
+export interface RevisionResultsSummary extends ResultsSummary {
+  summaryVersion: number;
+  /** 'solved': the load case was solved; otherwise the stage that failed (figures are then empty / 0). */
+  status: 'solved' | 'compile_failed' | 'solve_failed';
+  findingCounts: { error: number; warning: number; info: number };
+  /** Compiler or solver errors when not solved, and analysis notes. */
+  issues: { code: string; message: string; parts: string[] }[];
+}
+
+const severityOf = (s: Severity): 'error' | 'warning' | 'info' => (s === 'note' ? 'info' : s);
+
+/** Rounded to 6 significant digits: the summary is for display and comparison, not further solving. */
+const r6 = (x: number) => (Number.isFinite(x) ? Number(x.toPrecision(6)) : 0);
+
+export function summarizeResults(doc: DiagramDocument): RevisionResultsSummary {
+  const result = analyzeDiagram(doc, { mode: 'load' });
+  const findings = result.findings.map((f, i) => ({ id: `${f.id}-${i + 1}`, rule: f.id, severity: severityOf(f.severity), parts: f.parts, message: f.message }));
+  const findingCounts = { error: 0, warning: 0, info: 0 };
+  for (const f of findings) findingCounts[f.severity] += 1;
+  const base = { summaryVersion: RESULTS_SUMMARY_VERSION, findings, findingCounts };
+
+  if (!result.ok || !result.operating) {
+    return {
+      ...base,
+      status: !result.ok && result.stage === 'compile' ? 'compile_failed' : 'solve_failed',
+      batteries: [],
+      imbalance_pct: 0,
+      losses_W: 0,
+      issues: result.ok ? result.notes : result.errors,
+    };
+  }
+  const op = result.operating;
+  const labels = new Map(doc.parts.map((p) => [p.id, p.label || p.id]));
+  const batteries = Object.entries(op.sources).map(([id, s]) => ({ id, label: labels.get(id) ?? id, current_A: r6(s.current_A), share: r6(s.share_pct / 100) }));
+  // The worst-placed load: lowest voltage at its terminals.
+  let worst: { voltage_V: number; drop_pct?: number } | null = null;
+  for (const f of Object.values(op.parts)) {
+    if ((f.type === 'dc_load' || f.type === 'inverter') && f.voltage_V !== undefined && (!worst || f.voltage_V < worst.voltage_V)) worst = { voltage_V: f.voltage_V, drop_pct: f.drop_pct };
+  }
+  const { battery, charger, ...wiring } = op.losses.byKind;
+  void battery;
+  void charger;
+  return {
+    ...base,
+    status: 'solved',
+    batteries,
+    imbalance_pct: r6(op.imbalance_pct),
+    ...(worst ? { loadVoltage_V: r6(worst.voltage_V), ...(worst.drop_pct !== undefined ? { drop_pct: r6(worst.drop_pct) } : {}) } : {}),
+    losses_W: r6(Object.values(wiring).reduce((a, b) => a + b, 0)),
+    issues: result.notes,
+  };
+}

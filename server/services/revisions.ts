@@ -1,0 +1,236 @@
+/**
+ * Revisions: immutable, numbered snapshots of a diagram (content, content hash, results summary, author,
+ * time, message) with a review state. Saving names the revision the edit started from (`baseRevision`);
+ * when that is no longer the latest, the save is refused with 409 revision_conflict and the latest
+ * revision's details, and nothing is stored. docs/decisions/005-revisions.md.
+ */
+import { and, desc, eq, inArray, sql } from 'drizzle-orm';
+import { alias } from 'drizzle-orm/pg-core';
+import type { DiagramDocument } from '../../shared/diagram/schema';
+import type { RevisionState } from '../../shared/schemas/diagrams';
+import type { Db, DbOrTx } from '../db/client';
+import { activity, diagramRevisions, diagrams, reviewDecisions, reviewRequests, users } from '../db/schema';
+import { conflict, notFound } from '../http/errors';
+import { newId } from '../ids';
+import { contentHash } from './content-hash';
+import { createDiagram, getDiagram } from './diagrams';
+import { computeResultsSummary } from './summaries';
+import type { RevisionResultsSummary } from './results-summary';
+
+const author = alias(users, 'author');
+const approver = alias(users, 'approver');
+
+const person = (id: string | null, name: string | null) => (id && name !== null ? { id, name } : null);
+
+const revisionMetaColumns = {
+  id: diagramRevisions.id,
+  diagramId: diagramRevisions.diagramId,
+  number: diagramRevisions.number,
+  authorId: author.id,
+  authorName: author.name,
+  createdAt: diagramRevisions.createdAt,
+  message: diagramRevisions.message,
+  contentHash: diagramRevisions.contentHash,
+  state: diagramRevisions.state,
+  restoredFrom: diagramRevisions.restoredFrom,
+  approvedById: approver.id,
+  approvedByName: approver.name,
+  approvedAt: diagramRevisions.approvedAt,
+  status: sql<RevisionResultsSummary['status']>`${diagramRevisions.resultsSummary}->>'status'`,
+  findingCounts: sql<RevisionResultsSummary['findingCounts']>`${diagramRevisions.resultsSummary}->'findingCounts'`,
+};
+
+function selectRevisionMeta(db: DbOrTx) {
+  return db
+    .select(revisionMetaColumns)
+    .from(diagramRevisions)
+    .leftJoin(author, eq(author.id, diagramRevisions.authorId))
+    .leftJoin(approver, eq(approver.id, diagramRevisions.approvedBy));
+}
+
+type MetaRow = Awaited<ReturnType<typeof selectRevisionMeta>>[number];
+
+function publicMeta(row: MetaRow) {
+  const { id: _id, authorId, authorName, approvedById, approvedByName, status, findingCounts, ...rest } = row;
+  void _id;
+  return {
+    ...rest,
+    author: person(authorId, authorName),
+    approvedBy: person(approvedById, approvedByName),
+    results: { status, findingCounts },
+  };
+}
+export type RevisionMeta = ReturnType<typeof publicMeta>;
+
+/** The revisions of a diagram, newest first, without content. */
+export async function listRevisions(db: DbOrTx, diagramId: string) {
+  const rows = await selectRevisionMeta(db).where(eq(diagramRevisions.diagramId, diagramId)).orderBy(desc(diagramRevisions.number));
+  return rows.map(publicMeta);
+}
+
+export async function latestRevision(db: DbOrTx, diagramId: string) {
+  const [row] = await selectRevisionMeta(db).where(eq(diagramRevisions.diagramId, diagramId)).orderBy(desc(diagramRevisions.number)).limit(1);
+  return row ? publicMeta(row) : null;
+}
+
+/** The revision row (id, state, author) for access and review checks; 404 when there is none. */
+export async function findRevision(db: DbOrTx, diagramId: string, number: number) {
+  const [row] = await db
+    .select({ id: diagramRevisions.id, number: diagramRevisions.number, state: diagramRevisions.state, authorId: diagramRevisions.authorId })
+    .from(diagramRevisions)
+    .where(and(eq(diagramRevisions.diagramId, diagramId), eq(diagramRevisions.number, number)));
+  if (!row) throw notFound('No such revision.');
+  return row;
+}
+
+/** One revision with its content, results summary and review (requested reviewers, decisions). */
+export async function getRevision(db: DbOrTx, diagramId: string, number: number) {
+  const [row] = await db
+    .select({ meta: revisionMetaColumns, content: diagramRevisions.content, resultsSummary: diagramRevisions.resultsSummary })
+    .from(diagramRevisions)
+    .leftJoin(author, eq(author.id, diagramRevisions.authorId))
+    .leftJoin(approver, eq(approver.id, diagramRevisions.approvedBy))
+    .where(and(eq(diagramRevisions.diagramId, diagramId), eq(diagramRevisions.number, number)));
+  if (!row) throw notFound('No such revision.');
+  const reviewer = alias(users, 'reviewer');
+  const requested = await db
+    .select({ id: reviewer.id, name: reviewer.name, requestedAt: reviewRequests.createdAt })
+    .from(reviewRequests)
+    .innerJoin(reviewer, eq(reviewer.id, reviewRequests.reviewerId))
+    .where(eq(reviewRequests.revisionId, row.meta.id))
+    .orderBy(reviewRequests.createdAt, reviewer.name);
+  const decisions = await db
+    .select({ reviewerId: reviewer.id, reviewerName: reviewer.name, decision: reviewDecisions.decision, note: reviewDecisions.note, createdAt: reviewDecisions.createdAt })
+    .from(reviewDecisions)
+    .leftJoin(reviewer, eq(reviewer.id, reviewDecisions.reviewerId))
+    .where(eq(reviewDecisions.revisionId, row.meta.id))
+    .orderBy(reviewDecisions.createdAt, reviewDecisions.id);
+  return {
+    ...publicMeta(row.meta),
+    content: row.content as DiagramDocument,
+    resultsSummary: row.resultsSummary as RevisionResultsSummary,
+    review: {
+      reviewers: requested,
+      decisions: decisions.map(({ reviewerId, reviewerName, ...d }) => ({ ...d, reviewer: person(reviewerId, reviewerName) })),
+    },
+  };
+}
+
+function conflictDetails(latest: RevisionMeta | null) {
+  return latest
+    ? { latest: { number: latest.number, author: latest.author, createdAt: latest.createdAt, message: latest.message, contentHash: latest.contentHash, state: latest.state } }
+    : { latest: null };
+}
+
+/**
+ * Save a new revision on top of `baseRevision` (null: the diagram has none yet). `baseRevision: 'latest'`
+ * (restore) always goes on top of whatever is latest.
+ */
+export async function saveRevision(
+  db: Db,
+  userId: string,
+  diagramId: string,
+  input: { baseRevision: number | null | 'latest'; message: string; content: DiagramDocument; restoredFrom?: number },
+) {
+  // The analysis runs before the transaction (in a worker): no lock is held while it solves.
+  const resultsSummary = await computeResultsSummary(input.content);
+  const hash = contentHash(input.content);
+  const number = await db.transaction(async (tx) => {
+    const [diagram] = await tx.select({ projectId: diagrams.projectId, name: diagrams.name }).from(diagrams).where(eq(diagrams.id, diagramId)).for('update');
+    if (!diagram) throw notFound('No such diagram.');
+    const latest = await latestRevision(tx, diagramId);
+    if (input.baseRevision !== 'latest' && (latest?.number ?? null) !== input.baseRevision) {
+      const who = latest?.author ? ` by ${latest.author.name}` : '';
+      throw conflict(
+        'revision_conflict',
+        latest
+          ? `Revision ${latest.number}${who} was saved after the revision you started from. Compare the two, then save yours on top or as a copy.`
+          : 'This diagram has no revisions yet; save with baseRevision null.',
+        conflictDetails(latest),
+      );
+    }
+    const next = (latest?.number ?? 0) + 1;
+    await tx.insert(diagramRevisions).values({
+      id: newId(),
+      diagramId,
+      number: next,
+      authorId: userId,
+      message: input.message,
+      content: input.content,
+      contentHash: hash,
+      resultsSummary,
+      restoredFrom: input.restoredFrom ?? null,
+    });
+    await tx.insert(activity).values({
+      id: newId(),
+      projectId: diagram.projectId,
+      userId,
+      action: input.restoredFrom !== undefined ? 'revision.restored' : 'revision.saved',
+      detail: { diagramId, name: diagram.name, number: next, message: input.message, ...(input.restoredFrom !== undefined ? { restoredFrom: input.restoredFrom } : {}) },
+    });
+    return next;
+  });
+  return getRevision(db, diagramId, number);
+}
+
+export async function restoreRevision(db: Db, userId: string, diagramId: string, number: number, message: string | undefined) {
+  const [source] = await db
+    .select({ content: diagramRevisions.content })
+    .from(diagramRevisions)
+    .where(and(eq(diagramRevisions.diagramId, diagramId), eq(diagramRevisions.number, number)));
+  if (!source) throw notFound('No such revision.');
+  return saveRevision(db, userId, diagramId, {
+    baseRevision: 'latest',
+    message: message || `Restored revision ${number}`,
+    content: source.content as DiagramDocument,
+    restoredFrom: number,
+  });
+}
+
+/** A new diagram in the same project from a revision's content (default the latest; the working copy when there is none). */
+export async function duplicateDiagram(
+  db: Db,
+  userId: string,
+  diagramId: string,
+  input: { name: string; description?: string; revision?: number },
+) {
+  const [diagram] = await db.select().from(diagrams).where(eq(diagrams.id, diagramId));
+  if (!diagram) throw notFound('No such diagram.');
+  let content = diagram.content as DiagramDocument;
+  let from: number | null = null;
+  const [rev] = await db
+    .select({ number: diagramRevisions.number, content: diagramRevisions.content })
+    .from(diagramRevisions)
+    .where(and(eq(diagramRevisions.diagramId, diagramId), input.revision !== undefined ? eq(diagramRevisions.number, input.revision) : undefined))
+    .orderBy(desc(diagramRevisions.number))
+    .limit(1);
+  if (input.revision !== undefined && !rev) throw notFound('No such revision.');
+  if (rev) {
+    content = rev.content as DiagramDocument;
+    from = rev.number;
+  }
+  return createDiagram(
+    db,
+    userId,
+    diagram.projectId,
+    { name: input.name, description: input.description ?? diagram.description, content: { ...content, name: input.name } },
+    { action: 'diagram.duplicated', detail: { sourceDiagramId: diagramId, sourceName: diagram.name, sourceRevision: from } },
+  );
+}
+
+/** Latest revision number and state of each diagram in a project (for the diagram list). */
+export async function latestRevisionStates(db: DbOrTx, diagramIds: string[]) {
+  if (diagramIds.length === 0) return new Map<string, { number: number; state: RevisionState }>();
+  const rows = await db
+    .selectDistinctOn([diagramRevisions.diagramId], { diagramId: diagramRevisions.diagramId, number: diagramRevisions.number, state: diagramRevisions.state })
+    .from(diagramRevisions)
+    .where(inArray(diagramRevisions.diagramId, diagramIds))
+    .orderBy(diagramRevisions.diagramId, desc(diagramRevisions.number));
+  return new Map(rows.map((r) => [r.diagramId, { number: r.number, state: r.state }]));
+}
+
+/** GET /api/diagrams/:id: the working copy, the hash of its content and the latest revision's details. */
+export async function getDiagramWithLatest(db: DbOrTx, diagramId: string) {
+  const diagram = await getDiagram(db, diagramId);
+  return { ...diagram, workingCopyHash: contentHash(diagram.content), latestRevision: await latestRevision(db, diagramId) };
+}
