@@ -480,7 +480,7 @@ export function diffDiagrams(a: DiagramDocument, b: DiagramDocument, opts: DiffO
 
 // Results summaries ----------------------------------------------------------------------------------------
 
-export const FINDING_SEVERITIES = ['error', 'warning', 'info'] as const;
+export const FINDING_SEVERITIES = ['error', 'warning', 'note'] as const;
 
 /** What a revision stores of its analysis, to compare revisions without solving them again. */
 export const resultsSummarySchema = z.object({

@@ -284,7 +284,7 @@ describe('diffResultsSummaries', () => {
     imbalance_pct: 8,
     losses_W: 18.5,
     findings: [
-      { id: 'g7', rule: 'imbalance', severity: 'info', parts: ['bat1', 'bat3'], message: 'reworded' },
+      { id: 'g7', rule: 'imbalance', severity: 'note', parts: ['bat1', 'bat3'], message: 'reworded' },
       { id: 'g8', rule: 'drop-limit', severity: 'warning', parts: ['c-main-pos'], message: 'Drop over 3 %' },
     ],
   };
@@ -314,7 +314,7 @@ describe('diffResultsSummaries', () => {
   });
 
   it('counts repeated findings one for one', () => {
-    const f = { rule: 'lug-torque', severity: 'info' as const, parts: ['c1'], message: 'm' };
+    const f = { rule: 'lug-torque', severity: 'note' as const, parts: ['c1'], message: 'm' };
     const x = { ...a, findings: [{ ...f, id: '1' }, { ...f, id: '2' }] };
     const y = { ...a, findings: [{ ...f, id: '3' }] };
     expect(diffResultsSummaries(x, y).findingsResolved.map((q) => q.id)).toEqual(['2']);
