@@ -49,7 +49,7 @@ export function toSpice(net: Network, opts: SpiceOptions = {}): SpiceCircuit {
     return s;
   };
   for (const n of net.nodes ?? []) spiceNode(n);
-  for (const el of net.elements) for (const k of ['pos', 'neg', 'a', 'b', 'from', 'to'] as const) if (k in el) spiceNode((el as Record<string, string>)[k]);
+  for (const el of net.elements) for (const k of ['pos', 'neg', 'a', 'b', 'from', 'to'] as const) if (k in el) spiceNode((el as unknown as Record<string, string>)[k]);
   const lines = ['* bankwright network'];
   type Reader = (v: (spiceNode: string) => number, branch: (src: string) => number) => number;
   const readers = new Map<string, Reader>();

@@ -84,8 +84,9 @@ function reduce(net: Network, topo: NetworkTopology, modes: ChargerModes): Reduc
   const edges: { el: number; to: number }[][] = Array.from({ length: n }, () => []);
   net.elements.forEach((el, i) => {
     if (!isConstraintSource(modes, el)) return;
-    const p = topo.index.get(el.pos)!;
-    const q = topo.index.get(el.neg)!;
+    const src = el as Extract<NetworkElement, { kind: 'voltage_source' }>;
+    const p = topo.index.get(src.pos)!;
+    const q = topo.index.get(src.neg)!;
     edges[p].push({ el: i, to: q });
     edges[q].push({ el: i, to: p });
   });
@@ -237,7 +238,7 @@ function buildCore(net: Network, topo: NetworkTopology, modes: ChargerModes, end
     }
   }
   let factor: LdlFactor | null = null;
-  let y0 = new Float64Array(0);
+  let y0: Float64Array = new Float64Array(0);
   if (m > 0) {
     const { csc, ax } = assemble(m, rows, cols, vals, t);
     factor = reuse && reuse.key === key && reuse.factor ? reuse.factor : new LdlFactor(csc);

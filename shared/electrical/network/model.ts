@@ -52,7 +52,7 @@ export function modeOf(modes: ChargerModes, el: VoltageSource): ChargerMode {
 }
 
 /** Voltage sources solved as constraints: ideal (no r_ohm) and holding their voltage. */
-export function isConstraintSource(modes: ChargerModes, el: NetworkElement): el is VoltageSource {
+export function isConstraintSource(modes: ChargerModes, el: NetworkElement): boolean {
   return el.kind === 'voltage_source' && el.r_ohm === undefined && modeOf(modes, el) === 'cv';
 }
 

@@ -7,7 +7,7 @@
  *
  * It is written for clarity, not speed; the fast path (fast.ts) is checked against it.
  */
-import { create, lusolveDependencies, sluDependencies, SparseMatrixDependencies } from 'mathjs';
+import { create, lusolveDependencies, sluDependencies, SparseMatrixDependencies, type Matrix } from 'mathjs';
 import type { Network, NetworkElement, SolveOutcome } from './types';
 import {
   MAX_MODE_PASSES,
@@ -54,7 +54,9 @@ function toSparse(t: Triplets, size: number) {
     }
     ptr.push(index.length);
   }
-  return new (mathjs().SparseMatrix)({ values, index, ptr, size: [size, size] });
+  // The SparseMatrix constructor accepts CSC data ({ values, index, ptr, size }); its typings do not say so.
+  const Sparse = (mathjs() as unknown as { SparseMatrix: new (data: object) => Matrix }).SparseMatrix;
+  return new Sparse({ values, index, ptr, size: [size, size] });
 }
 
 interface LinearSolution {
@@ -71,7 +73,7 @@ function solveLinear(
 ): LinearSolution | 'singular' {
   const n = topo.nodes.length;
   const row = (node: string) => topo.index.get(node)! - 1; // ground is -1
-  const constraints = net.elements.filter((el) => isConstraintSource(modes, el));
+  const constraints = net.elements.filter((el) => isConstraintSource(modes, el)) as Extract<NetworkElement, { kind: 'voltage_source' }>[];
   const size = n - 1 + constraints.length;
   const A: Triplets = new Map();
   const b = new Array<number>(size).fill(0);
