@@ -4,7 +4,7 @@
  * Reads a diagram file, runs the analysis of the mode (default load) and the rule checks, and prints
  * the result as JSON (default) or as human-readable tables (--table). Exit status 1 when the file
  * cannot be read, is not a valid diagram (errors with JSON paths), or has structural errors; 0
- * otherwise (rule findings do not change the exit status). docs/check-command.md.
+ * otherwise (rule findings do not change the exit status). docs/cli.md.
  */
 import { readFileSync } from 'node:fs';
 import { parseDiagram } from '../shared/diagram/parse';
