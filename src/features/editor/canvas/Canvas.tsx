@@ -205,7 +205,8 @@ export function Canvas() {
 
   // Fit once, when the first nodes have been measured.
   const initialized = useNodesInitialized();
-  const fitted = useRef(false);
+  // An empty canvas at open is not fitted later, when the first part is placed.
+  const fitted = useRef(parts.length === 0);
   useEffect(() => {
     if (initialized && !fitted.current) {
       fitted.current = true;
@@ -254,8 +255,6 @@ export function Canvas() {
         selectionKeyCode="Shift"
         snapToGrid
         snapGrid={[GRID, GRID]}
-        fitView
-        fitViewOptions={{ padding: 0.25, maxZoom: 1.2 }}
         minZoom={0.1}
         maxZoom={3}
         proOptions={{ hideAttribution: true }}

@@ -1,0 +1,183 @@
+/**
+ * What the analysis panels compute, as pure functions on the diagram document (run in the analysis
+ * worker, or directly where there is no Worker, e.g. component tests):
+ * - `runAnalysis`: the core's `analyzeDiagram` in the chosen mode plus the per-branch sizing suggestions.
+ * - `exploreTakeoff`: the take-off layouts — the core's optimizer (post-to-post lead pairs, or busbar run
+ *   lengths equalised) and, for a busbar bank, every pair of busbar taps for the load's two main leads.
+ * Nothing here is an approval to install; the panels say so.
+ */
+import type { DiagramDocument, TerminalRef } from '@shared/diagram';
+import {
+  analyzeDiagram, buildContext, diagramTopology, optimizeTakeoff, solveLoadCase, suggestSizing,
+  type AnalysisResult, type AnalyzeOptions, type SizingResult, type TakeoffChoice,
+} from '@shared/electrical';
+import type { AnalysisOptions } from '../store';
+
+export interface AnalysisOutput {
+  result: AnalysisResult;
+  sizing: SizingResult;
+  elapsed_ms: number;
+}
+
+/** The store's analysis options as the core's: a fault target only in fault mode and only of a kind the core knows. */
+export function coreOptions(options: AnalysisOptions): AnalyzeOptions {
+  const f = options.fault;
+  const fault = options.mode === 'fault' && f && (f.kind === 'battery' || f.kind === 'cable') ? { kind: f.kind, id: f.id } : undefined;
+  return { mode: options.mode, ...(fault ? { fault } : {}) };
+}
+
+export function runAnalysis(doc: DiagramDocument, options: AnalysisOptions): AnalysisOutput {
+  const t0 = performance.now();
+  const result = analyzeDiagram(doc, coreOptions(options));
+  // Sizing needs a solvable diagram; skip the second compile when the analysis already failed to compile.
+  const sizing: SizingResult = result.ok || result.stage !== 'compile' ? suggestSizing(doc) : { ok: false, errors: result.errors };
+  return { result, sizing, elapsed_ms: performance.now() - t0 };
+}
+
+/** One end of a cable moved to another terminal. */
+export interface LeadMove {
+  cable: string;
+  end: 'from' | 'to';
+  from: TerminalRef;
+  to: TerminalRef;
+}
+
+export type TakeoffApply =
+  | { kind: 'optimizer'; choice: TakeoffChoice }
+  | { kind: 'leads'; moves: LeadMove[] };
+
+export interface TakeoffCandidate {
+  key: string;
+  /** Which list it belongs to: the optimizer's layouts, or busbar taps for the main leads. */
+  group: 'optimizer' | 'taps';
+  description: string;
+  imbalance_pct: number;
+  losses_W: number;
+  /** Largest battery (or string) current, A. */
+  maxCurrent_A: number;
+  /** The layout as drawn. */
+  current: boolean;
+  apply: TakeoffApply;
+}
+
+export type TakeoffExploration =
+  | {
+      ok: true;
+      layout: 'post_to_post' | 'busbar';
+      /** Ranked best first within each group. */
+      candidates: TakeoffCandidate[];
+      /** Key of the optimizer's best layout. */
+      best: string;
+      explanation: string;
+      elapsed_ms: number;
+    }
+  | { ok: false; message: string; elapsed_ms: number };
+
+/** Rank like the optimizer: imbalance in 0.1 % steps, then total loss, then the layout as drawn first. */
+const rank = (a: TakeoffCandidate, b: TakeoffCandidate) =>
+  Math.round(a.imbalance_pct * 10) - Math.round(b.imbalance_pct * 10) || a.losses_W - b.losses_W || Number(b.current) - Number(a.current);
+
+/** Busbar taps tried per lead pair: all pairs up to this many, otherwise each lead alone with the other as drawn. */
+const MAX_TAP_PAIRS = 64;
+
+/** The load's main leads that end on a busbar tap: the cable, which of its ends is on the busbar, the busbar's taps. */
+function busbarLeads(doc: DiagramDocument) {
+  const topo = diagramTopology(doc);
+  const load = topo.loads[0];
+  if (!load) return [];
+  const out: { pole: 'pos' | 'neg'; cable: string; end: 'from' | 'to'; busbar: string; tap: string; taps: string[] }[] = [];
+  for (const pole of ['pos', 'neg'] as const) {
+    const br = topo.branch(load.id, pole);
+    const bus = topo.parts.get(br.end.part);
+    const last = br.cables.at(-1);
+    if (!bus || bus.type !== 'busbar' || !last) continue;
+    const c = topo.cables.get(last)!;
+    const end = c.from.part === bus.id && c.from.terminal === br.end.terminal ? 'from' : 'to';
+    const taps = Array.from({ length: bus.props.tapCount }, (_, i) => `t${i + 1}`);
+    out.push({ pole, cable: last, end, busbar: bus.id, tap: br.end.terminal, taps });
+  }
+  return out;
+}
+
+function withMoves(doc: DiagramDocument, moves: LeadMove[]): DiagramDocument {
+  if (!moves.length) return doc;
+  const byCable = new Map(moves.map((m) => [m.cable, m]));
+  return {
+    ...doc,
+    cables: doc.cables.map((c) => {
+      const m = byCable.get(c.id);
+      return m ? { ...c, [m.end]: { ...m.to } } : c;
+    }),
+  };
+}
+
+function scoreLoadCase(doc: DiagramDocument) {
+  const built = buildContext(doc);
+  if (!built.ok) return null;
+  const load = solveLoadCase(built.ctx);
+  if (!('op' in load)) return null;
+  const op = load.op;
+  const maxCurrent_A = Math.max(0, ...Object.values(op.sources).map((s) => Math.abs(s.current_A)));
+  return { imbalance_pct: op.imbalance_pct, losses_W: op.losses.total_W, maxCurrent_A };
+}
+
+function tapCandidates(doc: DiagramDocument): TakeoffCandidate[] {
+  const leads = busbarLeads(doc);
+  if (!leads.length) return [];
+  const label = (id: string) => doc.parts.find((p) => p.id === id)?.label || id;
+  const tapsFor = (i: number) => leads[i].taps;
+  // Lead-tap combinations to evaluate.
+  const combos: string[][] = [];
+  const total = leads.reduce((n, l) => n * l.taps.length, 1);
+  if (total <= MAX_TAP_PAIRS) {
+    const walk = (i: number, acc: string[]) => {
+      if (i === leads.length) return void combos.push(acc);
+      for (const t of tapsFor(i)) walk(i + 1, [...acc, t]);
+    };
+    walk(0, []);
+  } else {
+    combos.push(leads.map((l) => l.tap));
+    leads.forEach((l, i) => {
+      for (const t of l.taps) if (t !== l.tap) combos.push(leads.map((m, j) => (j === i ? t : m.tap)));
+    });
+  }
+  const out: TakeoffCandidate[] = [];
+  for (const taps of combos) {
+    const moves: LeadMove[] = [];
+    leads.forEach((l, i) => {
+      if (taps[i] !== l.tap) moves.push({ cable: l.cable, end: l.end, from: { part: l.busbar, terminal: l.tap }, to: { part: l.busbar, terminal: taps[i] } });
+    });
+    const sc = scoreLoadCase(withMoves(doc, moves));
+    if (!sc) continue;
+    out.push({
+      key: `taps:${taps.join(',')}`,
+      group: 'taps',
+      description: leads.map((l, i) => `${l.pole === 'pos' ? 'positive' : 'negative'} on ${label(l.busbar)} ${taps[i]}`).join(', '),
+      ...sc,
+      current: moves.length === 0,
+      apply: { kind: 'leads', moves },
+    });
+  }
+  return out.sort(rank);
+}
+
+const choiceKey = (c: TakeoffChoice) =>
+  c.kind === 'post_to_post' ? `p2p:${c.pos.battery},${c.neg.battery}` : `len:${JSON.stringify(c.lengths_m)}`;
+
+export function exploreTakeoff(doc: DiagramDocument): TakeoffExploration {
+  const t0 = performance.now();
+  const opt = optimizeTakeoff(doc);
+  if (!opt.ok) return { ok: false, message: opt.errors.map((e) => e.message).join('; '), elapsed_ms: performance.now() - t0 };
+  const candidates: TakeoffCandidate[] = opt.options.map((o) => ({
+    key: choiceKey(o.choice),
+    group: 'optimizer',
+    description: o.description,
+    imbalance_pct: o.imbalance_pct,
+    losses_W: o.losses_W,
+    maxCurrent_A: o.maxCurrent_A,
+    current: o.current,
+    apply: { kind: 'optimizer', choice: o.choice },
+  }));
+  if (opt.layout === 'busbar') candidates.push(...tapCandidates(doc));
+  return { ok: true, layout: opt.layout, candidates, best: choiceKey(opt.best.choice), explanation: opt.explanation, elapsed_ms: performance.now() - t0 };
+}
