@@ -14,15 +14,16 @@ import {
   emptyDiagram, terminalsOf, type DiagramCable, type DiagramDocument, type DiagramPart, type DiagramSettings, type TerminalRef,
 } from '@shared/diagram';
 import type { UnitSystem } from '@shared/units';
+import type { AnalysisMode, FaultSelection } from '@shared/electrical/analysis';
 import type { EditorResults } from './results/types';
 
 enablePatches();
 
-export type AnalysisMode = 'load' | 'charge' | 'equalize' | 'fault' | 'discharge';
+export type { AnalysisMode, FaultSelection };
 export interface AnalysisOptions {
   mode: AnalysisMode;
-  /** For mode 'fault': what is shorted (e.g. kind 'battery_terminals' | 'cable_load_end', id of the part or cable). */
-  fault?: { kind: string; id: string };
+  /** For mode 'fault': the one fault to show in full (a battery or a cable); without it, the sweep. */
+  fault?: FaultSelection;
 }
 export type ResultsStatus = 'idle' | 'computing' | 'ready' | 'error';
 

@@ -2,13 +2,14 @@
  * Canvas figures from the electrical core: compile the diagram, solve the network, and read per-part
  * and per-cable currents. Runs inside the compute worker (and in tests); pure, no DOM.
  *
- * Until the core's analysis entry (`analyzeDiagram`) is available this solves the bank as drawn, which
- * is the load case; the other modes fall back to it.
+ * The canvas figures are the bank as drawn (the load case); `analyzeDiagram` (the core's analysis
+ * entry) runs in the chosen mode for the analysis panels (`raw`) and gives the findings and badges.
  */
 import type { DiagramDocument } from '@shared/diagram';
 import { compileDiagram } from '@shared/electrical/compile';
 import { solveNetwork } from '@shared/electrical/network/solve';
 import { ampacity } from '@shared/electrical/tables/ampacity';
+import { analyzeDiagram, type AnalysisResult } from '@shared/electrical/analysis';
 import type { AnalysisOptions } from '../store';
 import type { CanvasFinding, CanvasSummary, Severity } from './types';
 
@@ -16,7 +17,28 @@ const emptySummary = (findings: CanvasFinding[]): CanvasSummary => ({
   solved: false, batteries: {}, cables: {}, fuses: {}, loads: {}, imbalance_pct: null, wiringLoss_W: 0, internalLoss_W: 0, findings, badges: badgesOf(findings),
 });
 
-export function computeCanvas(doc: DiagramDocument, _options: AnalysisOptions): { canvas: CanvasSummary; raw: unknown } {
+/** Canvas figures plus the core's analysis in the chosen mode; its findings replace the structural ones. */
+export function computeCanvas(doc: DiagramDocument, options: AnalysisOptions): { canvas: CanvasSummary; raw: unknown } {
+  const { canvas } = solveAsDrawn(doc);
+  let raw: AnalysisResult | null = null;
+  try {
+    raw = analyzeDiagram(doc, { mode: options.mode, ...(options.fault ? { fault: options.fault } : {}) });
+  } catch {
+    raw = null; // the figures above still stand; the panels show no analysis
+  }
+  if (raw) {
+    const findings: CanvasFinding[] = raw.findings.map((f) => ({ code: f.id, severity: f.severity, message: f.message, parts: f.parts }));
+    const seen = new Set(findings.map((f) => `${f.code}|${f.parts.join(',')}`));
+    // Structural errors the rules did not already report stay visible.
+    for (const f of canvas.findings) if (f.severity === 'error' && !seen.has(`${f.code}|${f.parts.join(',')}`)) findings.push(f);
+    canvas.findings = findings;
+    canvas.badges = badgesOf(findings);
+  }
+  return { canvas, raw };
+}
+
+/** Figures of the bank as drawn: compile, solve, read currents per part and cable. */
+export function solveAsDrawn(doc: DiagramDocument): { canvas: CanvasSummary; raw: unknown } {
   const compiled = compileDiagram(doc);
   if (!compiled.ok) {
     const findings = compiled.errors.map((e) => ({ code: e.code, severity: 'error' as const, message: e.message, parts: e.parts }));
