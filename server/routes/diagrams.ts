@@ -3,9 +3,13 @@ import { duplicateDiagramSchema, restoreRevisionSchema, saveRevisionSchema, upda
 import { requireAuth, type AppDeps } from '../http/context';
 import { notFound } from '../http/errors';
 import { parse } from '../http/validate';
+import type { Permission } from '../../shared/roles';
+import type { Db } from '../db/client';
+import { commentSchema, decisionSchema, resolveCommentSchema, reviewRequestSchema } from '../../shared/schemas/reviews';
+import { addComment, decide, listComments, requestReview, setCommentResolved } from '../services/reviews';
 import { requireDiagramRole } from '../services/access';
 import { deleteDiagram, saveWorkingCopy, updateDiagram } from '../services/diagrams';
-import { duplicateDiagram, getDiagramWithLatest, getRevision, listRevisions, restoreRevision, saveRevision } from '../services/revisions';
+import { duplicateDiagram, findRevision, getDiagramWithLatest, getRevision, listRevisions, restoreRevision, saveRevision } from '../services/revisions';
 
 /** A revision number from the URL: 1, 2, … (anything else names no revision). */
 export function revisionNumber(raw: string): number {
@@ -13,8 +17,15 @@ export function revisionNumber(raw: string): number {
   return Number(raw);
 }
 
+/** The caller's access to a diagram (404 / 403) and the revision named in the URL (404). */
+async function revisionAccess(db: Db, userId: string, diagramId: string, n: string, permission: Permission) {
+  const access = await requireDiagramRole(db, userId, diagramId, permission);
+  const revision = await findRevision(db, diagramId, revisionNumber(n));
+  return { ...access, revision };
+}
+
 export function diagramRoutes(deps: AppDeps): Router {
-  const { db } = deps;
+  const { db, mailer, config } = deps;
   const r = Router();
 
   r.get('/:id', async (req, res) => {
@@ -76,6 +87,40 @@ export function diagramRoutes(deps: AppDeps): Router {
     const n = revisionNumber(req.params.n);
     const input = parse(restoreRevisionSchema, req.body);
     res.status(201).json({ revision: await restoreRevision(db, user.id, req.params.id, n, input.message) });
+  });
+
+  r.post('/:id/revisions/:n/review-requests', async (req, res) => {
+    const { user } = requireAuth(res);
+    const ctx = await revisionAccess(db, user.id, req.params.id, req.params.n, 'diagram.edit');
+    const input = parse(reviewRequestSchema, req.body);
+    res.json({ review: await requestReview(db, mailer, config.appOrigin, user, ctx, input.reviewerIds) });
+  });
+
+  r.get('/:id/revisions/:n/comments', async (req, res) => {
+    const { user } = requireAuth(res);
+    const ctx = await revisionAccess(db, user.id, req.params.id, req.params.n, 'project.read');
+    res.json({ comments: await listComments(db, ctx.revision.id) });
+  });
+
+  r.post('/:id/revisions/:n/comments', async (req, res) => {
+    const { user } = requireAuth(res);
+    const ctx = await revisionAccess(db, user.id, req.params.id, req.params.n, 'review.comment');
+    const input = parse(commentSchema, req.body);
+    res.status(201).json({ comment: await addComment(db, mailer, config.appOrigin, user, ctx, input) });
+  });
+
+  r.patch('/:id/revisions/:n/comments/:commentId', async (req, res) => {
+    const { user } = requireAuth(res);
+    const ctx = await revisionAccess(db, user.id, req.params.id, req.params.n, 'review.comment');
+    const input = parse(resolveCommentSchema, req.body);
+    res.json({ comment: await setCommentResolved(db, user, ctx.role, ctx, req.params.commentId, input.resolved) });
+  });
+
+  r.post('/:id/revisions/:n/decision', async (req, res) => {
+    const { user } = requireAuth(res);
+    const ctx = await revisionAccess(db, user.id, req.params.id, req.params.n, 'review.decide');
+    const input = parse(decisionSchema, req.body);
+    res.json({ review: await decide(db, mailer, config.appOrigin, user, ctx, input) });
   });
 
   return r;

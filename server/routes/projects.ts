@@ -7,6 +7,12 @@ import { parse } from '../http/validate';
 import { requireProjectRole, requireTeamRole } from '../services/access';
 import { createProject, deleteProject, getProject, listDiagrams, listProjects, updateProject } from '../services/projects';
 import { createDiagram } from '../services/diagrams';
+import { listActivity } from '../services/activity';
+
+const activityQuery = z.object({
+  limit: z.coerce.number().int('limit must be a whole number').min(1, 'limit must be 1–500').max(500, 'limit must be 1–500').default(100),
+  before: z.iso.datetime({ offset: true, error: 'before must be an ISO 8601 date-time' }).optional(),
+});
 
 const listQuery = z.object({ teamId: z.string({ error: 'teamId is required' }).min(1, 'teamId is required') });
 
@@ -52,6 +58,13 @@ export function projectRoutes(deps: AppDeps): Router {
     const { user } = requireAuth(res);
     await requireProjectRole(db, user.id, req.params.id, 'project.read');
     res.json({ diagrams: await listDiagrams(db, req.params.id) });
+  });
+
+  r.get('/:id/activity', async (req, res) => {
+    const { user } = requireAuth(res);
+    await requireProjectRole(db, user.id, req.params.id, 'project.read');
+    const q = parse(activityQuery, req.query);
+    res.json({ activity: await listActivity(db, req.params.id, { limit: q.limit, before: q.before ? new Date(q.before) : undefined }) });
   });
 
   r.post('/:id/diagrams', async (req, res) => {

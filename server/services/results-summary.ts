@@ -18,20 +18,18 @@ export interface RevisionResultsSummary extends ResultsSummary {
   summaryVersion: number;
   /** 'solved': the load case was solved; otherwise the stage that failed (figures are then empty / 0). */
   status: 'solved' | 'compile_failed' | 'solve_failed';
-  findingCounts: { error: number; warning: number; info: number };
+  findingCounts: Record<Severity, number>;
   /** Compiler or solver errors when not solved, and analysis notes. */
   issues: { code: string; message: string; parts: string[] }[];
 }
-
-const severityOf = (s: Severity): 'error' | 'warning' | 'info' => (s === 'note' ? 'info' : s);
 
 /** Rounded to 6 significant digits: the summary is for display and comparison, not further solving. */
 const r6 = (x: number) => (Number.isFinite(x) ? Number(x.toPrecision(6)) : 0);
 
 export function summarizeResults(doc: DiagramDocument): RevisionResultsSummary {
   const result = analyzeDiagram(doc, { mode: 'load' });
-  const findings = result.findings.map((f, i) => ({ id: `${f.id}-${i + 1}`, rule: f.id, severity: severityOf(f.severity), parts: f.parts, message: f.message }));
-  const findingCounts = { error: 0, warning: 0, info: 0 };
+  const findings = result.findings.map((f, i) => ({ id: `${f.id}-${i + 1}`, rule: f.id, severity: f.severity, parts: f.parts, message: f.message }));
+  const findingCounts: Record<Severity, number> = { error: 0, warning: 0, note: 0 };
   for (const f of findings) findingCounts[f.severity] += 1;
   const base = { summaryVersion: RESULTS_SUMMARY_VERSION, findings, findingCounts };
 

@@ -73,7 +73,7 @@ describe('saving revisions', () => {
     expect(summary.imbalance_pct).toBeCloseTo(0, 3);
     // The template has no fuse at either battery: the core flags each battery in parallel without its own fuse.
     expect(summary.findings.filter((f: { rule: string }) => f.rule === 'parallel-battery-without-fuse').map((f: { parts: string[] }) => f.parts).sort()).toEqual([['bat1'], ['bat2']]);
-    const counts = { error: 0, warning: 0, info: 0 } as Record<string, number>;
+    const counts = { error: 0, warning: 0, note: 0 } as Record<string, number>;
     for (const f of summary.findings) counts[f.severity] += 1;
     expect(summary.findingCounts).toEqual(counts);
     expect(rev.results).toEqual({ status: 'solved', findingCounts: counts });
