@@ -44,3 +44,22 @@ export function demoDiagramContents(): DemoDiagram[] {
     },
   ];
 }
+
+/** The post-to-post bank's three revisions (seeded with a review history). */
+export function demoRevisionContents(): { message: string; content: DiagramDocument }[] {
+  const name = 'Post-to-post bank, end take-off';
+  return [
+    {
+      message: 'First layout: four batteries post to post, both main cables off battery 1.',
+      content: postToPostTemplate({ count: 4, takeOff: 'same-end', name }),
+    },
+    {
+      message: 'Main negative moved to battery 4 (diagonal take-off) to even out the battery currents.',
+      content: postToPostTemplate({ count: 4, takeOff: 'diagonal', name }),
+    },
+    {
+      message: 'Jumpers cut to 0.5 m after measuring the battery box; main fuse unchanged.',
+      content: postToPostTemplate({ count: 4, takeOff: 'diagonal', name, jumper: { length_m: 0.5 } }),
+    },
+  ];
+}

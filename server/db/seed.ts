@@ -5,10 +5,12 @@
 import { count } from 'drizzle-orm';
 import type { Role } from '../../shared/roles';
 import { hashPassword } from '../auth/passwords';
-import type { Db } from './client';
-import { demoDiagramContents } from './demo-diagrams';
-import { activity, diagrams, memberships, projects, teams, users } from './schema';
+import type { Db, Tx } from './client';
+import { demoDiagramContents, demoRevisionContents } from './demo-diagrams';
+import { activity, diagramRevisions, diagrams, memberships, projects, reviewComments, reviewDecisions, reviewRequests, teams, users } from './schema';
 import { newId } from '../ids';
+import { contentHash } from '../services/content-hash';
+import { computeResultsSummary } from '../services/summaries';
 
 export const DEMO_TEAM_NAME = 'Kestrel Bay Energy Works';
 
@@ -29,11 +31,14 @@ export async function seedDemo(db: Db, password: string): Promise<boolean> {
   const [{ n }] = await db.select({ n: count() }).from(users);
   if (n > 0) return false;
 
-  // Hash outside the transaction: argon2 is slow on purpose.
-  const accounts = await Promise.all(
-    DEMO_ACCOUNTS.map(async (a) => ({ ...a, id: newId(), passwordHash: await hashPassword(password) })),
-  );
+  // Hash and analyse outside the transaction: argon2 is slow on purpose, the analysis runs in a worker.
+  const revisionDocs = demoRevisionContents();
+  const [accounts, summaries] = await Promise.all([
+    Promise.all(DEMO_ACCOUNTS.map(async (a) => ({ ...a, id: newId(), passwordHash: await hashPassword(password) }))),
+    Promise.all(revisionDocs.map((r) => computeResultsSummary(r.content))),
+  ]);
   const designer = accounts.find((a) => a.role === 'designer')!;
+  const reviewer = accounts.find((a) => a.role === 'reviewer')!;
   const teamId = newId();
   // Explicit, distinct timestamps so lists have a stable, meaningful order.
   const t0 = Date.now() - 60 * 60 * 1000;
@@ -80,21 +85,117 @@ export async function seedDemo(db: Db, password: string): Promise<boolean> {
         updatedAt: at(p.minute + 5),
       })),
     );
-    await tx.insert(diagrams).values(
-      demoDiagramContents().map((d, i) => ({
-        id: newId(),
-        projectId: station,
-        name: d.name,
-        description: d.description,
-        content: d.content,
-        createdBy: designer.id,
-        createdAt: at(31 + i),
-        updatedAt: at(31 + i),
-      })),
-    );
+    const diagramRows = demoDiagramContents().map((d, i) => ({
+      id: newId(),
+      projectId: station,
+      name: d.name,
+      description: d.description,
+      // The post-to-post bank's working copy is its latest revision (below).
+      content: i === 0 ? revisionDocs[revisionDocs.length - 1].content : d.content,
+      createdBy: designer.id,
+      updatedBy: designer.id,
+      createdAt: at(31 + i),
+      updatedAt: at(i === 0 ? 50 : 31 + i),
+    }));
+    await tx.insert(diagrams).values(diagramRows);
+    await seedDemoReview(tx, { diagram: diagramRows[0], projectId: station, designer: designer.id, reviewer: reviewer.id, revisionDocs, summaries, at });
     await tx.insert(activity).values(
       demoProjects.map((p) => ({ id: newId(), projectId: p.id, userId: designer.id, action: 'project.created', detail: { name: p.name }, createdAt: at(p.minute) })),
     );
   });
   return true;
+}
+
+/**
+ * The post-to-post bank's history: r1 the first layout (draft), r2 the diagonal take-off reviewed and
+ * approved by the reviewer, r3 longer jumpers sent for review, with a comment pinned to battery 4, the
+ * designer's threaded reply and a general comment. History, compare (r1→r2, r2→r3) and review all have
+ * real content on first start.
+ */
+async function seedDemoReview(
+  tx: Tx,
+  s: {
+    diagram: { id: string; name: string };
+    projectId: string;
+    designer: string;
+    reviewer: string;
+    revisionDocs: ReturnType<typeof demoRevisionContents>;
+    summaries: Awaited<ReturnType<typeof computeResultsSummary>>[];
+    at: (minutes: number) => Date;
+  },
+) {
+  const { diagram, projectId, designer, reviewer, at } = s;
+  const states = ['draft', 'approved', 'in_review'] as const;
+  const revIds = s.revisionDocs.map(() => newId());
+  await tx.insert(diagramRevisions).values(
+    s.revisionDocs.map((r, i) => ({
+      id: revIds[i],
+      diagramId: diagram.id,
+      number: i + 1,
+      authorId: designer,
+      message: r.message,
+      content: r.content,
+      contentHash: contentHash(r.content),
+      resultsSummary: s.summaries[i],
+      state: states[i],
+      ...(states[i] === 'approved' ? { approvedBy: reviewer, approvedAt: at(44) } : {}),
+      createdAt: at(36 + i * 5),
+    })),
+  );
+  await tx.insert(reviewRequests).values([
+    { revisionId: revIds[1], reviewerId: reviewer, requestedBy: designer, createdAt: at(42) },
+    { revisionId: revIds[2], reviewerId: reviewer, requestedBy: designer, createdAt: at(47) },
+  ]);
+  await tx.insert(reviewDecisions).values({
+    id: newId(),
+    revisionId: revIds[1],
+    reviewerId: reviewer,
+    decision: 'approve',
+    note: 'Diagonal take-off evens out the battery currents. Approved as a design check; confirm torque values on site.',
+    createdAt: at(44),
+  });
+  const pinned = newId();
+  const comments = [
+    {
+      id: pinned,
+      authorId: reviewer,
+      parentId: null,
+      partId: 'bat4',
+      body: 'Battery 4 now carries the main negative. There is still no fuse at any battery: a short in one battery is fed by the other three.',
+      createdAt: at(48),
+    },
+    {
+      id: newId(),
+      authorId: designer,
+      parentId: pinned,
+      partId: 'bat4',
+      body: 'Agreed. I will add a Class T fuse at each battery positive in the next revision and recheck the jumper ampacity.',
+      createdAt: at(49),
+    },
+    {
+      id: newId(),
+      authorId: reviewer,
+      parentId: null,
+      partId: null,
+      body: 'Longer jumpers add resistance between the batteries; compare the battery shares against revision 2 before we sign this off.',
+      createdAt: at(50),
+    },
+  ];
+  await tx.insert(reviewComments).values(comments.map((c) => ({ ...c, revisionId: revIds[2] })));
+  const log = (minute: number, userId: string, action: string, detail: Record<string, unknown>) => ({
+    id: newId(),
+    projectId,
+    userId,
+    action,
+    detail: { diagramId: diagram.id, name: diagram.name, ...detail },
+    createdAt: at(minute),
+  });
+  await tx.insert(activity).values([
+    log(31, designer, 'diagram.created', {}),
+    ...s.revisionDocs.map((r, i) => log(36 + i * 5, designer, 'revision.saved', { number: i + 1, message: r.message })),
+    log(42, designer, 'review.requested', { number: 2, reviewerIds: [reviewer] }),
+    log(44, reviewer, 'review.decided', { number: 2, decision: 'approve' }),
+    log(47, designer, 'review.requested', { number: 3, reviewerIds: [reviewer] }),
+    ...comments.map((c, i) => log(48 + i, c.authorId, 'review.commented', { number: 3, commentId: c.id, ...(c.partId ? { partId: c.partId } : {}), ...(c.parentId ? { parentId: c.parentId } : {}) })),
+  ]);
 }

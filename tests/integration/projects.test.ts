@@ -54,7 +54,9 @@ describe('projects', () => {
       description: expect.any(String),
       updatedAt: expect.any(String),
       partCount: expect.any(Number),
+      latestRevision: { number: 3, state: 'in_review' },
     });
+    expect(list.body.diagrams.slice(1).map((d: { latestRevision: unknown }) => d.latestRevision)).toEqual([null, null]);
     // The seeded documents are valid diagram documents, and partCount counts their parts.
     const rows = await t.db.select().from(diagrams).where(eq(diagrams.projectId, station.id));
     for (const d of list.body.diagrams) {
