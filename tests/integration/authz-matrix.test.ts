@@ -9,7 +9,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
-import { diagrams, invites, memberships, projects, teams, users } from '../../server/db/schema';
+import { diagramRevisions, diagrams, invites, memberships, projects, reviewComments, teams, users } from '../../server/db/schema';
 import { newId, newToken, sha256Hex } from '../../server/ids';
 import { hashPassword } from '../../server/auth/passwords';
 import { makeTestApp, DEMO_PASSWORD, type Agent, type TestApp } from '../helpers/app';
@@ -28,6 +28,8 @@ const GRANTED: Record<string, readonly DemoRole[]> = {
   'project.edit': ['owner', 'designer'],
   'outbox.read': ['owner'],
   'diagram.edit': ['owner', 'designer'],
+  'review.comment': ['owner', 'designer', 'reviewer', 'trainer'],
+  'review.decide': ['owner', 'reviewer'],
 };
 
 type Requirement =
@@ -65,6 +67,7 @@ let t: TestApp;
 let teamId: string;
 let projectId: string;
 let diagramId: string;
+const userIds: Record<string, string> = {};
 const OUTSIDER_EMAIL = 'outsider@elsewhere.test';
 const OUTSIDER_PASSWORD = 'outsider password 1';
 let placeholderHash: string;
@@ -88,6 +91,21 @@ async function freshDiagram(): Promise<string> {
   const id = newId();
   await t.db.insert(diagrams).values({ id, projectId, name: unique('Matrix diagram '), content: smallBank() });
   return id;
+}
+/** A diagram with one revision (by the designer) in the given review state. */
+async function freshRevision(state: 'draft' | 'in_review' = 'draft'): Promise<{ diagramId: string; revisionId: string }> {
+  const diagramId = await freshDiagram();
+  const revisionId = newId();
+  await t.db.insert(diagramRevisions).values({ id: revisionId, diagramId, number: 1, authorId: userIds.designer, content: smallBank(), contentHash: 'matrix', resultsSummary: {}, state });
+  return { diagramId, revisionId };
+}
+/** A comment on a fresh revision, written by the actor when they may comment (else by the owner). */
+async function freshComment(actor: Actor): Promise<{ diagramId: string; commentId: string }> {
+  const { diagramId, revisionId } = await freshRevision();
+  const commentId = newId();
+  const author = GRANTED['review.comment'].includes(actor as DemoRole) ? userIds[actor] : userIds.owner;
+  await t.db.insert(reviewComments).values({ id: commentId, revisionId, authorId: author, body: 'Matrix comment' });
+  return { diagramId, commentId };
 }
 async function freshMember(): Promise<string> {
   const id = newId();
@@ -280,6 +298,76 @@ const ROUTES: RouteCase[] = [
     success: 204,
     call: async () => ({ method: 'delete', url: `/api/diagrams/${await freshDiagram()}` }),
   },
+  {
+    route: 'GET /api/projects/:id/activity',
+    requires: { kind: 'permission', permission: 'project.read' },
+    success: 200,
+    call: async () => ({ method: 'get', url: `/api/projects/${projectId}/activity` }),
+  },
+  {
+    route: 'POST /api/diagrams/:id/duplicate',
+    requires: { kind: 'permission', permission: 'diagram.edit' },
+    success: 201,
+    call: async () => ({ method: 'post', url: `/api/diagrams/${diagramId}/duplicate`, body: { name: unique('Duplicated diagram ') } }),
+  },
+  {
+    route: 'GET /api/diagrams/:id/revisions',
+    requires: { kind: 'permission', permission: 'project.read' },
+    success: 200,
+    call: async () => ({ method: 'get', url: `/api/diagrams/${diagramId}/revisions` }),
+  },
+  {
+    route: 'POST /api/diagrams/:id/revisions',
+    requires: { kind: 'permission', permission: 'diagram.edit' },
+    success: 201,
+    call: async () => ({ method: 'post', url: `/api/diagrams/${await freshDiagram()}/revisions`, body: { baseRevision: null, message: 'Matrix save', content: smallBank() } }),
+  },
+  {
+    route: 'GET /api/diagrams/:id/revisions/:n',
+    requires: { kind: 'permission', permission: 'project.read' },
+    success: 200,
+    call: async () => ({ method: 'get', url: `/api/diagrams/${(await freshRevision()).diagramId}/revisions/1` }),
+  },
+  {
+    route: 'POST /api/diagrams/:id/revisions/:n/restore',
+    requires: { kind: 'permission', permission: 'diagram.edit' },
+    success: 201,
+    call: async () => ({ method: 'post', url: `/api/diagrams/${(await freshRevision()).diagramId}/revisions/1/restore`, body: {} }),
+  },
+  {
+    route: 'POST /api/diagrams/:id/revisions/:n/review-requests',
+    requires: { kind: 'permission', permission: 'diagram.edit' },
+    success: 200,
+    call: async () => ({ method: 'post', url: `/api/diagrams/${(await freshRevision()).diagramId}/revisions/1/review-requests`, body: { reviewerIds: [userIds.reviewer] } }),
+  },
+  {
+    route: 'GET /api/diagrams/:id/revisions/:n/comments',
+    requires: { kind: 'permission', permission: 'project.read' },
+    success: 200,
+    call: async (actor) => ({ method: 'get', url: `/api/diagrams/${(await freshComment(actor)).diagramId}/revisions/1/comments` }),
+  },
+  {
+    route: 'POST /api/diagrams/:id/revisions/:n/comments',
+    requires: { kind: 'permission', permission: 'review.comment' },
+    success: 201,
+    call: async () => ({ method: 'post', url: `/api/diagrams/${(await freshRevision()).diagramId}/revisions/1/comments`, body: { body: 'Matrix comment', partId: 'bat1' } }),
+  },
+  {
+    route: 'PATCH /api/diagrams/:id/revisions/:n/comments/:commentId',
+    requires: { kind: 'permission', permission: 'review.comment' },
+    success: 200,
+    // The actor's own comment (resolving is for its author, designers and owners).
+    call: async (actor) => {
+      const { diagramId: d, commentId } = await freshComment(actor);
+      return { method: 'patch', url: `/api/diagrams/${d}/revisions/1/comments/${commentId}`, body: { resolved: true } };
+    },
+  },
+  {
+    route: 'POST /api/diagrams/:id/revisions/:n/decision',
+    requires: { kind: 'permission', permission: 'review.decide' },
+    success: 200,
+    call: async () => ({ method: 'post', url: `/api/diagrams/${(await freshRevision('in_review')).diagramId}/revisions/1/decision`, body: { decision: 'approve' } }),
+  },
 ];
 
 const agents = new Map<Actor, Agent>();
@@ -294,6 +382,7 @@ beforeAll(async () => {
   const owner = await t.agentFor('owner');
   teamId = (await owner.get('/api/teams')).body.teams[0].id;
   projectId = (await owner.get(`/api/projects?teamId=${teamId}`)).body.projects[0].id;
+  for (const u of await t.db.select({ id: users.id, email: users.email }).from(users)) userIds[u.email.split('@')[0]] = u.id;
   diagramId = await freshDiagram();
   // The outsider owns a team of their own, so "member of another team" is a real member.
   const outsider = t.agent();
@@ -306,8 +395,8 @@ afterAll(async () => {
 });
 
 describe('authorization matrix', () => {
-  it('lists all 33 routes (add each new route here)', () => {
-    expect(ROUTES.map((r) => r.route)).toHaveLength(33);
+  it('lists all 44 routes (add each new route here)', () => {
+    expect(ROUTES.map((r) => r.route)).toHaveLength(44);
   });
 
   for (const c of ROUTES) {
