@@ -1,0 +1,102 @@
+/**
+ * Attacks on sessions: fixation (an attacker plants a session id in the victim's browser before the
+ * victim signs in), replay of ended sessions, revoking by the secret id, and account takeover through
+ * changing the e-mail without the current password.
+ * Also covered elsewhere: a new id on every sign-in and sign-out deleting the session
+ * (tests/integration/auth.test.ts), listing and ending sessions and ending the others on a password
+ * change (tests/integration/account.test.ts).
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import request from 'supertest';
+import { eq } from 'drizzle-orm';
+import { sessions, users } from '../../server/db/schema';
+import { makeTestApp, DEMO_PASSWORD, TEST_ORIGIN, type TestApp } from '../helpers/app';
+
+let t: TestApp;
+beforeAll(async () => {
+  t = await makeTestApp();
+});
+afterAll(async () => {
+  await t?.close();
+});
+
+function sessionIdOf(res: request.Response): string | undefined {
+  const c = (res.headers['set-cookie'] as unknown as string[] | undefined)?.find((x) => x.startsWith('bw_session='));
+  return c ? /^bw_session=([^;]*)/.exec(c)?.[1] : undefined;
+}
+const me = (id: string) => request(t.server).get('/api/auth/me').set('Cookie', `bw_session=${id}`);
+const signInWith = (planted: string, email: string, password = DEMO_PASSWORD) =>
+  request(t.server).post('/api/auth/sign-in').set('Origin', TEST_ORIGIN).set('Cookie', `bw_session=${planted}`).send({ email, password });
+
+describe('session fixation', () => {
+  it("the attacker's own valid session planted in the victim's browser is replaced on sign-in and ended", async () => {
+    const attacker = await request(t.server).post('/api/auth/sign-in').set('Origin', TEST_ORIGIN).send({ email: 'viewer@demo.test', password: DEMO_PASSWORD });
+    const planted = sessionIdOf(attacker)!;
+    const victim = await signInWith(planted, 'owner@demo.test');
+    expect(victim.status).toBe(200);
+    const fresh = sessionIdOf(victim)!;
+    expect(fresh).toMatch(/^[a-z0-9]{20,}$/);
+    expect(fresh).not.toBe(planted);
+    // The planted id never becomes the victim's session; it is ended.
+    expect((await me(planted)).status).toBe(401);
+    expect((await me(fresh)).body.user.email).toBe('owner@demo.test');
+  });
+
+  it('an attacker-chosen id that was never issued is not adopted', async () => {
+    const planted = 'attackerchosensessionid0000000';
+    const victim = await signInWith(planted, 'owner@demo.test');
+    expect(victim.status).toBe(200);
+    expect(sessionIdOf(victim)).not.toBe(planted);
+    expect((await me(planted)).status).toBe(401);
+    expect(await t.db.select().from(sessions).where(eq(sessions.id, planted))).toHaveLength(0);
+  });
+
+  it('sign-up also issues a fresh id and ends a planted one', async () => {
+    const attacker = await request(t.server).post('/api/auth/sign-in').set('Origin', TEST_ORIGIN).send({ email: 'viewer@demo.test', password: DEMO_PASSWORD });
+    const planted = sessionIdOf(attacker)!;
+    const res = await request(t.server)
+      .post('/api/auth/sign-up')
+      .set('Origin', TEST_ORIGIN)
+      .set('Cookie', `bw_session=${planted}`)
+      .send({ email: 'fixation.victim@example.test', password: 'victim password 1', name: 'Victim' });
+    expect(res.status).toBe(201);
+    expect(sessionIdOf(res)).not.toBe(planted);
+    expect((await me(planted)).status).toBe(401);
+  });
+});
+
+describe('ended sessions cannot be replayed', () => {
+  it('a password change without endOtherSessions ends the other sessions by default', async () => {
+    const a = t.agent();
+    expect((await a.post('/api/auth/sign-up').send({ email: 'default.end@example.test', password: 'first password 9', name: 'D' })).status).toBe(201);
+    const stolen = await t.signIn('default.end@example.test', 'first password 9');
+    const res = await a.post('/api/account/password').send({ currentPassword: 'first password 9', newPassword: 'second password 9' });
+    expect(res.status).toBe(204);
+    expect((await stolen.get('/api/auth/me')).status).toBe(401);
+    expect((await a.get('/api/auth/me')).status).toBe(200);
+  });
+
+  it('a session cannot be ended by its secret id in the URL (only by its public id), and the secret is never listed', async () => {
+    const a = await t.signIn('reviewer@demo.test');
+    const other = await request(t.server).post('/api/auth/sign-in').set('Origin', TEST_ORIGIN).send({ email: 'reviewer@demo.test', password: DEMO_PASSWORD });
+    const secret = sessionIdOf(other)!;
+    const list = await a.get('/api/account/sessions');
+    expect(JSON.stringify(list.body)).not.toContain(secret);
+    expect((await a.delete(`/api/account/sessions/${secret}`)).status).toBe(404);
+    expect((await me(secret)).status).toBe(200);
+  });
+});
+
+describe('account takeover through the e-mail address', () => {
+  it('PATCH /api/account cannot change the e-mail (it is not an accepted field)', async () => {
+    const a = t.agent();
+    expect((await a.post('/api/auth/sign-up').send({ email: 'keeps.email@example.test', password: 'keeps password 1', name: 'Keeps' })).status).toBe(201);
+    const res = await a.patch('/api/account').send({ name: 'Keeps', email: 'attacker@evil.example' });
+    expect(res.status).toBeLessThan(500);
+    const rows = await t.db.select().from(users).where(eq(users.email, 'attacker@evil.example'));
+    expect(rows).toHaveLength(0);
+    expect((await a.get('/api/auth/me')).body.user.email).toBe('keeps.email@example.test');
+  });
+
+  it.todo('changing the e-mail asks for the current password (no e-mail change route exists yet)');
+});
