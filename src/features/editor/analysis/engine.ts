@@ -1,7 +1,8 @@
 /**
  * What the analysis panels compute, as pure functions on the diagram document (run in the analysis
  * worker, or directly where there is no Worker, e.g. component tests):
- * - `runAnalysis`: the core's `analyzeDiagram` in the chosen mode plus the per-branch sizing suggestions.
+ * - `runAnalysis`: the core's `analyzeDiagram` in the chosen mode (when the editor's results lack it).
+ * - `runSizing`: the core's per-branch fuse and conductor suggestions.
  * - `exploreTakeoff`: the take-off layouts — the core's optimizer (post-to-post lead pairs, or busbar run
  *   lengths equalised) and, for a busbar bank, every pair of busbar taps for the load's two main leads.
  * Nothing here is an approval to install; the panels say so.
@@ -13,11 +14,6 @@ import {
 } from '@shared/electrical';
 import type { AnalysisOptions } from '../store';
 
-export interface AnalysisOutput {
-  result: AnalysisResult;
-  sizing: SizingResult;
-  elapsed_ms: number;
-}
 
 /** The store's analysis options as the core's: a fault target only in fault mode and only of a kind the core knows. */
 export function coreOptions(options: AnalysisOptions): AnalyzeOptions {
@@ -26,13 +22,16 @@ export function coreOptions(options: AnalysisOptions): AnalyzeOptions {
   return { mode: options.mode, ...(fault ? { fault } : {}) };
 }
 
-export function runAnalysis(doc: DiagramDocument, options: AnalysisOptions): AnalysisOutput {
-  const t0 = performance.now();
-  const result = analyzeDiagram(doc, coreOptions(options));
-  // Sizing needs a solvable diagram; skip the second compile when the analysis already failed to compile.
-  const sizing: SizingResult = result.ok || result.stage !== 'compile' ? suggestSizing(doc) : { ok: false, errors: result.errors };
-  return { result, sizing, elapsed_ms: performance.now() - t0 };
+/** The core's analysis in the chosen mode (used when the editor's compute worker did not provide it). */
+export function runAnalysis(doc: DiagramDocument, options: AnalysisOptions): AnalysisResult {
+  return analyzeDiagram(doc, coreOptions(options));
 }
+
+/** Per-branch fuse and conductor suggestions. */
+export function runSizing(doc: DiagramDocument): SizingResult {
+  return suggestSizing(doc);
+}
+
 
 /** One end of a cable moved to another terminal. */
 export interface LeadMove {
@@ -66,7 +65,7 @@ export type TakeoffExploration =
       layout: 'post_to_post' | 'busbar';
       /** Ranked best first within each group. */
       candidates: TakeoffCandidate[];
-      /** Key of the optimizer's best layout. */
+      /** Key of the best layout over both groups (ranked like the optimizer). */
       best: string;
       explanation: string;
       elapsed_ms: number;
@@ -178,6 +177,38 @@ export function exploreTakeoff(doc: DiagramDocument): TakeoffExploration {
     current: o.current,
     apply: { kind: 'optimizer', choice: o.choice },
   }));
-  if (opt.layout === 'busbar') candidates.push(...tapCandidates(doc));
-  return { ok: true, layout: opt.layout, candidates, best: choiceKey(opt.best.choice), explanation: opt.explanation, elapsed_ms: performance.now() - t0 };
+  let best = candidates.find((c) => c.key === choiceKey(opt.best.choice)) ?? candidates[0];
+  let explanation = opt.explanation;
+  if (opt.layout === 'busbar') {
+    const taps = tapCandidates(doc);
+    candidates.push(...taps);
+    // Both groups score the same load case the same way, so their best layouts compare directly.
+    const tapBest = taps[0];
+    const tapNow = taps.find((c) => c.current);
+    if (tapBest && tapNow && rank(tapBest, best) < 0) {
+      best = tapBest;
+      explanation = `Main leads with the ${tapBest.description} bring the imbalance from ${tapNow.imbalance_pct.toFixed(1)} % to ${tapBest.imbalance_pct.toFixed(1)} % and the losses from ${tapNow.losses_W.toFixed(1)} W to ${tapBest.losses_W.toFixed(1)} W; the busiest battery carries ${tapBest.maxCurrent_A.toFixed(1)} A instead of ${tapNow.maxCurrent_A.toFixed(1)} A (best of ${candidates.length} layouts evaluated).`;
+    }
+  }
+  return { ok: true, layout: opt.layout, candidates, best: best.key, explanation, elapsed_ms: performance.now() - t0 };
+}
+
+export type Job = 'analyze' | 'sizing' | 'takeoff';
+export interface AnalysisRequest {
+  job: Job;
+  seq: number;
+  doc: DiagramDocument;
+  options: AnalysisOptions;
+}
+export type AnalysisResponse = { job: Job; seq: number; ok: true; output: unknown } | { job: Job; seq: number; ok: false; message: string };
+
+export function runJob(req: Pick<AnalysisRequest, 'job' | 'doc' | 'options'>): unknown {
+  switch (req.job) {
+    case 'analyze':
+      return runAnalysis(req.doc, req.options);
+    case 'sizing':
+      return runSizing(req.doc);
+    case 'takeoff':
+      return exploreTakeoff(req.doc);
+  }
 }

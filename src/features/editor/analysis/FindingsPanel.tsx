@@ -1,0 +1,109 @@
+/**
+ * The rule findings, grouped by severity (errors, warnings, notes). Each finding is a button: activating
+ * it (click, Enter or Space) selects its parts on the canvas and frames them.
+ */
+import { useMemo, useState } from 'react';
+import type { Finding, Severity } from '@shared/electrical';
+import { SafetyCaution } from '@/components/SafetyCaution';
+import { useEditorStore } from '../store';
+import { useLabels } from './labels';
+import { SEVERITIES, SEVERITY } from './severity';
+import { useAnalysisResult } from './useCore';
+
+interface Shown extends Finding {
+  key: string;
+}
+
+export function FindingsPanel() {
+  const { result, updating, error } = useAnalysisResult();
+  const labelOf = useLabels();
+  const focusParts = useEditorStore((s) => s.focusParts);
+  const nParts = useEditorStore((s) => s.doc.parts.length);
+  const [active, setActive] = useState<string | null>(null);
+
+  const groups = useMemo(() => {
+    const by: Record<Severity, Shown[]> = { error: [], warning: [], note: [] };
+    if (!result) return by;
+    const r = result;
+    r.findings.forEach((f, i) => by[f.severity].push({ ...f, key: `f${i}:${f.id}` }));
+    if (r.ok) {
+      r.notes.forEach((n, i) => by.note.push({ id: n.code, severity: 'note', parts: n.parts, message: n.message, basis: 'analysis note', key: `n${i}:${n.code}` }));
+    }
+    return by;
+  }, [result]);
+
+  const total = SEVERITIES.reduce((n, s) => n + groups[s].length, 0);
+
+  if (!result) {
+    return (
+      <div className="space-y-2 text-[13px] text-graphite-600" aria-busy={updating}>
+        {error ? <p>The checks could not run: {error}</p> : <p>{nParts ? 'Checking the diagram…' : 'Draw a bank to check it.'}</p>}
+      </div>
+    );
+  }
+
+  return (
+    <div className="space-y-3" aria-busy={updating}>
+      <div className="flex items-center gap-2 text-[12px] text-graphite-700">
+        <h2 className="text-[13px] font-semibold text-graphite-900">Findings</h2>
+        <span data-testid="findings-counts">
+          {SEVERITIES.map((s) => `${groups[s].length} ${groups[s].length === 1 ? SEVERITY[s].word.toLowerCase() : SEVERITY[s].plural.toLowerCase()}`).join(' · ')}
+        </span>
+        {updating ? <span className="ml-auto text-graphite-500" role="status">Updating…</span> : null}
+      </div>
+      {total === 0 ? (
+        <p className="rounded-md border border-graphite-200 bg-graphite-50 px-3 py-2 text-[13px] text-graphite-700">
+          No findings from the rule checks in this diagram.
+        </p>
+      ) : null}
+      {SEVERITIES.filter((s) => groups[s].length).map((sev) => {
+        const S = SEVERITY[sev];
+        return (
+          <section key={sev} aria-labelledby={`findings-${sev}`}>
+            <h3 id={`findings-${sev}`} className={`mb-1 flex items-center gap-1.5 text-[12px] font-semibold ${S.text}`}>
+              <S.Icon size={15} />
+              {S.plural} ({groups[sev].length})
+            </h3>
+            <ul className="space-y-1.5">
+              {groups[sev].map((f) => (
+                <li key={f.key}>
+                  <button
+                    type="button"
+                    className={`w-full rounded-md border px-2.5 py-2 text-left text-[12px] leading-[1.35] ${S.box} hover:brightness-[0.98] ${active === f.key ? 'ring-2 ring-copper-500' : ''}`}
+                    aria-pressed={active === f.key}
+                    aria-describedby={`findings-${sev}`}
+                    data-finding={f.id}
+                    onClick={() => {
+                      setActive(f.key);
+                      if (f.parts.length) focusParts(f.parts);
+                    }}
+                  >
+                    <span className={`flex items-center gap-1 font-semibold ${S.text}`}>
+                      <S.Icon size={13} className="shrink-0" />
+                      <span className="sr-only">{S.word}: </span>
+                      <span className="truncate">{f.id}</span>
+                    </span>
+                    <span className="mt-0.5 block text-graphite-900">{f.message}</span>
+                    {f.suggestion ? <span className="mt-1 block text-graphite-700">→ {f.suggestion}</span> : null}
+                    <span className="mt-1 block text-[11px] text-graphite-500">Basis: {f.basis}</span>
+                    {f.parts.length ? (
+                      <span className="mt-1 flex flex-wrap gap-1">
+                        {f.parts.map((id) => (
+                          <span key={id} className="rounded border border-graphite-200 bg-white px-1 text-[11px] text-graphite-700">
+                            {labelOf(id)}
+                          </span>
+                        ))}
+                      </span>
+                    ) : null}
+                  </button>
+                </li>
+              ))}
+            </ul>
+          </section>
+        );
+      })}
+      <p className="text-[11px] text-graphite-500">Choose a finding to select its parts on the canvas. The checks are a design aid: passing them is not approval to install.</p>
+      <SafetyCaution />
+    </div>
+  );
+}
