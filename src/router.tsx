@@ -47,6 +47,18 @@ export const routes: RouteObject[] = [
                   { path: 'projects/:projectId', element: <ProjectPage /> },
                   { path: 'account', element: <AccountPage /> },
                   {
+                    path: 'diagrams/:diagramId/history',
+                    lazy: async () => ({ Component: (await import('./features/revisions/HistoryPage')).default }),
+                  },
+                  {
+                    path: 'diagrams/:diagramId/revisions/:n',
+                    lazy: async () => ({ Component: (await import('./features/revisions/RevisionViewPage')).default }),
+                  },
+                  {
+                    path: 'diagrams/:diagramId/compare',
+                    lazy: async () => ({ Component: (await import('./features/compare/ComparePage')).default }),
+                  },
+                  {
                     path: 'diagrams/:diagramId',
                     lazy: async () => {
                       const { default: Component } = await import('./features/editor/EditorRoute');

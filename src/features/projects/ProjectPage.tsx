@@ -11,6 +11,8 @@ import { isApiError } from '@/lib/api';
 import { rememberTeam } from '@/lib/currentTeam';
 import { formatDateTime, plural } from '@/lib/format';
 import { useSignedInMe } from '../auth/hooks';
+import { ActivityList } from '../activity/ActivityList';
+import { RevisionStateBadge } from '../revisions/RevisionStateBadge';
 import type { Project } from './api';
 import { useDeleteProject, useDiagrams, useProject } from './hooks';
 import { EditProjectDialog } from './ProjectFormDialog';
@@ -104,26 +106,41 @@ function ProjectView({ project, teamName, mayEdit }: { project: Project; teamNam
         ) : (
           <ul aria-label="Diagrams" className="grid gap-3 sm:grid-cols-2 lg:grid-cols-3">
             {diagrams.data.map((d) => (
-              <li key={d.id}>
-                <Link
-                  to={`/diagrams/${d.id}`}
-                  className="group flex h-full flex-col rounded-lg border border-graphite-200 bg-white p-4 shadow-xs hover:border-copper-300 hover:shadow-sm"
-                >
-                  <span className="flex items-center gap-2">
-                    <DiagramIcon size={16} className="text-copper-600" />
-                    <span className="min-w-0 flex-1 truncate font-medium text-graphite-950">{d.name}</span>
-                    <ChevronRightIcon size={16} className="text-graphite-400 group-hover:text-copper-600" />
-                  </span>
-                  {d.description ? <span className="mt-1 line-clamp-2 text-[13px] text-graphite-600">{d.description}</span> : null}
-                  <span className="mt-auto flex justify-between gap-2 pt-3 text-xs text-graphite-500">
-                    <span className="font-mono">{plural(d.partCount, 'part')}</span>
-                    <span>Updated {formatDateTime(d.updatedAt)}</span>
-                  </span>
-                </Link>
+              <li key={d.id} className="group relative flex h-full flex-col rounded-lg border border-graphite-200 bg-white p-4 shadow-xs hover:border-copper-300 hover:shadow-sm">
+                <span className="flex items-center gap-2">
+                  <DiagramIcon size={16} className="text-copper-600" />
+                  {/* The whole card opens the editor; the history link sits above that link. */}
+                  <Link to={`/diagrams/${d.id}`} className="min-w-0 flex-1 truncate font-medium text-graphite-950 after:absolute after:inset-0 after:content-['']">
+                    {d.name}
+                  </Link>
+                  <ChevronRightIcon size={16} className="text-graphite-400 group-hover:text-copper-600" />
+                </span>
+                {d.description ? <span className="mt-1 line-clamp-2 text-[13px] text-graphite-600">{d.description}</span> : null}
+                <span className="relative z-10 mt-2 flex flex-wrap items-center gap-2 text-xs">
+                  {d.latestRevision ? (
+                    <RevisionStateBadge state={d.latestRevision.state} number={d.latestRevision.number} />
+                  ) : (
+                    <span className="text-graphite-500">No revision saved</span>
+                  )}
+                  <Link to={`/diagrams/${d.id}/history`} className="text-graphite-600 underline-offset-2 hover:text-graphite-900 hover:underline">
+                    History
+                  </Link>
+                </span>
+                <span className="mt-auto flex justify-between gap-2 pt-3 text-xs text-graphite-500">
+                  <span className="font-mono">{plural(d.partCount, 'part')}</span>
+                  <span>Updated {formatDateTime(d.updatedAt)}</span>
+                </span>
               </li>
             ))}
           </ul>
         )}
+      </section>
+
+      <section aria-labelledby="activity-heading" className="mt-8">
+        <h2 id="activity-heading" className="mb-2 text-[13px] font-semibold tracking-wide text-graphite-600 uppercase">
+          Activity
+        </h2>
+        <ActivityList projectId={project.id} />
       </section>
 
       {mayEdit ? (

@@ -1,3 +1,4 @@
+import type { RevisionState } from '@shared/schemas/diagrams';
 import type { CreateProjectInput } from '@shared/schemas/projects';
 import { api } from '@/lib/api';
 
@@ -19,6 +20,8 @@ export interface DiagramSummary {
   description: string;
   updatedAt: string;
   partCount: number;
+  /** The newest saved revision and its review state; null before the first revision. */
+  latestRevision?: { number: number; state: RevisionState } | null;
 }
 
 export type ProjectPatch = Partial<Pick<Project, 'name' | 'site' | 'description'>>;
