@@ -1,6 +1,16 @@
-/** The cable-run edge: conductor size and length in the team's units, live current and loading against ampacity. */
-import { memo } from 'react';
-import { BaseEdge, EdgeLabelRenderer, getSmoothStepPath, type Edge, type EdgeProps } from '@xyflow/react';
+/**
+ * The cable-run edge: conductor size and length in the team's units, the live current of the chosen
+ * analysis mode and its loading against ampacity, and the current's direction where it matters
+ * (equalize, a chosen fault).
+ *
+ * Labels stay legible when zoomed out: below DETAIL_ZOOM a label shows its figure only, and below
+ * JUMPER_ZOOM a jumper's label is hidden (a jumper sits between two posts, right beside the lead's
+ * label) unless the jumper is selected, hovered, over its ampacity, marked or has a finding. A jumper's
+ * label sits a third of the way along its run rather than at the midpoint, so it clears a lead that
+ * takes off from the same posts.
+ */
+import { memo, useState } from 'react';
+import { BaseEdge, EdgeLabelRenderer, getSmoothStepPath, useStore, type Edge, type EdgeProps, type ReactFlowState } from '@xyflow/react';
 import { useShallow } from 'zustand/react/shallow';
 import type { DiagramCable } from '@shared/diagram';
 import { ErrorIcon, NoteIcon, WarningIcon } from '@/components/icons';
@@ -12,55 +22,126 @@ export interface CableEdgeData extends Record<string, unknown> {
 }
 export type CableFlowEdge = Edge<CableEdgeData>;
 
+/** Below this zoom a label shows its figure only. */
+export const DETAIL_ZOOM = 0.75;
+/** Below this zoom a jumper's label is hidden unless it needs attention. */
+export const JUMPER_ZOOM = 0.55;
+
+type Detail = 'full' | 'compact' | 'minimal';
+const detailOf = (s: ReactFlowState): Detail => {
+  const z = s.transform[2];
+  return z >= DETAIL_ZOOM ? 'full' : z >= JUMPER_ZOOM ? 'compact' : 'minimal';
+};
+
+const fmtCurrent = (a: number) => (Math.abs(a) >= 1000 ? `${(a / 1000).toFixed(2)} kA` : fmtAmps(a));
+
+/** The point a fraction `t` along a polyline given as an SVG path of M/L/Q commands (React Flow's smooth-step). */
+function pointAlong(path: string, t: number): [number, number] | null {
+  const nums = path.match(/-?\d+(?:\.\d+)?(?:e-?\d+)?/g)?.map(Number);
+  if (!nums || nums.length < 4) return null;
+  const pts: [number, number][] = [];
+  for (let i = 0; i + 1 < nums.length; i += 2) pts.push([nums[i], nums[i + 1]]);
+  let total = 0;
+  const seg: number[] = [];
+  for (let i = 1; i < pts.length; i++) {
+    const d = Math.hypot(pts[i][0] - pts[i - 1][0], pts[i][1] - pts[i - 1][1]);
+    seg.push(d);
+    total += d;
+  }
+  if (total === 0) return pts[0];
+  let left = total * t;
+  for (let i = 0; i < seg.length; i++) {
+    if (left <= seg[i] || i === seg.length - 1) {
+      const f = seg[i] ? Math.min(1, left / seg[i]) : 0;
+      return [pts[i][0] + (pts[i + 1][0] - pts[i][0]) * f, pts[i][1] + (pts[i + 1][1] - pts[i][1]) * f];
+    }
+    left -= seg[i];
+  }
+  return null;
+}
+
 function CableEdgeView({ id, data, selected, sourceX, sourceY, targetX, targetY, sourcePosition, targetPosition }: EdgeProps<CableFlowEdge>) {
   const unitSystem = useEditorStore((s) => s.unitSystem);
+  const detail = useStore(detailOf);
+  const [hover, setHover] = useState(false);
   const r = useEditorStore(
     useShallow((s) => {
-      const c = s.results?.canvas.cables[id];
-      return c ? { i: Math.round(Math.abs(c.current_A) * 10) / 10, loading: c.loading === null ? null : Math.round(c.loading * 1000) / 1000 } : null;
+      const canvas = s.results?.canvas;
+      const c = canvas?.cables[id];
+      if (!c || !canvas) return null;
+      const directed = canvas.mode === 'equalize' || (canvas.modeSummary.mode === 'fault' && !!canvas.modeSummary.selected);
+      return {
+        mode: canvas.mode,
+        i: Math.round(Math.abs(c.current_A) * 10) / 10,
+        // Direction of the current along the drawn run: 1 from → to, −1 to → from, 0 unshown.
+        dir: directed && Math.abs(c.current_A) >= 0.05 ? Math.sign(c.current_A) : 0,
+        loading: c.loading === null ? null : Math.round(c.loading * 1000) / 1000,
+        mark: canvas.marks[id] ?? null,
+      };
     }),
   );
   const badge = useEditorStore(useShallow((s) => s.results?.canvas.badges[id] ?? null));
-  const [path, labelX, labelY] = getSmoothStepPath({ sourceX, sourceY, targetX, targetY, sourcePosition, targetPosition, borderRadius: 8, offset: 18 });
+  const [path, midX, midY] = getSmoothStepPath({ sourceX, sourceY, targetX, targetY, sourcePosition, targetPosition, borderRadius: 8, offset: 18 });
   if (!data) return null;
   const { cable } = data;
   const over = r?.loading != null && r.loading > 1;
   const jumper = cable.props.role === 'jumper';
-  const width = r ? Math.min(6, 1.6 + (r.loading ?? 0) * 2.5) : 1.8;
+  const faulted = r?.mark === 'faulted' || r?.mark === 'worst-fault';
+  const fault = r?.mode === 'fault';
+  const width = r && !fault ? Math.min(6, 1.6 + (r.loading ?? 0) * 2.5) : 1.8;
   const BadgeIcon = badge ? (badge.severity === 'error' ? ErrorIcon : badge.severity === 'warning' ? WarningIcon : NoteIcon) : null;
+  const [labelX, labelY] = (jumper && pointAlong(path, 1 / 3)) || [midX, midY];
+  const needsAttention = selected || hover || over || faulted || !!badge;
+  const showLabel = !(jumper && detail === 'minimal' && !needsAttention);
+  const shown: Detail = needsAttention && (selected || hover) ? 'full' : detail;
+  const arrow = r?.dir ? `bw-arrow-${id}` : null;
+  const figure = r ? (fault ? `${fmtCurrent(r.i)}${faulted ? '' : ' prospective'}` : `${fmtAmps(r.i)}${r.loading !== null ? ` · ${over ? '▲ over ' : ''}${fmtPct(r.loading * 100)}` : ''}`) : null;
+  const title = `${cable.label ? `${cable.label}: ` : ''}${jumper ? 'jumper' : 'cable'}, ${shortConductor(cable.props.conductor, unitSystem)}, ${lengthText(cable.props.length_m, unitSystem)}, ${cable.props.material}${
+    r ? `; ${fault ? `${fmtCurrent(r.i)} prospective` : fmtAmps(r.i)}${r.loading != null ? `, ${fmtPct(r.loading * 100)} of ampacity` : ''}` : ''}`;
   return (
     <>
+      {arrow ? (
+        <defs>
+          <marker id={arrow} viewBox="0 0 10 10" refX="8" refY="5" markerWidth="5" markerHeight="5" orient="auto-start-reverse" markerUnits="strokeWidth">
+            <path d="M0 0L10 5L0 10z" fill={faulted || fault ? 'var(--color-fault-600)' : 'var(--color-copper-600)'} />
+          </marker>
+        </defs>
+      ) : null}
       <BaseEdge
         id={id}
         path={path}
         className={`bw-cable${selected ? ' bw-cable-selected' : ''}${over ? ' bw-cable-over' : ''}${jumper ? ' bw-cable-jumper' : ''}`}
-        style={{ strokeWidth: selected ? width + 1 : width }}
+        style={{ strokeWidth: selected ? width + 1 : width, ...(faulted ? { stroke: 'var(--color-fault-600)', strokeDasharray: '2 3' } : {}) }}
         interactionWidth={16}
+        {...(arrow ? (r!.dir > 0 ? { markerEnd: `url(#${arrow})` } : { markerStart: `url(#${arrow})` }) : {})}
       />
-      <EdgeLabelRenderer>
-        <div
-          className={`bw-cable-label nodrag nopan${selected ? ' bw-cable-label-selected' : ''}${over ? ' bw-over' : ''}`}
-          style={{ transform: `translate(-50%, -50%) translate(${labelX}px, ${labelY}px)` }}
-          data-cable-id={id}
-          onClick={(e) => useEditorStore.getState().select([id], { additive: e.shiftKey || e.metaKey || e.ctrlKey })}
-          title={`${cable.label ? `${cable.label}: ` : ''}${cable.props.role === 'jumper' ? 'jumper' : 'cable'}, ${cable.props.material}${r?.loading != null ? `; ${fmtPct(r.loading * 100)} of ampacity` : ''}`}
-        >
-          <span>
-            {shortConductor(cable.props.conductor, unitSystem)} · {lengthText(cable.props.length_m, unitSystem)}
-          </span>
-          {r ? (
-            <span className="bw-cable-figures">
-              {fmtAmps(r.i)}
-              {r.loading !== null ? ` · ${over ? '▲ over ' : ''}${fmtPct(r.loading * 100)}` : ''}
-            </span>
-          ) : null}
-          {badge && BadgeIcon ? (
-            <span className={`bw-badge-inline bw-badge-${badge.severity}`} title={`${badge.count} finding(s)`}>
-              <BadgeIcon size={11} /> {badge.count}
-            </span>
-          ) : null}
-        </div>
-      </EdgeLabelRenderer>
+      {showLabel ? (
+        <EdgeLabelRenderer>
+          <div
+            className={`bw-cable-label nodrag nopan${selected ? ' bw-cable-label-selected' : ''}${over || faulted ? ' bw-over' : ''}`}
+            style={{ transform: `translate(-50%, -50%) translate(${labelX}px, ${labelY}px)`, zIndex: selected || hover ? 1 : undefined }}
+            data-cable-id={id}
+            data-detail={shown}
+            onClick={(e) => useEditorStore.getState().select([id], { additive: e.shiftKey || e.metaKey || e.ctrlKey })}
+            onMouseEnter={() => setHover(true)}
+            onMouseLeave={() => setHover(false)}
+            title={title}
+          >
+            {faulted ? <span className="font-bold text-fault-700 uppercase">{r?.mark === 'faulted' ? 'Fault here' : 'Worst fault'}</span> : null}
+            {shown === 'full' ? (
+              <span>
+                {shortConductor(cable.props.conductor, unitSystem)} · {lengthText(cable.props.length_m, unitSystem)}
+              </span>
+            ) : null}
+            {figure ? <span className="bw-cable-figures">{figure}</span> : null}
+            {badge && BadgeIcon ? (
+              <span className={`bw-badge-inline bw-badge-${badge.severity}`} title={`${badge.count} finding(s)`}>
+                <BadgeIcon size={11} /> {badge.count}
+              </span>
+            ) : null}
+          </div>
+        </EdgeLabelRenderer>
+      ) : null}
     </>
   );
 }

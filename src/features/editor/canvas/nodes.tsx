@@ -10,6 +10,7 @@ import type { DiagramPart } from '@shared/diagram';
 import { PART_TYPES, type PartType } from '@shared/electrical/parts';
 import { ErrorIcon, NoteIcon, WarningIcon } from '@/components/icons';
 import { useEditorStore } from '../store';
+import type { CanvasMark } from '../results/types';
 import { baseBox, partBox, POSITION, rotatePlacement, terminalPlacements, type TerminalPlacement } from './geometry';
 import { PartSymbol } from './symbols';
 import { fmtAmps, fmtPct, fmtVolts } from '../units';
@@ -99,28 +100,70 @@ function PartShell({ id, data, selected, caption, inside, children }: { id: stri
         <TerminalHandle key={t.terminal} nodeId={id} placement={rotatePlacement(t, part.rotation)} readOnly={readOnly} label={label} />
       ))}
       <FindingsBadge id={id} />
+      <MarkTag id={id} />
       {children}
     </div>
+  );
+}
+
+/** Amperes, in kA from 1000 A (fault currents). */
+const fmtCurrent = (a: number) => (Math.abs(a) >= 1000 ? `${(a / 1000).toFixed(2)} kA` : fmtAmps(a));
+
+const MARK_TEXT: Record<CanvasMark, string> = {
+  faulted: 'Fault here',
+  'worst-fault': 'Worst fault',
+  'first-empty': 'Empties first',
+  'largest-exchange': 'Largest exchange',
+};
+
+/** The mode's mark on a part: the faulted battery, the one that empties first, the pair exchanging most. */
+function MarkTag({ id }: { id: string }) {
+  const m = useEditorStore((s) => s.results?.canvas.marks[id]);
+  if (!m) return null;
+  return (
+    <span className={`bw-mark bw-mark-${m} absolute -top-2.5 left-1 rounded px-1 text-[9.5px] leading-4 font-bold uppercase tracking-wide ${m === 'faulted' || m === 'worst-fault' ? 'bg-fault-700 text-white' : 'bg-caution-700 text-white'}`} data-testid={`mark-${id}`}>
+      {MARK_TEXT[m]}
+    </span>
   );
 }
 
 function BatteryResult({ id }: { id: string }) {
   const r = useEditorStore(
     useShallow((s) => {
-      const b = s.results?.canvas.batteries[id];
-      return b ? { i: Math.round(b.current_A * 10) / 10, share: Math.round(b.share * 1000) / 1000 } : null;
+      const c = s.results?.canvas;
+      const b = c?.batteries[id];
+      return b && c ? { mode: c.mode, i: Math.round(b.current_A * 10) / 10, share: Math.round(b.share * 1000) / 1000, selectedFault: c.modeSummary.mode === 'fault' && !!c.modeSummary.selected } : null;
     }),
   );
   if (!r) return null;
   const pct = Math.max(0, Math.min(1, r.share));
+  const bar = (
+    <div className="bw-share-bar" aria-hidden="true">
+      <div style={{ width: `${pct * 100}%` }} />
+    </div>
+  );
+  let text: ReactNode;
+  let withBar = false;
+  switch (r.mode) {
+    case 'charge':
+      withBar = r.i < 0;
+      text = r.i < 0 ? <>charging {fmtAmps(-r.i)} · <strong>{fmtPct(r.share * 100)}</strong></> : <>discharging {fmtAmps(r.i)}</>;
+      break;
+    case 'equalize':
+      // Positive out of the battery: it gives current to the others; negative: it takes.
+      text = Math.abs(r.i) < 0.05 ? <>no exchange</> : <><span aria-hidden="true">{r.i > 0 ? '↑ ' : '↓ '}</span>{r.i > 0 ? 'gives' : 'takes'} <strong>{fmtAmps(Math.abs(r.i))}</strong></>;
+      break;
+    case 'fault':
+      text = r.selectedFault ? <>feeds <strong>{fmtCurrent(Math.abs(r.i))}</strong></> : <>short: <strong>{fmtCurrent(Math.abs(r.i))}</strong></>;
+      break;
+    default:
+      withBar = true;
+      text = <>{fmtAmps(r.i)} · <strong>{fmtPct(r.share * 100)}</strong></>;
+  }
   return (
-    <div className="bw-result-inside" data-testid={`share-${id}`}>
-      <div className="bw-share-bar" aria-hidden="true">
-        <div style={{ width: `${pct * 100}%` }} />
-      </div>
-      <span className="bw-result-text">
-        {fmtAmps(r.i)} · <strong>{fmtPct(r.share * 100)}</strong>
-      </span>
+    <div className="bw-result-inside" data-testid={`share-${id}`} data-mode={r.mode}>
+      {withBar ? bar : null}
+      <span className="bw-result-text">{text}</span>
     </div>
   );
 }
@@ -128,14 +171,32 @@ function BatteryResult({ id }: { id: string }) {
 function FuseResult({ id }: { id: string }) {
   const r = useEditorStore(
     useShallow((s) => {
-      const f = s.results?.canvas.fuses[id];
-      return f ? { i: Math.round(f.current_A * 10) / 10, loading: Math.round(f.loading * 1000) / 1000 } : null;
+      const c = s.results?.canvas;
+      const f = c?.fuses[id];
+      if (!f || !c) return null;
+      return {
+        mode: c.mode, i: Math.round(f.current_A * 10) / 10, loading: Math.round(f.loading * 1000) / 1000,
+        aic: f.interrupting_A ?? null, aicLoading: f.interruptingLoading === undefined ? null : Math.round(f.interruptingLoading * 1000) / 1000,
+      };
     }),
   );
   if (!r) return null;
+  if (r.aic !== null && r.aicLoading !== null) {
+    const over = r.aicLoading > 1;
+    return (
+      <div className={`bw-result bw-result-side${over ? ' bw-over' : ''}`} data-testid={`fuse-${id}`}>
+        <span className="bw-result-text">
+          {fmtCurrent(Math.abs(r.i))} prospective
+          <br />
+          {over ? '▲ above ' : ''}
+          {fmtPct(r.aicLoading * 100)} of {fmtCurrent(r.aic)} interrupting
+        </span>
+      </div>
+    );
+  }
   const over = r.loading > 1;
   return (
-    <div className={`bw-result bw-result-side${over ? ' bw-over' : ''}`}>
+    <div className={`bw-result bw-result-side${over ? ' bw-over' : ''}`} data-testid={`fuse-${id}`}>
       <span className="bw-result-text">
         {fmtAmps(Math.abs(r.i))}
         <br />

@@ -1,122 +1,185 @@
 /**
- * Canvas figures from the electrical core: compile the diagram, solve the network, and read per-part
- * and per-cable currents. Runs inside the compute worker (and in tests); pure, no DOM.
+ * Canvas figures from the electrical core, in the chosen analysis mode. Runs inside the compute worker
+ * (and in tests); pure, no DOM.
  *
- * The canvas figures are the bank as drawn (the load case); `analyzeDiagram` (the core's analysis
- * entry) runs in the chosen mode for the analysis panels (`raw`) and gives the findings and badges.
+ * Two stages, so an edit shows new figures fast and the rule checks follow:
+ * - 'figures': `analyzeDiagram` without the rule checks — one compile and the mode's one solve (the
+ *   fault sweep in fault mode; the load case for discharge, whose simulation is left to the full stage);
+ * - 'full': `analyzeDiagram` with every rule check, in the chosen mode; its result goes to the analysis
+ *   panels (`raw`) and gives the findings and badges.
+ *
+ * What the canvas shows per mode:
+ * - load: each battery's current and share, each cable's and fuse's current against ampacity / rating,
+ *   each load's voltage and drop;
+ * - charge: each battery's charge current (negative out of the battery) and share;
+ * - equalize: the currents between the batteries when joined with loads and chargers off (signed, with
+ *   the direction on each cable), against ampacity and fuse rating; the pair exchanging most is marked;
+ * - fault: with one fault chosen, that battery or cable marked and the prospective current through every
+ *   fuse and cable; without, the largest prospective current at each fuse and cable over every case and
+ *   each battery's own internal-short current; fuses against their interrupting rating;
+ * - discharge: the load case at t = 0, and (full stage) the battery that reaches its cut-off first.
  */
 import type { DiagramDocument } from '@shared/diagram';
-import { compileDiagram } from '@shared/electrical/compile';
-import { solveNetwork } from '@shared/electrical/network/solve';
-import { ampacity } from '@shared/electrical/tables/ampacity';
-import { analyzeDiagram, type AnalysisResult } from '@shared/electrical/analysis';
+import { analyzeDiagram, type AnalysisMode, type AnalysisResult, type OperatingPoint } from '@shared/electrical/analysis';
 import type { AnalysisOptions } from '../store';
-import type { CanvasFinding, CanvasSummary, Severity } from './types';
+import type { CanvasFinding, CanvasSummary, ModeSummary, Severity } from './types';
 
-const emptySummary = (findings: CanvasFinding[]): CanvasSummary => ({
-  solved: false, batteries: {}, cables: {}, fuses: {}, loads: {}, imbalance_pct: null, wiringLoss_W: 0, internalLoss_W: 0, findings, badges: badgesOf(findings),
+export type ComputeStage = 'figures' | 'full';
+
+const emptySummary = (mode: AnalysisMode, findings: CanvasFinding[] = []): CanvasSummary => ({
+  mode, solved: false, modeIssue: null, modeSummary: { mode } as ModeSummary, marks: {},
+  batteries: {}, cables: {}, fuses: {}, loads: {}, imbalance_pct: null, wiringLoss_W: 0, internalLoss_W: 0, findings, badges: badgesOf(findings),
 });
 
-/** Canvas figures plus the core's analysis in the chosen mode; its findings replace the structural ones. */
-export function computeCanvas(doc: DiagramDocument, options: AnalysisOptions): { canvas: CanvasSummary; raw: unknown } {
-  const { canvas } = solveAsDrawn(doc);
+/** The part or cable an element belongs to: compiled element ids are "<owner>" or "<owner>/<sub-element>". */
+const ownerOf = (element: string) => element.split('/')[0];
+
+/**
+ * Canvas figures in `options.mode`. `raw` is the core's analysis result: in the full stage the one the
+ * analysis panels read (with the rule checks), in the figures stage the rule-free one the figures came from.
+ */
+export function computeCanvas(doc: DiagramDocument, options: AnalysisOptions, stage: ComputeStage = 'full'): { canvas: CanvasSummary; raw: AnalysisResult | null } {
+  const mode = options.mode;
+  const rules = stage === 'full';
+  const fault = mode === 'fault' && options.fault ? { fault: options.fault } : {};
   let raw: AnalysisResult | null = null;
+  let loadForDischarge: AnalysisResult | null = null;
   try {
-    raw = analyzeDiagram(doc, { mode: options.mode, ...(options.fault ? { fault: options.fault } : {}) });
-  } catch {
-    raw = null; // the figures above still stand; the panels show no analysis
+    if (mode === 'discharge') {
+      loadForDischarge = analyzeDiagram(doc, { mode: 'load', rules: false });
+      raw = stage === 'full' ? analyzeDiagram(doc, { mode: 'discharge' }) : loadForDischarge;
+    } else {
+      raw = analyzeDiagram(doc, { mode, rules, ...fault });
+    }
+  } catch (err) {
+    // The core returns errors as data; a throw is a bug there. Say so rather than show stale figures.
+    const message = err instanceof Error ? err.message : String(err);
+    return { canvas: emptySummary(mode, [{ code: 'analysis_failed', severity: 'error', message: `The analysis failed: ${message}`, parts: [] }]), raw: null };
   }
-  if (raw) {
-    const findings: CanvasFinding[] = raw.findings.map((f) => ({ code: f.id, severity: f.severity, message: f.message, parts: f.parts }));
-    const seen = new Set(findings.map((f) => `${f.code}|${f.parts.join(',')}`));
-    // Structural errors the rules did not already report stay visible.
-    for (const f of canvas.findings) if (f.severity === 'error' && !seen.has(`${f.code}|${f.parts.join(',')}`)) findings.push(f);
-    canvas.findings = findings;
-    canvas.badges = badgesOf(findings);
-  }
+  const canvas = canvasOf(doc, mode, raw, loadForDischarge);
   return { canvas, raw };
 }
 
-/** Figures of the bank as drawn: compile, solve, read currents per part and cable. */
-export function solveAsDrawn(doc: DiagramDocument): { canvas: CanvasSummary; raw: unknown } {
-  const compiled = compileDiagram(doc);
-  if (!compiled.ok) {
-    const findings = compiled.errors.map((e) => ({ code: e.code, severity: 'error' as const, message: e.message, parts: e.parts }));
-    return { canvas: emptySummary(findings), raw: { compiled } };
+function findingsOf(res: AnalysisResult): CanvasFinding[] {
+  const findings: CanvasFinding[] = res.findings.map((f) => ({ code: f.id, severity: f.severity, message: f.message, parts: f.parts }));
+  if (!res.ok && res.stage !== 'options') {
+    // Structural and solver errors the rules did not already report stay visible.
+    const seen = new Set(findings.map((f) => `${f.code}|${f.parts.join(',')}`));
+    for (const e of res.errors) if (!seen.has(`${e.code}|${e.parts.join(',')}`)) findings.push({ code: e.code, severity: 'error', message: e.message, parts: e.parts });
   }
-  const solved = solveNetwork(compiled.network);
-  const notes: CanvasFinding[] = compiled.notes.map((n) => ({ code: n.code, severity: 'note', message: n.message, parts: n.parts }));
-  if (!solved.ok) {
-    const owners = (solved.error.elements ?? []).map((e) => compiled.map.elementOwner[e]?.id).filter((x): x is string => !!x);
-    return {
-      canvas: emptySummary([...notes, { code: solved.error.code, severity: 'error', message: solved.error.message, parts: [...new Set(owners)] }]),
-      raw: { compiled, solved },
-    };
-  }
-  const V = solved.node_voltages_V;
-  const I = solved.element_currents_A;
-  const { map } = compiled;
-  const canvas: CanvasSummary = { ...emptySummary(notes), solved: true };
+  return findings;
+}
 
-  // Batteries and strings: current of the (first) battery element; a string's members carry one current.
-  let total = 0;
-  const currents: [string, number][] = [];
-  let bankTerminal_V = -Infinity;
-  for (const p of doc.parts) {
-    if (p.type !== 'battery' && p.type !== 'series_string') continue;
-    const el = map.parts[p.id]?.elements.find((e) => e === p.id || /\/b\d+$/.test(e));
-    if (!el) continue;
-    const i = I[el] ?? 0;
-    currents.push([p.id, i]);
-    total += i;
-    const nodes = map.parts[p.id].nodes;
-    bankTerminal_V = Math.max(bankTerminal_V, (V[nodes.pos] ?? 0) - (V[nodes.neg] ?? 0));
-  }
-  for (const [id, i] of currents) canvas.batteries[id] = { current_A: i, share: Math.abs(total) > 1e-9 ? i / total : 0 };
-  if (currents.length >= 2) {
-    const values = currents.map(([, i]) => i);
-    const mean = values.reduce((a, b) => a + b, 0) / values.length;
-    canvas.imbalance_pct = Math.abs(mean) > 1e-9 ? ((Math.max(...values) - Math.min(...values)) / Math.abs(mean)) * 100 : 0;
+function canvasOf(doc: DiagramDocument, mode: AnalysisMode, res: AnalysisResult, loadCase: AnalysisResult | null): CanvasSummary {
+  const findings = findingsOf(res);
+  const canvas = emptySummary(mode, findings);
+  if (!res.ok) {
+    if (res.stage === 'options') {
+      canvas.modeIssue = res.errors.map((e) => e.message).join('; ');
+      canvas.findings.push(...res.errors.map((e) => ({ code: e.code, severity: 'note' as const, message: e.message, parts: e.parts })));
+    }
+    canvas.badges = badgesOf(canvas.findings);
+    return canvas;
   }
 
-  for (const c of doc.cables) {
-    const i = I[c.id] ?? 0;
-    const a = ampacity({
-      size: c.props.conductor, table: doc.settings.ampacityTable, ambient_C: c.props.ambient_C ?? doc.settings.ambient_C,
-      bundledConductors: c.props.installation === 'bundled' ? c.props.bundledConductors : 1,
-      engineSpace: c.props.installation === 'engine_space',
-    });
-    const amp = a.ok ? a.amps : null;
-    canvas.cables[c.id] = { current_A: i, ampacity_A: amp, loading: amp ? Math.abs(i) / amp : null };
+  const op = mode === 'discharge' ? (loadCase?.ok ? loadCase.operating : null) : res.operating;
+  if (mode === 'discharge' && loadCase && !loadCase.ok) {
+    canvas.modeIssue = `Load case: ${loadCase.errors.map((e) => e.message).join('; ')}`;
   }
-
-  for (const p of doc.parts) {
-    if (p.type === 'fuse') {
-      const i = I[p.id] ?? 0;
-      canvas.fuses[p.id] = { current_A: i, loading: Math.abs(i) / p.props.rating_A };
-    } else if (p.type === 'inverter' || p.type === 'dc_load') {
-      const nodes = map.parts[p.id]?.nodes;
-      const el = map.parts[p.id]?.elements[0];
-      if (!nodes || !el) continue;
-      const v = (V[nodes.pos] ?? 0) - (V[nodes.neg] ?? 0);
-      const drop = Number.isFinite(bankTerminal_V) ? ((bankTerminal_V - v) / doc.settings.systemVoltage_V) * 100 : 0;
-      canvas.loads[p.id] = { voltage_V: v, drop_pct: drop, current_A: I[el] ?? 0 };
+  if (op) {
+    fillFromOperating(doc, mode, op, canvas);
+    for (const n of op.solverNotes) {
+      canvas.findings.push({ code: n.code, severity: 'warning', message: n.message, parts: [...new Set(n.elements.map(ownerOf))] });
     }
   }
 
-  for (const [el, loss] of Object.entries(solved.element_losses_W)) {
-    const owner = map.elementOwner[el];
-    const part = owner?.kind === 'part' ? doc.parts.find((p) => p.id === owner.id) : undefined;
-    if (part && (part.type === 'battery' || part.type === 'series_string') && !el.includes('/j')) canvas.internalLoss_W += loss;
-    else if (part && (part.type === 'charger' || part.type === 'inverter' || part.type === 'dc_load')) continue;
-    else canvas.wiringLoss_W += loss;
-  }
-  for (const n of solved.notes) {
-    const owners = n.elements.map((e) => map.elementOwner[e]?.id).filter((x): x is string => !!x);
-    canvas.findings.push({ code: n.code, severity: 'warning', message: n.message, parts: [...new Set(owners)] });
+  switch (mode) {
+    case 'load':
+      canvas.modeSummary = { mode };
+      break;
+    case 'charge':
+      canvas.modeSummary = { mode, totalCharge_A: res.charge?.totalCharge_A ?? 0, chargers: Object.keys(res.charge?.chargers ?? {}).length };
+      break;
+    case 'equalize': {
+      const between = res.equalize?.between ?? [];
+      for (const id of between) canvas.marks[id] = 'largest-exchange';
+      canvas.modeSummary = { mode, maxCurrent_A: res.equalize?.maxCurrent_A ?? 0, between };
+      break;
+    }
+    case 'fault': {
+      const sweep = res.faults;
+      if (!sweep) {
+        canvas.modeIssue = 'No fault study: the bank without its loads and chargers does not form one circuit.';
+        break;
+      }
+      let worst: (typeof sweep.cases)[number] | null = null;
+      for (const c of sweep.cases) if (!worst || c.faultCurrent_A > worst.faultCurrent_A) worst = c;
+      const selected = res.faultCase ? { kind: res.faultCase.kind, part: res.faultCase.part, faultCurrent_A: res.faultCase.faultCurrent_A } : null;
+      if (selected) canvas.marks[selected.part] = 'faulted';
+      else {
+        fillFromSweep(doc, sweep, canvas);
+        if (worst) canvas.marks[worst.part] = 'worst-fault';
+      }
+      canvas.modeSummary = { mode, cases: sweep.cases.length, worst_A: sweep.worstFault_A, worstPart: worst?.part ?? null, selected };
+      break;
+    }
+    case 'discharge': {
+      const d = res.discharge;
+      if (d?.firstEmpty) canvas.marks[ownerOf(d.firstEmpty)] = 'first-empty';
+      canvas.modeSummary = d
+        ? { mode, firstEmpty: d.firstEmpty ? ownerOf(d.firstEmpty) : null, duration_h: d.duration_h, usable_pct: d.usable_pct, stoppedBy: d.stoppedBy }
+        : { mode, firstEmpty: null, duration_h: null, usable_pct: null, stoppedBy: null };
+      break;
+    }
   }
   canvas.badges = badgesOf(canvas.findings);
-  return { canvas, raw: { compiled: { ok: true, notes: compiled.notes }, solved } };
+  return canvas;
+}
+
+/** Per-part and per-cable figures of one solved case. */
+function fillFromOperating(doc: DiagramDocument, mode: AnalysisMode, op: OperatingPoint, canvas: CanvasSummary) {
+  canvas.solved = true;
+  // A share of the bank's current means something only where the batteries share one load or charger.
+  const shares = mode === 'load' || mode === 'charge' || mode === 'discharge';
+  const units = Object.entries(op.sources);
+  for (const [id, s] of units) canvas.batteries[id] = { current_A: s.current_A, share: shares ? s.share_pct / 100 : 0 };
+  canvas.imbalance_pct = shares && units.length >= 2 ? op.imbalance_pct : null;
+
+  // In a fault the cables carry far above their ampacity by nature; the prospective current is the figure.
+  const fault = mode === 'fault';
+  for (const [id, c] of Object.entries(op.cables)) {
+    canvas.cables[id] = { current_A: c.current_A, ampacity_A: fault ? null : c.ampacity_A, loading: fault || c.utilisation_pct === null ? null : c.utilisation_pct / 100 };
+  }
+  for (const p of doc.parts) {
+    const f = op.parts[p.id];
+    if (!f) continue;
+    if (p.type === 'fuse') {
+      const i = f.current_A ?? 0;
+      canvas.fuses[p.id] = { current_A: i, loading: Math.abs(i) / p.props.rating_A };
+      if (fault) Object.assign(canvas.fuses[p.id], { interrupting_A: p.props.interrupting_A, interruptingLoading: Math.abs(i) / p.props.interrupting_A });
+    } else if ((p.type === 'inverter' || p.type === 'dc_load') && (mode === 'load' || mode === 'discharge')) {
+      canvas.loads[p.id] = { voltage_V: f.voltage_V ?? 0, drop_pct: f.drop_pct ?? 0, current_A: f.current_A ?? 0 };
+    }
+  }
+  const k = op.losses.byKind;
+  canvas.internalLoss_W = k.battery;
+  canvas.wiringLoss_W = k.cable + k.lug + k.fuse + k.busbar + k.switch + k.shunt;
+}
+
+/** The fault sweep's largest prospective currents per fuse and cable, and each battery's own internal-short current. */
+function fillFromSweep(doc: DiagramDocument, sweep: NonNullable<Extract<AnalysisResult, { ok: true }>['faults']>, canvas: CanvasSummary) {
+  canvas.solved = true;
+  for (const c of sweep.cases) {
+    if (c.kind !== 'battery') continue;
+    const prev = canvas.batteries[c.part];
+    if (!prev || c.faultCurrent_A > prev.current_A) canvas.batteries[c.part] = { current_A: c.faultCurrent_A, share: 0 };
+  }
+  for (const [id, m] of Object.entries(sweep.maxByCable)) canvas.cables[id] = { current_A: m.current_A, ampacity_A: null, loading: null };
+  for (const p of doc.parts) {
+    if (p.type !== 'fuse') continue;
+    const i = sweep.maxByFuse[p.id]?.current_A ?? 0;
+    canvas.fuses[p.id] = { current_A: i, loading: i / p.props.rating_A, interrupting_A: p.props.interrupting_A, interruptingLoading: i / p.props.interrupting_A };
+  }
 }
 
 const RANK: Record<Severity, number> = { error: 3, warning: 2, note: 1 };

@@ -1,4 +1,5 @@
 /** What the canvas shows from an analysis: per-part and per-cable figures keyed by id, plus bank totals. */
+import type { AnalysisMode } from '@shared/electrical/analysis';
 
 export type Severity = 'error' | 'warning' | 'note';
 
@@ -11,13 +12,17 @@ export interface CanvasFinding {
 }
 
 export interface BatteryFigure {
-  /** Current out of the battery (or string), A; positive when discharging. */
+  /**
+   * Current out of the battery (or string), A; positive when discharging, negative when charging. In the
+   * fault sweep: the current in the fault with this battery internally shorted.
+   */
   current_A: number;
-  /** This battery's part of the bank's total battery current, 0..1. */
+  /** This battery's part of the bank's total battery current, 0..1 (0 where a share means nothing: equalize, fault). */
   share: number;
 }
 
 export interface CableFigure {
+  /** Signed: positive from the cable's `from` end to its `to` end, A. In the fault sweep: the largest over all cases (unsigned). */
   current_A: number;
   /** Corrected ampacity from the bank's ampacity table, A (null when the size is not in the table). */
   ampacity_A: number | null;
@@ -29,6 +34,10 @@ export interface FuseFigure {
   current_A: number;
   /** |current| / rating. */
   loading: number;
+  /** Fault mode: the current is a prospective fault current, set against the interrupting rating. */
+  interrupting_A?: number;
+  /** Fault mode: |current| / interrupting rating. */
+  interruptingLoading?: number;
 }
 
 export interface LoadFigure {
@@ -39,9 +48,27 @@ export interface LoadFigure {
   current_A: number;
 }
 
+/** What the canvas marks in a mode: the faulted part or cable, the battery that empties first, the pair exchanging most. */
+export type CanvasMark = 'faulted' | 'worst-fault' | 'first-empty' | 'largest-exchange';
+
+/** The mode's headline figures, for the status bar. */
+export type ModeSummary =
+  | { mode: 'load' }
+  | { mode: 'charge'; totalCharge_A: number; chargers: number }
+  | { mode: 'equalize'; maxCurrent_A: number; between: string[] }
+  | { mode: 'fault'; cases: number; worst_A: number; worstPart: string | null; selected: { kind: 'battery' | 'cable'; part: string; faultCurrent_A: number } | null }
+  | { mode: 'discharge'; firstEmpty: string | null; duration_h: number | null; usable_pct: number | null; stoppedBy: string | null };
+
 export interface CanvasSummary {
-  /** False when the diagram could not be solved (see findings). */
+  /** The analysis mode the figures are for. */
+  mode: AnalysisMode;
+  /** False when the diagram could not be solved in this mode (see findings and `modeIssue`). */
   solved: boolean;
+  /** Why this mode has no figures (e.g. charge mode without an enabled charger). */
+  modeIssue: string | null;
+  modeSummary: ModeSummary;
+  /** Ids the mode marks on the canvas. */
+  marks: Record<string, CanvasMark>;
   batteries: Record<string, BatteryFigure>;
   cables: Record<string, CableFigure>;
   fuses: Record<string, FuseFigure>;
@@ -60,6 +87,11 @@ export interface CanvasSummary {
 export interface EditorResults {
   /** Sequence number of the document revision these results are for. */
   seq: number;
+  /**
+   * 'figures': the canvas figures are for `seq`, the findings, badges and `raw` still for an earlier
+   * revision (the full analysis with every rule check follows); 'full': everything is for `seq`.
+   */
+  stage: 'figures' | 'full';
   /** Analysis mode they were computed in. */
   mode: string;
   canvas: CanvasSummary;

@@ -1,50 +1,140 @@
 /**
- * Live results: every document or analysis-option change (debounced) goes to the compute worker; the
- * newest answer lands in the store. Answers for older sequence numbers are dropped.
+ * Live results. Every electrical change of the document (not a move: positions, rotation, waypoints
+ * and annotations change no figure) and every change of the analysis options goes to two compute
+ * workers:
+ * - the figures lane: at once when its worker is idle, else as soon as it answers (one request in
+ *   flight, the newest state next), so an edit shows new canvas figures within one solve;
+ * - the full lane: after a short pause, the analysis with every rule check, for the findings, the
+ *   badges and the analysis panels.
+ * Answers for older sequence numbers are dropped. Performance marks ("bw-change", "bw-figures",
+ * "bw-full") let the browser benchmark time an edit.
  */
 import { useEffect } from 'react';
+import type { DiagramDocument } from '@shared/diagram';
 import { useEditorStore } from '../store';
 import type { ComputeRequest, ComputeResponse } from '../compute.worker';
+import type { ComputeStage } from './compute';
+import type { EditorResults } from './types';
 
-/** Pause after the last change before computing, ms (short enough to feel live, long enough to batch a drag's moves). */
-export const COMPUTE_DEBOUNCE_MS = 40;
+/** Pause after the last change before the full analysis, ms (batches a burst of typing into one rule check). */
+export const FULL_DEBOUNCE_MS = 150;
+
+/** Whether two documents have the same electrical content (reference checks: immer keeps unchanged objects). */
+export function sameElectrical(a: DiagramDocument, b: DiagramDocument): boolean {
+  if (a === b) return true;
+  if (a.settings !== b.settings || a.parts.length !== b.parts.length || a.cables.length !== b.cables.length) return false;
+  for (let i = 0; i < a.parts.length; i++) {
+    const p = a.parts[i];
+    const q = b.parts[i];
+    if (p !== q && (p.id !== q.id || p.type !== q.type || p.props !== q.props || p.label !== q.label)) return false;
+  }
+  if (a.cables === b.cables) return true;
+  for (let i = 0; i < a.cables.length; i++) {
+    const c = a.cables[i];
+    const d = b.cables[i];
+    if (c !== d && (c.id !== d.id || c.props !== d.props || c.from !== d.from || c.to !== d.to || c.label !== d.label)) return false;
+  }
+  return true;
+}
+
+/**
+ * Figures for the newest revision on top of the last full results (same mode): the findings, badges
+ * and panel result stay those of the last full analysis until the next one lands.
+ */
+export function mergeFigures(prev: EditorResults | null, figures: EditorResults): EditorResults | null {
+  if (!prev || prev.mode !== figures.mode || prev.raw === null) return null;
+  const canvas = { ...figures.canvas, findings: prev.canvas.findings, badges: prev.canvas.badges };
+  if (figures.mode === 'discharge') {
+    // The discharge simulation runs in the full stage only.
+    canvas.modeSummary = prev.canvas.modeSummary;
+    canvas.marks = { ...figures.canvas.marks, ...prev.canvas.marks };
+  }
+  return { ...figures, stage: 'figures', canvas, raw: prev.raw };
+}
+
+const mark = (name: string, detail?: unknown) => {
+  try {
+    performance.mark(name, { detail });
+  } catch {
+    /* marks are a measuring aid only */
+  }
+};
+
+interface Lane {
+  stage: ComputeStage;
+  worker: Worker;
+  busy: boolean;
+  pending: boolean;
+  timer?: ReturnType<typeof setTimeout>;
+}
 
 export function useLiveResults(enabled = true) {
   useEffect(() => {
     if (!enabled || typeof Worker === 'undefined') return;
-    const worker = new Worker(new URL('../compute.worker.ts', import.meta.url), { type: 'module' });
     let seq = 0;
-    let timer: ReturnType<typeof setTimeout> | undefined;
+    const lanes: Lane[] = (['figures', 'full'] as const).map((stage) => ({
+      stage, worker: new Worker(new URL('../compute.worker.ts', import.meta.url), { type: 'module', name: `bankwright-${stage}` }), busy: false, pending: false,
+    }));
 
-    worker.onmessage = (e: MessageEvent<ComputeResponse>) => {
-      const data = e.data;
-      const answerSeq = data.ok ? data.results.seq : data.seq;
-      if (answerSeq !== seq) return; // stale: a newer request is on its way
-      const store = useEditorStore.getState();
-      if (data.ok) store.setResults(data.results, 'ready');
-      else store.setResults(null, 'error');
-    };
-    worker.onerror = () => useEditorStore.getState().setResultsStatus('error');
-
-    const post = () => {
+    const post = (lane: Lane) => {
+      clearTimeout(lane.timer);
       const { doc, analysis } = useEditorStore.getState();
+      lane.busy = true;
+      lane.pending = false;
+      lane.worker.postMessage({ seq, stage: lane.stage, doc, options: analysis } satisfies ComputeRequest);
+    };
+    const request = (lane: Lane) => {
+      if (lane.busy) lane.pending = true;
+      else if (lane.stage === 'figures') post(lane);
+      else {
+        clearTimeout(lane.timer);
+        lane.timer = setTimeout(() => (lane.busy ? (lane.pending = true) : post(lane)), FULL_DEBOUNCE_MS);
+      }
+    };
+
+    for (const lane of lanes) {
+      lane.worker.onmessage = (e: MessageEvent<ComputeResponse>) => {
+        const data = e.data;
+        lane.busy = false;
+        const answerSeq = data.ok ? data.results.seq : data.seq;
+        if (lane.pending) request(lane);
+        if (answerSeq !== seq) return; // stale: a newer request is on its way
+        const store = useEditorStore.getState();
+        if (!data.ok) {
+          if (lane.stage === 'full') store.setResults(null, 'error');
+          return;
+        }
+        if (lane.stage === 'full') {
+          store.setResults(data.results, 'ready');
+          mark('bw-full', { seq, worker_ms: data.results.elapsed_ms });
+          return;
+        }
+        if (store.results?.seq === seq) return; // the full answer came first
+        const merged = mergeFigures(store.results, data.results);
+        if (!merged) return; // first results, or a new mode: wait for the full analysis
+        store.setResults(merged, 'computing');
+        mark('bw-figures', { seq, worker_ms: data.results.elapsed_ms });
+      };
+      lane.worker.onerror = () => useEditorStore.getState().setResultsStatus('error');
+    }
+
+    const changed = () => {
       seq += 1;
-      const req: ComputeRequest = { seq, doc, options: analysis };
-      worker.postMessage(req);
+      mark('bw-change', { seq });
+      const store = useEditorStore.getState();
+      if (store.resultsStatus !== 'computing') store.setResultsStatus('computing');
+      for (const lane of lanes) request(lane);
     };
-    const schedule = () => {
-      clearTimeout(timer);
-      useEditorStore.getState().setResultsStatus('computing');
-      timer = setTimeout(post, COMPUTE_DEBOUNCE_MS);
-    };
-    schedule();
+    changed();
     const unsubscribe = useEditorStore.subscribe((s, prev) => {
-      if (s.doc !== prev.doc || s.analysis !== prev.analysis) schedule();
+      if (s.analysis !== prev.analysis || !sameElectrical(s.doc, prev.doc)) changed();
     });
     return () => {
       unsubscribe();
-      clearTimeout(timer);
-      worker.terminate();
+      for (const lane of lanes) {
+        clearTimeout(lane.timer);
+        lane.worker.terminate();
+      }
     };
   }, [enabled]);
 }
