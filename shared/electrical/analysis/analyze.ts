@@ -13,7 +13,7 @@
  * Findings always come from the load case and the fault sweep (the design checks), whatever the mode.
  */
 import type { DiagramDocument } from '../../diagram/schema';
-import { prepareNetwork, solvePrepared } from '../network/solve';
+import { prepareNetwork, solvePrepared, type PreparedNetwork } from '../network/fast';
 import type { SolveOutcome } from '../network/types';
 import { RULES } from '../rules/rules';
 import { runRules } from '../rules/registry';
@@ -37,10 +37,16 @@ function solveIssue(ctx: AnalysisContext, sol: Extract<SolveOutcome, { ok: false
 
 /** The load case: loads as drawn, chargers off. */
 export function solveLoadCase(ctx: AnalysisContext): { op: OperatingPoint } | { error: AnalysisIssue } {
+  const r = solveLoadCasePrepared(ctx);
+  return 'op' in r ? { op: r.op } : { error: r.error };
+}
+
+/** The load case with its prepared network (reused by the fault sweep when it can be). */
+function solveLoadCasePrepared(ctx: AnalysisContext): { op: OperatingPoint; prep: PreparedNetwork } | { error: AnalysisIssue; prep: PreparedNetwork | null } {
   const prep = prepareNetwork(modeNetwork(ctx, 'load'));
-  const sol = 'ok' in prep ? prep : prep.base;
-  if (!sol.ok) return { error: solveIssue(ctx, sol) };
-  return { op: operatingPoint(ctx, sol) };
+  if ('ok' in prep) return { error: solveIssue(ctx, prep), prep: null };
+  if (!prep.base.ok) return { error: solveIssue(ctx, prep.base), prep };
+  return { op: operatingPoint(ctx, prep.base), prep };
 }
 
 function equalizeFindings(ctx: AnalysisContext, op: OperatingPoint): Finding[] {
@@ -88,7 +94,7 @@ export function analyzeDiagram(doc: DiagramDocument, options: AnalyzeOptions = {
 
   // The load case feeds the rules and the bank's C-rate in every mode.
   const needLoad = wantRules || mode === 'load';
-  const loadCase = needLoad ? solveLoadCase(ctx) : null;
+  const loadCase = needLoad ? solveLoadCasePrepared(ctx) : null;
   const load = loadCase && 'op' in loadCase ? loadCase.op : null;
   if (loadCase && 'error' in loadCase) {
     if (mode === 'load') {
@@ -101,7 +107,7 @@ export function analyzeDiagram(doc: DiagramDocument, options: AnalyzeOptions = {
   let prepared: PreparedFaults | null = null;
   const needFaults = wantRules || mode === 'fault';
   if (needFaults) {
-    prepared = prepareFaults(ctx, fault_ohm);
+    prepared = prepareFaults(ctx, fault_ohm, loadCase?.prep);
     if (!prepared.fn) notes.push({ code: 'no_fault_study', message: 'The bank without its loads and chargers does not form one circuit; fault currents were not computed', parts: [] });
   }
   const faults = prepared?.fn ? faultSweep(ctx, prepared, fault_ohm) : null;

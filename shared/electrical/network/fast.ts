@@ -18,7 +18,7 @@ import { LdlFactor, denseSolve, type SymmetricCsc } from './ldl';
 import {
   MAX_MODE_PASSES,
   MAX_NEWTON_ITERATIONS,
-  buildResult,
+  buildResultAt,
   collapseError,
   constantPowerCollapsed,
   constantPowerCurrent,
@@ -30,7 +30,7 @@ import {
   type ChargerModes,
 } from './model';
 import type { Network, NetworkElement, SolveError, SolveOutcome } from './types';
-import { solveError, terminals, validateNetwork, type NetworkTopology } from './validate';
+import { firstTerminal, secondTerminal, solveError, validateNetwork, type NetworkTopology } from './validate';
 
 type ConstantPower = Extract<NetworkElement, { kind: 'constant_power' }>;
 
@@ -152,23 +152,13 @@ function assemble(m: number, rows: Int32Array, cols: Int32Array, vals: Float64Ar
   return { csc: { n: m, colPtr, rowIdx: r.slice(0, nz) }, ax: v.slice(0, nz) };
 }
 
-/** Terminal node indices of every element, in the order of `terminals`. */
-function elementEnds(net: Network, topo: NetworkTopology): Int32Array {
-  const ends = new Int32Array(2 * net.elements.length);
-  net.elements.forEach((el, e) => {
-    const [t1, t2] = terminals(el);
-    ends[2 * e] = topo.index.get(t1)!;
-    ends[2 * e + 1] = topo.index.get(t2)!;
-  });
-  return ends;
-}
-
 /**
  * Reduced system K y = b, factorized. `reuse` is a factor of an earlier pass with the same eliminated
  * sources: its ordering and symbolic analysis are kept, only the values are refactorized.
  */
 function buildCore(net: Network, topo: NetworkTopology, modes: ChargerModes, ends: Int32Array, reuse: Core | null): Core | SolveError {
-  const key = net.elements.map((el, e) => (isConstraintSource(modes, el) ? e : -1)).filter((e) => e >= 0).join(',');
+  let key = '';
+  for (let e = 0; e < net.elements.length; e++) if (isConstraintSource(modes, net.elements[e])) key += `${e},`;
   const red = reuse && reuse.key === key ? reuse.red : reduce(net, topo, modes);
   const { rep, off, m } = red;
   const cap = m + 4 * net.elements.length;
@@ -415,23 +405,20 @@ function finish(
     out[n1] += through;
     out[n2] -= through;
   }
-  const constraintCurrents = new Map<string, number>();
   for (const { node, el, parent } of red.tree) {
-    const src = net.elements[el] as Extract<NetworkElement, { kind: 'voltage_source' }>;
     // The source takes I from neg and delivers it at pos: outflow -I at pos, +I at neg.
-    const I = idx.get(src.pos) === node ? out[node] : -out[node];
-    out[parent] += idx.get(src.pos) === parent ? -I : I;
-    constraintCurrents.set(src.id, I);
+    const posAtNode = ends[2 * el] === node;
+    const I = posAtNode ? out[node] : -out[node];
+    out[parent] += posAtNode ? I : -I;
+    currents[el] = I;
   }
   if (modes.size) {
     const chargerIndex = new Map<string, number>();
-    net.elements.forEach((el, e) => {
-      if (modes.has(el.id)) chargerIndex.set(el.id, e);
-    });
-    const next = nextModes(net, Vof, (id) => constraintCurrents.get(id) ?? currents[chargerIndex.get(id)!], modes);
+    for (let e = 0; e < els.length; e++) if (modes.has(els[e].id)) chargerIndex.set(els[e].id, e);
+    const next = nextModes(net, Vof, (id) => currents[chargerIndex.get(id)!], modes);
     if (next) return { nextModes: next };
   }
-  return buildResult(net, topo, V, constraintCurrents, modes, iterations);
+  return buildResultAt(net, topo, V, ends, currents, modes, iterations);
 }
 
 /** Analyses and factorizes a network (validating it first) and solves it once. */
@@ -440,7 +427,7 @@ export function prepareNetwork(net: Network): PreparedNetwork | SolveError {
   if (!checked.ok) return checked;
   const topology = checked.topology;
   let modes = initialModes(net);
-  const ends = elementEnds(net, topology);
+  const ends = checked.ends;
   let previous: Core | null = null;
   for (let pass = 0; pass < MAX_MODE_PASSES; pass++) {
     const core = buildCore(net, topology, modes, ends, previous);
@@ -548,9 +535,8 @@ export function solvePrepared(prep: PreparedNetwork, changes: NetworkChange[] = 
     ends = new Int32Array(2 * changed.elements.length);
     ends.set(core.ends);
     for (let e = prep.network.elements.length; e < changed.elements.length; e++) {
-      const [t1, t2] = terminals(changed.elements[e]);
-      ends[2 * e] = topo.index.get(t1)!;
-      ends[2 * e + 1] = topo.index.get(t2)!;
+      ends[2 * e] = topo.index.get(firstTerminal(changed.elements[e]))!;
+      ends[2 * e + 1] = topo.index.get(secondTerminal(changed.elements[e]))!;
     }
   }
   const r = finish(changed, topo, modes, core, y0, zLoads, ends);
@@ -560,4 +546,170 @@ export function solvePrepared(prep: PreparedNetwork, changes: NetworkChange[] = 
 /** Solves many variants of one prepared network (e.g. every battery shorted in turn). */
 export function solveVariants(prep: PreparedNetwork, variants: NetworkChange[][]): SolveOutcome[] {
   return variants.map((changes) => solvePrepared(prep, changes));
+}
+
+/**
+ * Lean linear re-solves on a prepared network's factorization, for sweeps over many one-change
+ * variants (fault studies): only the currents of the watched elements, written into one reused buffer,
+ * no result records, no Newton. The network is taken as linear: constant-power loads are left out,
+ * chargers keep the modes of the prepared solution, and the elements picked by `omit` (current
+ * sources only: they change the right-hand side, not the matrix) are left out as well.
+ */
+export interface LinearSweep {
+  /** Node voltage of the unchanged linear network (0 for a node it does not have). */
+  voltage(node: string): number;
+  /**
+   * Solves each variant (one change each) as a rank-one update and calls `visit` with the watched
+   * elements' currents, in the order of `watch` (signs as in types.ts; a changed element reports its
+   * current after the change). `changeCurrent` is the current through the change itself (a shunt's
+   * current from a to b, or the shorted element's current). `currents` is reused between calls.
+   */
+  run(
+    variants: readonly NetworkChange[],
+    watch: readonly string[],
+    visit: (variant: number, currents: Float64Array, changeCurrent: number) => void,
+  ): SolveError | null;
+}
+
+const KIND_OPEN = 0; // no current (left out, or a load that is not linear)
+const KIND_BATTERY = 1;
+const KIND_RESISTOR = 2;
+const KIND_FIXED = 3; // a fixed current: current source, charger in current limit
+
+/** A lean linear sweep on a prepared network (see LinearSweep), or an error when the network has no
+ * such linear form (an element picked by `omit` that is in the matrix). */
+export function linearSweep(prep: PreparedNetwork, options: { omit?: (el: NetworkElement) => boolean } = {}): LinearSweep | SolveError {
+  const { network: net, topology: topo, core, modes } = prep;
+  const { red, ends } = core;
+  const m = red.m;
+  const els = net.elements;
+  const factor = core.factor;
+  const G = m; // ground slot: y[G] = 0
+  const slot = (node: number) => (red.rep[node] >= 0 ? red.rep[node] : G);
+  const y0 = new Float64Array(m + 1);
+  y0.set(core.y0);
+  // Left-out current sources: y0 -= K⁻¹ (their injection).
+  if (options.omit) {
+    let shift: Float64Array | null = null;
+    for (let e = 0; e < els.length; e++) {
+      const el = els[e];
+      if (!options.omit(el)) continue;
+      if (el.kind === 'constant_power') continue;
+      if (el.kind !== 'current_source') return solveError('invalid_value', `element '${el.id}' (${el.kind}) is in the matrix and cannot be left out of a linear sweep`, { elements: [el.id] });
+      shift ??= new Float64Array(m);
+      const into = red.rep[ends[2 * e + 1]];
+      const outOf = red.rep[ends[2 * e]];
+      if (into >= 0) shift[into] += el.amps;
+      if (outOf >= 0) shift[outOf] -= el.amps;
+    }
+    if (shift && factor) {
+      const dy = factor.solve(shift);
+      for (let j = 0; j < m; j++) y0[j] -= dy[j];
+    }
+  }
+  const omitted = (el: NetworkElement) => el.kind === 'constant_power' || (options.omit !== undefined && options.omit(el));
+  const elementIndex = new Map<string, number>();
+  for (let e = 0; e < els.length; e++) elementIndex.set(els[e].id, e);
+  const volts = (node: number) => (red.rep[node] >= 0 ? y0[red.rep[node]] : 0) + red.off[node];
+  const z = new Float64Array(m + 1);
+  const u = new Float64Array(m);
+  return {
+    voltage(node) {
+      const i = topo.index.get(node);
+      return i === undefined ? 0 : volts(i);
+    },
+    run(variants, watch, visit) {
+      const w = watch.length;
+      const wa = new Int32Array(w);
+      const wb = new Int32Array(w);
+      const wc = new Float64Array(w); // fixed part of the voltage across: off[n1] - off[n2]
+      const wg = new Float64Array(w);
+      const wemf = new Float64Array(w); // battery EMF, or the fixed current
+      const wkind = new Uint8Array(w);
+      const wel = new Int32Array(w);
+      for (let j = 0; j < w; j++) {
+        const e = elementIndex.get(watch[j]);
+        if (e === undefined) return solveError('unknown_element', `watched element '${watch[j]}' is not in the network`, { elements: [watch[j]] });
+        const el = els[e];
+        const n1 = ends[2 * e];
+        const n2 = ends[2 * e + 1];
+        wel[j] = e;
+        wa[j] = slot(n1);
+        wb[j] = slot(n2);
+        wc[j] = red.off[n1] - red.off[n2];
+        if (omitted(el)) wkind[j] = KIND_OPEN;
+        else if (el.kind === 'battery') [wkind[j], wg[j], wemf[j]] = [KIND_BATTERY, 1 / el.r_ohm, el.ocv_V];
+        else if (el.kind === 'resistor' || el.kind === 'load_resistor') [wkind[j], wg[j]] = [KIND_RESISTOR, 1 / el.r_ohm];
+        else if (el.kind === 'current_source') [wkind[j], wemf[j]] = [KIND_FIXED, el.amps];
+        else if (el.kind === 'voltage_source' && modes.get(el.id) === 'cc') [wkind[j], wemf[j]] = [KIND_FIXED, el.i_max_A!];
+        else if (el.kind === 'voltage_source' && el.r_ohm !== undefined) [wkind[j], wg[j], wemf[j]] = [KIND_BATTERY, 1 / el.r_ohm, el.volts];
+        else return solveError('invalid_value', `element '${el.id}' (an ideal source) cannot be watched in a linear sweep`, { elements: [el.id] });
+      }
+      const currents = new Float64Array(w);
+      const y = new Float64Array(m + 1);
+      for (let s = 0; s < variants.length; s++) {
+        const ch = variants[s];
+        if (!(Number.isFinite(ch.r_ohm) && ch.r_ohm > 0)) return solveError('invalid_value', `change ${ch.kind === 'shunt' ? `'${ch.id}'` : `to '${ch.element}'`}: r_ohm must be a finite number > 0`);
+        let na: number, nb: number, dg: number, dJsrc: number;
+        let changed = -1;
+        const gNew = 1 / ch.r_ohm;
+        if (ch.kind === 'shunt') {
+          const ia = topo.index.get(ch.a);
+          const ib = topo.index.get(ch.b);
+          if (ia === undefined || ib === undefined) {
+            const node = ia === undefined ? ch.a : ch.b;
+            return solveError('unknown_node', `shunt '${ch.id}' refers to node '${node}', which is not in the network`, { nodes: [node] });
+          }
+          [na, nb, dg, dJsrc] = [ia, ib, gNew, 0];
+        } else {
+          const e = elementIndex.get(ch.element);
+          if (e === undefined) return solveError('unknown_element', `change refers to element '${ch.element}', which is not in the network`, { elements: [ch.element] });
+          const el = els[e];
+          if (omitted(el)) return solveError('invalid_value', `element '${el.id}' is left out of this sweep and cannot be shorted`, { elements: [el.id] });
+          if (el.kind === 'battery') [dg, dJsrc] = [gNew - 1 / el.r_ohm, -el.ocv_V / el.r_ohm];
+          else if (el.kind === 'resistor' || el.kind === 'load_resistor') [dg, dJsrc] = [gNew - 1 / el.r_ohm, 0];
+          else return solveError('invalid_value', `element '${el.id}' (${el.kind}) cannot be shorted: only batteries and resistors`, { elements: [el.id] });
+          [na, nb, changed] = [ends[2 * e], ends[2 * e + 1], e];
+        }
+        const ra = slot(na);
+        const rb = slot(nb);
+        const dJ = dJsrc - dg * (red.off[na] - red.off[nb]);
+        let alpha = 0;
+        if (ra !== rb && factor) {
+          // Sherman–Morrison: y = y0 + α K⁻¹u with u = e_ra − e_rb.
+          u.fill(0);
+          if (ra < G) u[ra] = 1;
+          if (rb < G) u[rb] = -1;
+          factor.solve(u, z);
+          z[G] = 0;
+          const uz = z[ra] - z[rb];
+          const den = 1 + dg * uz;
+          if (!(Math.abs(den) > 1e-300) || !Number.isFinite(den)) return solveError('singular_network', `the network with change ${s + 1} is singular`);
+          alpha = dJ - (dg * (y0[ra] - y0[rb] + dJ * uz)) / den;
+          for (let i = 0; i <= m; i++) y[i] = y0[i] + alpha * z[i];
+        } else y.set(y0);
+        for (let j = 0; j < w; j++) {
+          const v = y[wa[j]] - y[wb[j]] + wc[j];
+          switch (wkind[j]) {
+            case KIND_BATTERY:
+              currents[j] = (wemf[j] - v) * wg[j];
+              break;
+            case KIND_RESISTOR:
+              currents[j] = v * wg[j];
+              break;
+            case KIND_FIXED:
+              currents[j] = wemf[j];
+              break;
+            default:
+              currents[j] = 0;
+          }
+          if (wel[j] === changed) currents[j] = (els[changed].kind === 'battery' ? -v : v) * gNew;
+        }
+        const vChange = y[ra] - y[rb] + red.off[na] - red.off[nb];
+        const changeCurrent = (changed >= 0 && els[changed].kind === 'battery' ? -vChange : vChange) * gNew;
+        visit(s, currents, changeCurrent);
+      }
+      return null;
+    },
+  };
 }

@@ -15,28 +15,34 @@ export interface SymmetricCsc {
 
 /**
  * Minimum-degree ordering: repeatedly eliminates a node of least degree in the elimination graph
- * (ties: most recently updated first), joining its neighbours into a clique. Adjacency lists are
- * plain arrays cleaned lazily; eliminating a node with a single neighbour (a leaf, e.g. a battery
- * post on a busbar) only decrements that neighbour's degree, so stars cost O(n), not O(n²).
+ * (ties: most recently updated first), joining its neighbours into a clique. Adjacency lists live in
+ * one Int32Array pool (each list a slice with spare room, moved to the end of the pool when it
+ * outgrows it) and are cleaned lazily; eliminating a node with a single neighbour (a leaf, e.g. a
+ * battery post on a busbar) only decrements that neighbour's degree, so stars cost O(n), not O(n²).
  * Returns order[k] = the k-th pivot.
  */
 export function minimumDegreeOrder(a: SymmetricCsc): Int32Array {
   const { n, colPtr, rowIdx } = a;
-  const adj: number[][] = new Array(n);
+  const start = new Int32Array(n);
+  const len = new Int32Array(n);
+  const cap = new Int32Array(n);
   const stamp = new Int32Array(n).fill(-1);
-  const deg = new Int32Array(n);
+  let pool = new Int32Array(Math.max(16, 2 * colPtr[n] + 2 * n));
+  let top = 0;
   for (let j = 0; j < n; j++) {
-    const list: number[] = [];
+    start[j] = top;
     for (let p = colPtr[j]; p < colPtr[j + 1]; p++) {
       const i = rowIdx[p];
       if (i !== j && stamp[i] !== j) {
         stamp[i] = j;
-        list.push(i);
+        pool[top++] = i;
       }
     }
-    adj[j] = list;
-    deg[j] = list.length;
+    len[j] = top - start[j];
+    cap[j] = 2 * len[j] + 2;
+    top = start[j] + cap[j];
   }
+  const deg = len.slice();
   const eliminated = new Uint8Array(n);
   // Degree buckets as doubly linked lists.
   const head = new Int32Array(n + 1).fill(-1);
@@ -58,18 +64,21 @@ export function minimumDegreeOrder(a: SymmetricCsc): Int32Array {
   stamp.fill(-1);
   let mark = -1;
   const order = new Int32Array(n);
+  const nb = new Int32Array(n);
   let minDeg = 0;
-  const nb: number[] = [];
   for (let k = 0; k < n; k++) {
     while (head[minDeg] === -1) minDeg++;
     const p = head[minDeg];
     remove(p);
     order[k] = p;
     eliminated[p] = 1;
-    nb.length = 0;
-    for (const u of adj[p]) if (!eliminated[u]) nb.push(u);
-    adj[p] = [];
-    if (nb.length === 1) {
+    let d = 0;
+    for (let q = start[p], e = start[p] + len[p]; q < e; q++) {
+      const u = pool[q];
+      if (!eliminated[u]) nb[d++] = u;
+    }
+    len[p] = 0;
+    if (d === 1) {
       const u = nb[0];
       remove(u);
       deg[u]--;
@@ -77,30 +86,44 @@ export function minimumDegreeOrder(a: SymmetricCsc): Int32Array {
       if (deg[u] < minDeg) minDeg = deg[u];
       continue;
     }
-    for (const u of nb) {
+    for (let t = 0; t < d; t++) {
+      const u = nb[t];
       // adj[u] := live neighbours of u, plus the other members of nb (deduplicated by a fresh mark).
       const tag = ++mark;
       stamp[u] = tag;
-      const list = adj[u];
-      let len = 0;
-      for (let r = 0; r < list.length; r++) {
-        const w = list[r];
+      let su = start[u];
+      let l = 0;
+      for (let r = su, e = su + len[u]; r < e; r++) {
+        const w = pool[r];
         if (!eliminated[w] && stamp[w] !== tag) {
           stamp[w] = tag;
-          list[len++] = w;
+          pool[su + l++] = w;
         }
       }
-      list.length = len;
-      for (const w of nb) {
+      if (l + d > cap[u]) {
+        const c = Math.max(2 * cap[u], l + d);
+        if (top + c > pool.length) {
+          const bigger = new Int32Array(Math.max(2 * pool.length, top + c));
+          bigger.set(pool.subarray(0, top));
+          pool = bigger;
+        }
+        pool.copyWithin(top, su, su + l);
+        start[u] = su = top;
+        cap[u] = c;
+        top += c;
+      }
+      for (let r = 0; r < d; r++) {
+        const w = nb[r];
         if (stamp[w] !== tag) {
           stamp[w] = tag;
-          list.push(w);
+          pool[su + l++] = w;
         }
       }
+      len[u] = l;
       remove(u);
-      deg[u] = list.length;
+      deg[u] = l;
       insert(u);
-      if (deg[u] < minDeg) minDeg = deg[u];
+      if (l < minDeg) minDeg = l;
     }
   }
   return order;

@@ -3,7 +3,7 @@
  * from node voltages, and the result (currents, losses, source and load power, notes).
  */
 import type { Network, NetworkElement, SolveError, SolveResult } from './types';
-import { conducts, findFloatingNodes, floatingError, solveError, type NetworkTopology } from './validate';
+import { conducts, findFloatingNodes, firstTerminal, floatingError, secondTerminal, solveError, type NetworkTopology } from './validate';
 
 /** A current-limited voltage source (charger) is either holding its voltage or its current limit. */
 export type ChargerMode = 'cv' | 'cc';
@@ -132,58 +132,88 @@ export function buildResult(
 ): SolveResult | SolveError {
   const index = topo.index;
   const V: VoltageOf = (n) => voltages[index.get(n)!];
+  const els = net.elements;
+  const ends = new Int32Array(2 * els.length);
+  const currents = new Float64Array(els.length);
+  for (let e = 0; e < els.length; e++) {
+    const el = els[e];
+    ends[2 * e] = index.get(firstTerminal(el))!;
+    ends[2 * e + 1] = index.get(secondTerminal(el))!;
+    currents[e] = isConstraintSource(modes, el) ? constraintCurrents.get(el.id)! : elementCurrent(el, V, modes);
+  }
+  return buildResultAt(net, topo, voltages, ends, currents, modes, iterations);
+}
+
+/**
+ * The result records from node voltages (by topology index), each element's terminal indices
+ * (ends[2e], ends[2e + 1]) and each element's current (signs as in types.ts). Returns an error instead
+ * of any non-finite number.
+ */
+export function buildResultAt(
+  net: Network,
+  topo: NetworkTopology,
+  voltages: ArrayLike<number>,
+  ends: Int32Array,
+  currents: ArrayLike<number>,
+  modes: ChargerModes,
+  iterations: number,
+): SolveResult | SolveError {
+  const nodes = topo.nodes;
   const node_voltages_V: Record<string, number> = {};
-  for (let i = 0; i < topo.nodes.length; i++) {
+  for (let i = 0; i < nodes.length; i++) {
     const v = voltages[i];
-    if (!Number.isFinite(v)) return singularError(net, topo, modes, `node '${topo.nodes[i]}' has no finite voltage`);
-    node_voltages_V[topo.nodes[i]] = v;
+    if (!Number.isFinite(v)) return singularError(net, topo, modes, `node '${nodes[i]}' has no finite voltage`);
+    node_voltages_V[nodes[i]] = v;
   }
   const element_currents_A: Record<string, number> = {};
   const element_losses_W: Record<string, number> = {};
   const source_power_W: Record<string, number> = {};
   const load_power_W: Record<string, number> = {};
   const notes: SolveResult['notes'] = [];
-  for (const el of net.elements) {
-    const i = isConstraintSource(modes, el) ? constraintCurrents.get(el.id)! : elementCurrent(el, V, modes);
+  const els = net.elements;
+  for (let e = 0; e < els.length; e++) {
+    const el = els[e];
+    const i = currents[e];
     if (!Number.isFinite(i)) return singularError(net, topo, modes, `element '${el.id}' has no finite current`);
-    element_currents_A[el.id] = i;
+    const id = el.id;
+    element_currents_A[id] = i;
     switch (el.kind) {
       case 'battery':
-        element_losses_W[el.id] = i * i * el.r_ohm;
-        source_power_W[el.id] = el.ocv_V * i;
+        element_losses_W[id] = i * i * el.r_ohm;
+        source_power_W[id] = el.ocv_V * i;
         break;
       case 'resistor':
       case 'load_resistor':
-        element_losses_W[el.id] = i * i * el.r_ohm;
+        element_losses_W[id] = i * i * el.r_ohm;
         break;
       case 'current_source':
-        element_losses_W[el.id] = 0;
-        source_power_W[el.id] = el.amps * (V(el.to) - V(el.from));
+        element_losses_W[id] = 0;
+        source_power_W[id] = el.amps * (voltages[ends[2 * e + 1]] - voltages[ends[2 * e]]);
         break;
       case 'constant_power': {
-        const v = V(el.pos) - V(el.neg);
-        element_losses_W[el.id] = 0;
-        load_power_W[el.id] = v * i;
+        const v = voltages[ends[2 * e]] - voltages[ends[2 * e + 1]];
+        element_losses_W[id] = 0;
+        load_power_W[id] = v * i;
         if (el.v_min_V !== undefined && v < el.v_min_V) {
           notes.push({
             code: 'below_v_min',
-            message: `constant-power load '${el.id}' is below v_min_V (${el.v_min_V} V): solved as the resistance it has at v_min_V, drawing ${(v * i).toPrecision(4)} W of ${el.watts} W`,
-            elements: [el.id],
+            message: `constant-power load '${id}' is below v_min_V (${el.v_min_V} V): solved as the resistance it has at v_min_V, drawing ${(v * i).toPrecision(4)} W of ${el.watts} W`,
+            elements: [id],
           });
         }
         break;
       }
       case 'voltage_source': {
         const r = el.r_ohm ?? 0;
-        element_losses_W[el.id] = i * i * r;
+        element_losses_W[id] = i * i * r;
         const cc = modeOf(modes, el) === 'cc';
         // Power of the ideal part: its setpoint in CV; in CC the voltage it actually holds.
-        source_power_W[el.id] = (cc ? V(el.pos) - V(el.neg) + i * r : el.volts) * i;
+        source_power_W[id] = (cc ? voltages[ends[2 * e]] - voltages[ends[2 * e + 1]] + i * r : el.volts) * i;
         if (cc) {
           notes.push({
             code: 'current_limit',
-            message: `voltage source '${el.id}' is in current limit at ${el.i_max_A} A (below its ${el.volts} V setpoint)`,
-            elements: [el.id],
+            message: `voltage source '${id}' is in current limit at ${el.i_max_A} A (below its ${el.volts} V setpoint)`,
+            elements: [id],
           });
         }
         break;

@@ -126,67 +126,144 @@ export function floatingError(floating: string[]): SolveError {
   );
 }
 
+/** First terminal of an element (see `terminals`), without building an array. */
+export function firstTerminal(el: NetworkElement): string {
+  switch (el.kind) {
+    case 'resistor':
+    case 'load_resistor':
+      return el.a;
+    case 'current_source':
+      return el.from;
+    default:
+      return el.pos;
+  }
+}
+
+/** Second terminal of an element (see `terminals`). */
+export function secondTerminal(el: NetworkElement): string {
+  switch (el.kind) {
+    case 'resistor':
+    case 'load_resistor':
+      return el.b;
+    case 'current_source':
+      return el.to;
+    default:
+      return el.neg;
+  }
+}
+
+/** A network that passed validation: its nodes, and each element's terminal node indices. */
+export interface ValidNetwork {
+  ok: true;
+  topology: NetworkTopology;
+  /** Terminal node indices of element e: ends[2e], ends[2e + 1] (order of `terminals`). */
+  ends: Int32Array;
+}
+
 /**
  * Validates ids, values, node references and topology. Returns the node list (ground first, then the
- * declared order, or the order of first use when `nodes` is absent).
+ * declared order, or the order of first use when `nodes` is absent) and the elements' terminal indices.
+ * Checks run in this order, so a network with several faults reports the first kind: duplicate ids,
+ * node references, values, loops of ideal sources, floating nodes.
  */
-export function validateNetwork(net: Network): { ok: true; topology: NetworkTopology } | SolveError {
+export function validateNetwork(net: Network): ValidNetwork | SolveError {
+  const els = net.elements;
   const seen = new Set<string>();
-  for (const el of net.elements) {
-    if (seen.has(el.id)) return solveError('duplicate_id', `element id '${el.id}' is used more than once`, { elements: [el.id] });
-    seen.add(el.id);
+  for (let e = 0; e < els.length; e++) {
+    const id = els[e].id;
+    if (seen.has(id)) return solveError('duplicate_id', `element id '${id}' is used more than once`, { elements: [id] });
+    seen.add(id);
   }
   const nodes: string[] = [net.ground];
   const index = new Map<string, number>([[net.ground, 0]]);
-  const add = (name: string) => {
-    if (!index.has(name)) {
-      index.set(name, nodes.length);
-      nodes.push(name);
-    }
-  };
+  const ends = new Int32Array(2 * els.length);
   if (net.nodes) {
     const declared = new Set<string>();
     for (const n of net.nodes) {
       if (declared.has(n)) return solveError('duplicate_id', `node '${n}' is listed more than once`, { nodes: [n] });
       declared.add(n);
-      add(n);
-    }
-    for (const el of net.elements) {
-      for (const t of terminals(el)) {
-        if (!index.has(t)) return solveError('unknown_node', `element '${el.id}' refers to node '${t}', which is not in nodes`, { nodes: [t], elements: [el.id] });
+      if (!index.has(n)) {
+        index.set(n, nodes.length);
+        nodes.push(n);
       }
     }
+    for (let e = 0; e < els.length; e++) {
+      const el = els[e];
+      const t1 = firstTerminal(el);
+      const i1 = index.get(t1);
+      if (i1 === undefined) return solveError('unknown_node', `element '${el.id}' refers to node '${t1}', which is not in nodes`, { nodes: [t1], elements: [el.id] });
+      const t2 = secondTerminal(el);
+      const i2 = index.get(t2);
+      if (i2 === undefined) return solveError('unknown_node', `element '${el.id}' refers to node '${t2}', which is not in nodes`, { nodes: [t2], elements: [el.id] });
+      ends[2 * e] = i1;
+      ends[2 * e + 1] = i2;
+    }
   } else {
-    for (const el of net.elements) for (const t of terminals(el)) add(t);
+    for (let e = 0; e < els.length; e++) {
+      const el = els[e];
+      const t1 = firstTerminal(el);
+      let i1 = index.get(t1);
+      if (i1 === undefined) {
+        index.set(t1, (i1 = nodes.length));
+        nodes.push(t1);
+      }
+      const t2 = secondTerminal(el);
+      let i2 = index.get(t2);
+      if (i2 === undefined) {
+        index.set(t2, (i2 = nodes.length));
+        nodes.push(t2);
+      }
+      ends[2 * e] = i1;
+      ends[2 * e + 1] = i2;
+    }
   }
-  for (const el of net.elements) {
+  for (const el of els) {
     const err = checkValues(el);
     if (err) return err;
   }
   const topology = { nodes, index };
 
   // Ideal voltage sources must form a forest: a loop of them has no resistance to share its current.
-  const uf = new UnionFind(nodes.length);
-  const forest: { el: string; a: number; b: number }[][] = nodes.map(() => []);
-  for (const el of net.elements) {
+  let uf: UnionFind | null = null;
+  for (let e = 0; e < els.length; e++) {
+    const el = els[e];
     if (!isIdealVoltageSource(el)) continue;
-    const a = index.get(el.pos)!;
-    const b = index.get(el.neg)!;
-    if (!uf.union(a, b)) {
-      const loop = [el.id, ...forestPath(forest, a, b)];
+    uf ??= new UnionFind(nodes.length);
+    if (!uf.union(ends[2 * e], ends[2 * e + 1])) {
+      const loop = [el.id, ...forestPath(idealForest(els, ends, nodes.length, e), ends[2 * e], ends[2 * e + 1])];
       return solveError(
         'zero_resistance_loop',
         `ideal voltage sources ${loop.map((id) => `'${id}'`).join(', ')} form a loop with no resistance (give chargers their r_ohm)`,
         { elements: loop, nodes: [el.pos, el.neg] },
       );
     }
+  }
+
+  // Every node needs a DC path to ground.
+  const conn = new UnionFind(nodes.length);
+  let joined = 0;
+  for (let e = 0; e < els.length; e++) if (conducts(els[e]) && conn.union(ends[2 * e], ends[2 * e + 1])) joined++;
+  if (joined < nodes.length - 1) {
+    const g = conn.find(0);
+    const floating: string[] = [];
+    for (let i = 1; i < nodes.length; i++) if (conn.find(i) !== g) floating.push(nodes[i]);
+    return floatingError(floating);
+  }
+  return { ok: true, topology, ends };
+}
+
+/** The forest of the ideal sources before element `upTo` (for naming a loop). */
+function idealForest(els: NetworkElement[], ends: Int32Array, n: number, upTo: number): { el: string; a: number; b: number }[][] {
+  const forest: { el: string; a: number; b: number }[][] = Array.from({ length: n }, () => []);
+  for (let e = 0; e < upTo; e++) {
+    const el = els[e];
+    if (!isIdealVoltageSource(el)) continue;
+    const a = ends[2 * e];
+    const b = ends[2 * e + 1];
     forest[a].push({ el: el.id, a, b });
     forest[b].push({ el: el.id, a: b, b: a });
   }
-
-  const floating = findFloatingNodes(net, topology);
-  if (floating.length) return floatingError(floating);
-  return { ok: true, topology };
+  return forest;
 }
 
 /** Element ids on the path from a to b in a forest (breadth-first search). */
