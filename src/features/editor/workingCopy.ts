@@ -109,6 +109,7 @@ export function useWorkingCopySync(diagramId: string, enabled: boolean, initialD
     let inFlight = false;
     let dirty = initialDirty;
     let disposed = false;
+    let loading = false;
     const tabId = Math.random().toString(36).slice(2);
     const channel = typeof BroadcastChannel !== 'undefined' ? new BroadcastChannel(`bankwright:diagram:${diagramId}`) : null;
 
@@ -167,7 +168,7 @@ export function useWorkingCopySync(diagramId: string, enabled: boolean, initialD
     };
 
     const unsubscribe = useEditorStore.subscribe((s, prev) => {
-      if (s.doc !== prev.doc && s.diagramId === diagramId && prev.diagramId === diagramId) onDocChange();
+      if (!loading && s.doc !== prev.doc && s.diagramId === diagramId && prev.diagramId === diagramId) onDocChange();
     });
 
     if (channel) {
@@ -202,10 +203,20 @@ export function useWorkingCopySync(diagramId: string, enabled: boolean, initialD
       reloadTheirs: async () => {
         const res = await fetchDiagram(diagramId);
         const parsed = parseStoredDiagram(res.diagram.content);
+        clearTimeout(saveTimer);
+        clearTimeout(localTimer);
+        // Loading their copy is not an edit of mine: no save, no local copy.
+        if (parsed.ok) {
+          loading = true;
+          try {
+            useEditorStore.getState().load(parsed.doc, { diagramId });
+          } finally {
+            loading = false;
+          }
+        }
         dirty = false;
         clearLocalCopy(diagramId);
         useSaveState.getState().set({ status: 'saved', conflict: null, baseVersion: res.diagram.workingCopyVersion, lastSavedAt: res.diagram.updatedAt });
-        if (parsed.ok) useEditorStore.getState().load(parsed.doc, { diagramId });
       },
     };
 
