@@ -27,6 +27,15 @@ export const routes: RouteObject[] = [
         element: <RequireAuth />,
         children: [
           {
+            // The print view of a diagram's briefing sheet: outside the shell, so only the sheet prints.
+            path: 'diagrams/:diagramId/print',
+            errorElement: <RouteError />,
+            lazy: async () => {
+              const { default: Component } = await import('./features/export/PrintRoute');
+              return { Component };
+            },
+          },
+          {
             element: <AppShell />,
             children: [
               {

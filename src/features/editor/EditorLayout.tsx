@@ -10,6 +10,8 @@ import { ChevronRightIcon, CloseIcon, ErrorIcon, FaultIcon, NoteIcon, WarningIco
 import { Menu, menuItemClass } from '@/components/Menu';
 import { Notice } from '@/components/Notice';
 import { formatDateTime } from '@/lib/format';
+import { AnnotationsPanel } from '@/features/annotations/AnnotationsPanel';
+import { BriefingToolbar } from '@/features/export/BriefingToolbar';
 import { AnalysisPanel, FindingsPanel } from './analysis';
 import type { DiagramRecord } from './api';
 import { Canvas } from './canvas/Canvas';
@@ -396,6 +398,7 @@ export function EditorLayout({ diagram, role, restoredFrom, filledDefaults, onDi
               </Menu>
             </>
           ) : null}
+          <BriefingToolbar diagram={diagram} role={role} />
           <Button size="sm" variant="ghost" onClick={() => useEditorStore.getState().requestFit()} title="Zoom to fit (F)">
             Fit
           </Button>
@@ -417,6 +420,7 @@ export function EditorLayout({ diagram, role, restoredFrom, filledDefaults, onDi
         {!readOnly ? <Palette /> : null}
         <div className="relative min-w-0 flex-1">
           <Canvas />
+          <AnnotationsPanel />
           <EmptyCanvas onTemplate={() => setTemplateOpen(true)} />
           <Toasts />
         </div>

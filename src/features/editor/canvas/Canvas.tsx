@@ -11,6 +11,7 @@ import {
 import type { DiagramCable, DiagramDocument, DiagramPart } from '@shared/diagram';
 import { compileDiagram } from '@shared/electrical/compile';
 import { PART_TYPE_IDS, type PartType } from '@shared/electrical/parts';
+import { AnnotationLayer } from '@/features/annotations/AnnotationLayer';
 import { useEditorStore } from '../store';
 import { toast } from '../toasts';
 import { edgeTypes, type CableFlowEdge } from './CableEdge';
@@ -264,6 +265,7 @@ export function Canvas() {
         <Background variant={BackgroundVariant.Dots} gap={GRID * 2} size={1} color="var(--color-graphite-300)" />
         <MiniMap pannable zoomable ariaLabel="Overview of the diagram" nodeStrokeWidth={2} className="bw-minimap" />
         <Controls showInteractive={false} aria-label="Zoom controls" />
+        <AnnotationLayer />
       </ReactFlow>
     </div>
   );

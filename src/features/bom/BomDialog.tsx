@@ -1,0 +1,30 @@
+/** The bill of materials of the diagram on screen, in a dialog. */
+import { useMemo } from 'react';
+import { billOfMaterials } from '@shared/diagram/bom';
+import { PART_TYPES } from '@shared/electrical/parts';
+import { Dialog } from '@/components/Dialog';
+import { useEditorStore } from '@/features/editor/store';
+import { BomCsvButtons, BomTable } from './BomTable';
+import { slug } from '@/features/export/capture';
+
+export function BomDialog({ open, onClose, diagramName }: { open: boolean; onClose: () => void; diagramName: string }) {
+  const doc = useEditorStore((s) => s.doc);
+  const unitSystem = useEditorStore((s) => s.unitSystem);
+  const bom = useMemo(() => (open ? billOfMaterials(doc, { unitSystem }) : null), [open, doc, unitSystem]);
+  const labelOf = useMemo(() => {
+    const m = new Map<string, string>([...doc.parts.map((p) => [p.id, p.label || PART_TYPES[p.type].name] as const), ...doc.cables.map((c) => [c.id, c.label || c.id] as const)]);
+    return (id: string) => m.get(id) ?? id;
+  }, [doc]);
+  return (
+    <Dialog open={open} onClose={onClose} title="Bill of materials" width="max-w-4xl">
+      {bom ? (
+        <div className="space-y-3">
+          <BomCsvButtons bom={bom} baseName={slug(diagramName)} />
+          <div className="max-h-[60vh] overflow-y-auto">
+            <BomTable bom={bom} labelOf={labelOf} />
+          </div>
+        </div>
+      ) : null}
+    </Dialog>
+  );
+}
