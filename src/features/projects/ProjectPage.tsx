@@ -11,6 +11,7 @@ import { isApiError } from '@/lib/api';
 import { rememberTeam } from '@/lib/currentTeam';
 import { formatDateTime, plural } from '@/lib/format';
 import { useSignedInMe } from '../auth/hooks';
+import { ImportDiagramButton } from '../diagram-files/ImportDiagramDialog';
 import { ActivityList } from '../activity/ActivityList';
 import { RevisionStateBadge } from '../revisions/RevisionStateBadge';
 import type { Project } from './api';
@@ -41,10 +42,10 @@ export function ProjectPage() {
     return <ErrorState title="Could not load this project" error={project.error} onRetry={() => project.refetch()} retrying={project.isFetching} />;
   }
   const membership = me.teams.find((t) => t.id === project.data.teamId);
-  return <ProjectView project={project.data} teamName={membership?.name ?? ''} mayEdit={can(membership?.role, 'project.edit')} />;
+  return <ProjectView project={project.data} teamName={membership?.name ?? ''} mayEdit={can(membership?.role, 'project.edit')} mayImport={can(membership?.role, 'diagram.edit')} />;
 }
 
-function ProjectView({ project, teamName, mayEdit }: { project: Project; teamName: string; mayEdit: boolean }) {
+function ProjectView({ project, teamName, mayEdit, mayImport }: { project: Project; teamName: string; mayEdit: boolean; mayImport: boolean }) {
   const diagrams = useDiagrams(project.id);
   const navigate = useNavigate();
   const [editing, setEditing] = useState(false);
@@ -69,14 +70,17 @@ function ProjectView({ project, teamName, mayEdit }: { project: Project; teamNam
           </>
         }
         actions={
-          mayEdit ? (
+          mayEdit || mayImport ? (
             <>
+              {mayImport ? <ImportDiagramButton projectId={project.id} /> : null}
+              {mayEdit ? <>
               <Button onClick={() => setEditing(true)}>
                 <PencilIcon size={14} /> Edit
               </Button>
               <Button variant="danger-outline" onClick={() => setDeleting(true)}>
                 <TrashIcon size={14} /> Delete
               </Button>
+              </> : null}
             </>
           ) : null
         }
