@@ -116,13 +116,3 @@ export function ImportDiagramDialog({ projectId, open, onClose }: { projectId: s
     </Dialog>
   );
 }
-
-export function ImportDiagramButton({ projectId }: { projectId: string }) {
-  const [open, setOpen] = useState(false);
-  return (
-    <>
-      <Button onClick={() => setOpen(true)}>Import file…</Button>
-      <ImportDiagramDialog projectId={projectId} open={open} onClose={() => setOpen(false)} />
-    </>
-  );
-}

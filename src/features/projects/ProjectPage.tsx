@@ -11,7 +11,7 @@ import { isApiError } from '@/lib/api';
 import { rememberTeam } from '@/lib/currentTeam';
 import { formatDateTime, plural } from '@/lib/format';
 import { useSignedInMe } from '../auth/hooks';
-import { ImportDiagramButton } from '../diagram-files/ImportDiagramDialog';
+import { ImportDiagramButton } from '../diagram-files/ImportButton';
 import { ActivityList } from '../activity/ActivityList';
 import { RevisionStateBadge } from '../revisions/RevisionStateBadge';
 import type { Project } from './api';
