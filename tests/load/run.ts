@@ -1,0 +1,193 @@
+/**
+ * npm run test:load -- [--pg] [--connections N] [--seconds S] [--json FILE]
+ *
+ * Load test with autocannon against the real server on 127.0.0.1 (embedded PGlite in a temporary
+ * DATA_DIR, or with --pg a PostgreSQL server: DATABASE_URL as an admin URL if set, else a throwaway one).
+ * N connections (default 50), each its own signed-in session of the demo designer and its own diagram.
+ * Phases, each bounded by --seconds (default 15):
+ *   reads   GET projects, a project's diagrams, a diagram, its revisions, one revision
+ *   saves   POST /api/diagrams/:id/revisions (each save is checked by the server: the analysis runs in
+ *           a worker and its summary is stored with the revision)
+ *   mixed   five reads to one save
+ *   health  GET /api/health from 5 connections while one 5,000-element diagram is saved (checked) in a loop
+ * Reports requests/s, latency p50/p99, non-2xx and errors per phase as JSON. Loopback only.
+ * Goals (issue 7): p99 < 200 ms at 50 users with no errors; health p99 < 50 ms during the big check.
+ */
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { parseArgs } from 'node:util';
+import autocannon from 'autocannon';
+import { busbarBankTemplate, seriesParallelTemplate } from '../../shared/diagram/templates';
+import { compileDiagram } from '../../shared/electrical/compile';
+import { Client, createDatabase, freePort, NO_ROUTE, startPostgres, startServer, stopServer, type Postgres } from '../faults/server-process';
+
+const { values: args } = parseArgs({
+  options: {
+    pg: { type: 'boolean', default: false },
+    connections: { type: 'string', default: '50' },
+    seconds: { type: 'string', default: '15' },
+    json: { type: 'string' },
+  },
+});
+const CONNECTIONS = Number(args.connections);
+const SECONDS = Number(args.seconds);
+const DESIGNER = { email: 'designer@demo.test', password: process.env.DEMO_PASSWORD || 'bankwright-demo' };
+
+const work = fs.mkdtempSync(path.join(os.tmpdir(), 'bw-load-'));
+const logFile = path.join(work, 'server.log');
+const port = await freePort();
+const origin = `http://127.0.0.1:${port}`;
+let pgServer: Postgres | undefined;
+let database: { url: string; drop(): Promise<void> } | undefined;
+if (args.pg) {
+  const admin = process.env.DATABASE_URL || (pgServer = await startPostgres()).adminUrl;
+  database = await createDatabase(admin, 'bw_load');
+}
+const server = await startServer({ port, dataDir: path.join(work, 'data'), databaseUrl: database?.url, logFile });
+const log = (line: string) => process.stderr.write(`[load] ${line}\n`);
+log(`server pid ${server.pid} on ${origin} (${args.pg ? 'PostgreSQL' : 'PGlite'}); ${CONNECTIONS} connections, ${SECONDS} s per phase`);
+
+async function done(summary: Record<string, unknown>, code: number): Promise<never> {
+  await stopServer(server);
+  await database?.drop().catch(() => {});
+  pgServer?.stop();
+  const text = JSON.stringify(summary, null, 2);
+  process.stdout.write(text + '\n');
+  if (args.json) fs.writeFileSync(args.json, text + '\n');
+  process.exit(code);
+}
+
+// Sessions: the right password each time (the limiter counts failures only).
+const sessions: Client[] = [];
+for (let i = 0; i < CONNECTIONS; i++) {
+  const c = new Client(server.base, origin);
+  await c.signIn(DESIGNER.email, DESIGNER.password);
+  sessions.push(c);
+}
+const setup = sessions[0];
+const teamId = (await setup.request('GET', '/api/teams')).body.teams[0].id;
+const projectId = (await setup.request('POST', '/api/projects', { teamId, name: 'Load run' })).body.project.id;
+const smallDoc = busbarBankTemplate({ count: 2, name: 'Load save' });
+const blocked: string[] = [];
+const conn: { cookie: string; diagramId: string; base: number | null }[] = [];
+for (let i = 0; i < CONNECTIONS; i++) {
+  const d = await setup.request('POST', `/api/projects/${projectId}/diagrams`, { name: `Load ${i}`, content: smallDoc });
+  if (NO_ROUTE(d)) await done({ ok: false, blocked: 'diagram create route missing' }, 2);
+  const first = await setup.request('POST', `/api/diagrams/${d.body.diagram.id}/revisions`, { baseRevision: null, message: 'first', content: smallDoc });
+  if (NO_ROUTE(first)) await done({ ok: false, blocked: 'revisions route missing (POST /api/diagrams/:id/revisions)' }, 2);
+  conn.push({ cookie: sessions[i].cookie, diagramId: d.body.diagram.id, base: first.body.revision.number });
+}
+
+type Req = autocannon.Request;
+const readRequests = (c: (typeof conn)[number]): Req[] => [
+  { method: 'GET', path: `/api/projects?teamId=${teamId}` },
+  { method: 'GET', path: `/api/projects/${projectId}/diagrams` },
+  { method: 'GET', path: `/api/diagrams/${c.diagramId}` },
+  { method: 'GET', path: `/api/diagrams/${c.diagramId}/revisions` },
+  { method: 'GET', path: `/api/diagrams/${c.diagramId}/revisions/1` },
+];
+function saveRequest(c: (typeof conn)[number]): Req {
+  return {
+    method: 'POST',
+    path: `/api/diagrams/${c.diagramId}/revisions`,
+    setupRequest: (req) => ({ ...req, body: JSON.stringify({ baseRevision: c.base, message: 'load', content: smallDoc }) }),
+    onResponse: (status, body) => {
+      try {
+        const b = JSON.parse(body);
+        if (status === 201) c.base = b.revision.number;
+        else if (status === 409) c.base = b.error.details.latest?.number ?? null;
+      } catch {
+        // not JSON: counted by autocannon as non-2xx already
+      }
+    },
+  };
+}
+
+function summarize(name: string, r: autocannon.Result) {
+  return {
+    phase: name,
+    connections: r.connections,
+    seconds: r.duration,
+    requests: r.requests.total,
+    requestsPerSecond: Math.round(r.requests.average),
+    latencyMs: { p50: r.latency.p50, p90: r.latency.p90, p99: r.latency.p99, max: r.latency.max },
+    non2xx: r.non2xx,
+    errors: r.errors,
+    timeouts: r.timeouts,
+  };
+}
+
+function phase(name: string, requestsFor: (i: number) => Req[], connections = CONNECTIONS, seconds = SECONDS): Promise<ReturnType<typeof summarize>> {
+  let next = 0;
+  return new Promise((resolve, reject) => {
+    const inst = autocannon(
+      {
+        url: server.base,
+        connections,
+        duration: seconds,
+        timeout: 10,
+        headers: { origin, 'content-type': 'application/json' },
+        requests: [{ method: 'GET', path: '/api/health' }],
+        setupClient: (client: { setHeaders(h: Record<string, string>): void; setRequests(r: Req[]): void }) => {
+          const i = next++ % conn.length;
+          client.setHeaders({ cookie: conn[i].cookie, origin, 'content-type': 'application/json' });
+          client.setRequests(requestsFor(i));
+        },
+      },
+      (err, result) => (err ? reject(err) : resolve(summarize(name, result))),
+    );
+    void inst;
+  });
+}
+
+const results: ReturnType<typeof summarize>[] = [];
+log('phase reads');
+results.push(await phase('reads', (i) => readRequests(conn[i])));
+log('phase saves');
+results.push(await phase('saves', (i) => [saveRequest(conn[i])]));
+log('phase mixed');
+results.push(await phase('mixed', (i) => [...readRequests(conn[i]), saveRequest(conn[i])]));
+
+// Health while a 5,000-element diagram is checked (saved as a revision: the analysis runs in a worker).
+const big = seriesParallelTemplate({ seriesCount: 40, parallelCount: 63, name: 'Big check' });
+const compiled = compileDiagram(big);
+const elements = compiled.ok ? compiled.network.elements.length : 0;
+const bigDiagram = await setup.request('POST', `/api/projects/${projectId}/diagrams`, { name: 'Big check', content: big });
+let bigBase: number | null = null;
+let bigSaves = 0;
+const bigTimes: number[] = [];
+let stopBig = false;
+const bigLoop = (async () => {
+  while (!stopBig) {
+    const r = await setup.request('POST', `/api/diagrams/${bigDiagram.body.diagram.id}/revisions`, { baseRevision: bigBase, message: 'big', content: big }, 120_000);
+    if (r.status === 201) {
+      bigBase = r.body.revision.number;
+      bigSaves++;
+      bigTimes.push(Math.round(r.ms));
+    } else {
+      blocked.push(`big check save answered ${r.status}`);
+      break;
+    }
+  }
+})();
+await new Promise((r) => setTimeout(r, 300));
+log(`phase health during a ${elements}-element check`);
+const health = await phase('health-during-5000-element-check', () => [{ method: 'GET', path: '/api/health' }], 5, SECONDS);
+stopBig = true;
+await bigLoop;
+
+const goal = (r: ReturnType<typeof summarize>, p99: number) => r.latencyMs.p99 < p99 && r.non2xx === 0 && r.errors === 0 && r.timeouts === 0;
+const summary = {
+  database: args.pg ? 'postgresql' : 'pglite',
+  loadAverage: os.loadavg().map((x) => Math.round(x * 10) / 10),
+  phases: results,
+  health: { ...health, checkElements: elements, bigChecksCompleted: bigSaves, bigCheckMs: bigTimes },
+  goals: {
+    p99Under200msNoErrors: Object.fromEntries(results.map((r) => [r.phase, goal(r, 200)])),
+    healthP99Under50msDuringCheck: goal(health, 50) && bigSaves + (stopBig ? 1 : 0) > 0,
+  },
+  blocked,
+  logFile,
+};
+await done(summary, 0);
