@@ -62,6 +62,18 @@ export const cases: BenchCase[] = [
     samples: 51,
   },
   {
+    name: 'checks: discharge, 40-battery busbar bank',
+    setup: () => {
+      const doc = busbarBankTemplate({ count: 40 });
+      const r = analyzeDiagram(doc, { mode: 'discharge', rules: false });
+      if (!r.ok || !r.discharge || r.discharge.steps < 10) throw new Error('bench discharge did not run');
+      return doc;
+    },
+    run: (doc) => analyzeDiagram(doc as ReturnType<typeof busbar40>, { mode: 'discharge', rules: false }),
+    samples: 21,
+    note: 'analyzeDiagram(discharge, no rules): compile, one factorization, then per step one right-hand side solve and a warm-started Newton',
+  },
+  {
     name: 'checks: discharge, 4-battery busbar bank',
     setup: () => busbarBankTemplate({ count: 4 }),
     run: (doc) => analyzeDiagram(doc as ReturnType<typeof busbar40>, { mode: 'discharge', rules: false }),

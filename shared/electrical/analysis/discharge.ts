@@ -9,9 +9,13 @@
  * It stops when the first battery reaches its state-of-charge floor (default lithium 5 %, lead-acid 50 %
  * — common practice) or its cut-off voltage under load (the chemistry's cell cut-off × cells), or a
  * load's voltage falls below its own low-voltage cut-off.
+ *
+ * The network is prepared (ordered and factorized) once: a step changes only the batteries'
+ * open-circuit voltages, i.e. the right-hand side, so each step is one triangular solve pair and a
+ * Newton on the loads warm-started from the previous step (`solvePreparedEmf`).
  */
-import { solveNetwork } from '../network/solve';
-import type { Network, NetworkElement } from '../network/types';
+import { prepareNetwork, solvePreparedEmf } from '../network/fast';
+import type { NetworkElement, SolveOutcome } from '../network/types';
 import { batteryCells, type BatteryProps } from '../parts/battery';
 import { CHEMISTRIES, cellOcv_V, socFromCellOcv } from '../tables/batteries';
 import { type AnalysisContext, modeNetwork } from './context';
@@ -32,8 +36,9 @@ export function dischargeAnalysis(ctx: AnalysisContext, opts: DischargeOptions =
   const maxSocStep = Math.min(0.5, Math.max(1e-4, opts.maxSocStep ?? 0.02));
   const maxSteps = Math.min(5000, Math.max(1, Math.floor(opts.maxSteps ?? 200)));
   const base = modeNetwork(ctx, 'load');
-  const elements: NetworkElement[] = base.elements.slice();
+  const elements: NetworkElement[] = base.elements;
   const position = new Map(elements.map((e, i) => [e.id, i]));
+  const prep = prepareNetwork(base);
   const cells: Cell[] = [];
   for (const u of ctx.units) {
     u.elements.forEach((id, i) => {
@@ -46,10 +51,21 @@ export function dischargeAnalysis(ctx: AnalysisContext, opts: DischargeOptions =
       cells.push({ element: id, unit: u.id, props, cells: n, soc, floor, cutoff_V: CHEMISTRIES[props.chemistry].cellCutoff_V * n, index: position.get(id)! });
     });
   }
+  const cellsOf = new Map<string, Cell[]>();
+  for (const c of cells) {
+    const list = cellsOf.get(c.unit);
+    if (list) list.push(c);
+    else cellsOf.set(c.unit, [c]);
+  }
+  const lowestSoc = (unit: string) => {
+    let lo = Infinity;
+    for (const c of cellsOf.get(unit) ?? []) lo = Math.min(lo, c.soc);
+    return lo;
+  };
   const nameplate_Ah = ctx.bankNominal_V > 0 ? ctx.units.reduce((s, u) => s + u.capacity_Ah * u.nominal_V, 0) / ctx.bankNominal_V : 0;
   const result = (samples: DischargeSample[], stoppedBy: DischargeResult['stoppedBy'], firstEmpty: string | null, steps: number): DischargeResult => {
     const delivered = ctx.units.reduce((s, u) => {
-      const cs = cells.filter((c) => c.unit === u.id);
+      const cs = cellsOf.get(u.id) ?? [];
       const drawn = Math.min(...cs.map((c) => (initialSoc.get(c.element)! - c.soc) * c.props.capacity_Ah));
       return s + drawn * u.nominal_V;
     }, 0);
@@ -72,7 +88,7 @@ export function dischargeAnalysis(ctx: AnalysisContext, opts: DischargeOptions =
     const soc: Record<string, number> = {};
     for (const u of ctx.units) {
       currents_A[u.id] = I[u.elements[0]] ?? 0;
-      soc[u.id] = Math.min(...cells.filter((c) => c.unit === u.id).map((c) => c.soc));
+      soc[u.id] = lowestSoc(u.id);
     }
     const first = ctx.topo.loads[0];
     const n = first ? ctx.map.parts[first.id].nodes : null;
@@ -80,13 +96,13 @@ export function dischargeAnalysis(ctx: AnalysisContext, opts: DischargeOptions =
   };
   const samples: DischargeSample[] = [];
   let t = 0;
+  if ('ok' in prep) return result(samples, 'solve_failed', null, 0);
+  const ocv = new Map<string, number>();
+  let previous: SolveOutcome | undefined;
   for (let step = 0; step <= maxSteps; step++) {
-    for (const c of cells) {
-      const el = elements[c.index] as Extract<NetworkElement, { kind: 'battery' }>;
-      elements[c.index] = { ...el, ocv_V: cellOcv_V(c.props.chemistry, c.soc) * c.cells };
-    }
-    const net: Network = { ground: base.ground, elements };
-    const sol = solveNetwork(net);
+    for (const c of cells) ocv.set(c.element, cellOcv_V(c.props.chemistry, c.soc) * c.cells);
+    const sol = solvePreparedEmf(prep, ocv, previous);
+    previous = sol;
     if (!sol.ok) return result(samples, 'solve_failed', null, step);
     const I = sol.element_currents_A;
     const V = sol.node_voltages_V;

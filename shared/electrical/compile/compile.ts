@@ -82,13 +82,17 @@ function renameNodes(e: NetworkElement, f: (n: string) => string): NetworkElemen
   }
 }
 
-function numbersOf(e: NetworkElement): number[] {
+const fin = Number.isFinite;
+const finOrAbsent = (x: number | undefined) => x === undefined || Number.isFinite(x);
+
+/** True when every number of the element is finite (optional ones may be absent). */
+function numbersFinite(e: NetworkElement): boolean {
   switch (e.kind) {
-    case 'battery': return [e.ocv_V, e.r_ohm];
-    case 'resistor': case 'load_resistor': return [e.r_ohm];
-    case 'current_source': return [e.amps];
-    case 'constant_power': return [e.watts, ...(e.v_min_V !== undefined ? [e.v_min_V] : [])];
-    case 'voltage_source': return [e.volts, ...(e.i_max_A !== undefined ? [e.i_max_A] : []), ...(e.r_ohm !== undefined ? [e.r_ohm] : [])];
+    case 'battery': return fin(e.ocv_V) && fin(e.r_ohm);
+    case 'resistor': case 'load_resistor': return fin(e.r_ohm);
+    case 'current_source': return fin(e.amps);
+    case 'constant_power': return fin(e.watts) && finOrAbsent(e.v_min_V);
+    case 'voltage_source': return fin(e.volts) && finOrAbsent(e.i_max_A) && finOrAbsent(e.r_ohm);
   }
 }
 
@@ -112,7 +116,10 @@ export function compileDiagram(doc: DiagramDocument): CompileResult {
   // --- Connections: floating parts and unconnected terminals -----------------------------------------
   const cablesAt = new Map<string, number>();
   for (const c of doc.cables) {
-    for (const end of [c.from, c.to]) cablesAt.set(terminalNode(end.part, end.terminal), (cablesAt.get(terminalNode(end.part, end.terminal)) ?? 0) + 1);
+    const a = terminalNode(c.from.part, c.from.terminal);
+    const b = terminalNode(c.to.part, c.to.terminal);
+    cablesAt.set(a, (cablesAt.get(a) ?? 0) + 1);
+    cablesAt.set(b, (cablesAt.get(b) ?? 0) + 1);
   }
   const floating = new Set<string>();
   for (const p of electrical) {
@@ -141,8 +148,8 @@ export function compileDiagram(doc: DiagramDocument): CompileResult {
     const single = model.elements.length === 1;
     const nominals = memberNominals(p);
     model.elements.forEach((e, i) => {
-      const id = single ? p.id : `${p.id}/${e.id}`;
-      const el = renameNodes({ ...e, id }, (n) => localToGlobal(p.id, n));
+      const el = renameNodes(e, (n) => localToGlobal(p.id, n));
+      el.id = single ? p.id : `${p.id}/${e.id}`;
       raw.push({ el, owner: { kind: 'part', id: p.id }, ...(e.kind === 'battery' ? { nominal_V: nominals[i] } : {}) });
     });
     if (p.type === 'switch' && !p.props.closed) {
@@ -182,7 +189,7 @@ export function compileDiagram(doc: DiagramDocument): CompileResult {
   }
 
   for (const { el, owner } of raw) {
-    if (numbersOf(el).some((x) => !Number.isFinite(x))) {
+    if (!numbersFinite(el)) {
       errors.push({ code: 'invalid_value', message: `Element ${el.id} has a value that is not a finite number`, parts: [owner.id] });
     }
   }
@@ -196,7 +203,11 @@ export function compileDiagram(doc: DiagramDocument): CompileResult {
     else kept.push(r);
   }
   const node = (n: string) => zero.find(n);
-  const elements = kept.map((r) => ({ ...r, el: renameNodes(r.el, node) }));
+  const elements = kept;
+  for (const r of elements) {
+    const [a, b] = elementNodes(r.el);
+    if (node(a) !== a || node(b) !== b) r.el = renameNodes(r.el, node);
+  }
 
   // --- Ideal voltage sources in a loop of zero resistance ----------------------------------------------------
   const ideal = new UnionFind();

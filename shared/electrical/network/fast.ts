@@ -153,44 +153,20 @@ function assemble(m: number, rows: Int32Array, cols: Int32Array, vals: Float64Ar
 }
 
 /**
- * Reduced system K y = b, factorized. `reuse` is a factor of an earlier pass with the same eliminated
- * sources: its ordering and symbolic analysis are kept, only the values are refactorized.
+ * Right-hand side b of the reduced system K y = b: each Norton branch's source current (less its
+ * conductance times the fixed offsets of the eliminated sources) and the current sources' injections.
  */
-function buildCore(net: Network, topo: NetworkTopology, modes: ChargerModes, ends: Int32Array, reuse: Core | null): Core | SolveError {
-  let key = '';
-  for (let e = 0; e < net.elements.length; e++) if (isConstraintSource(modes, net.elements[e])) key += `${e},`;
-  const red = reuse && reuse.key === key ? reuse.red : reduce(net, topo, modes);
+function rightHandSide(net: Network, modes: ChargerModes, ends: Int32Array, red: Reduction): Float64Array {
   const { rep, off, m } = red;
-  const cap = m + 4 * net.elements.length;
-  const rows = new Int32Array(cap);
-  const cols = new Int32Array(cap);
-  const vals = new Float64Array(cap);
-  let t = 0;
-  for (let j = 0; j < m; j++) {
-    rows[t] = j;
-    cols[t] = j;
-    vals[t++] = 0;
-  }
   const b = new Float64Array(m);
-  const loads: LoadColumn[] = [];
   // Norton branch between nodes na, nb: current na -> nb = g (V[na] - V[nb]) - J.
   const branch = (na: number, nb: number, g: number, J: number) => {
     const ra = rep[na];
     const rb = rep[nb];
     if (ra === rb) return;
     const jeff = J - g * (off[na] - off[nb]);
-    if (ra >= 0) {
-      rows[t] = ra; cols[t] = ra; vals[t++] = g;
-      b[ra] += jeff;
-    }
-    if (rb >= 0) {
-      rows[t] = rb; cols[t] = rb; vals[t++] = g;
-      b[rb] -= jeff;
-    }
-    if (ra >= 0 && rb >= 0) {
-      rows[t] = ra; cols[t] = rb; vals[t++] = -g;
-      rows[t] = rb; cols[t] = ra; vals[t++] = -g;
-    }
+    if (ra >= 0) b[ra] += jeff;
+    if (rb >= 0) b[rb] -= jeff;
   };
   const inject = (into: number, outOf: number, amps: number) => {
     const ri = rep[into];
@@ -214,19 +190,77 @@ function buildCore(net: Network, topo: NetworkTopology, modes: ChargerModes, end
       case 'current_source':
         inject(n2, n1, el.amps);
         break;
+      case 'voltage_source':
+        if (isConstraintSource(modes, el)) break;
+        if (modes.get(el.id) === 'cc') inject(n1, n2, el.i_max_A!);
+        else branch(n1, n2, 1 / el.r_ohm!, el.volts / el.r_ohm!);
+        break;
+    }
+  }
+  return b;
+}
+
+/**
+ * Reduced system K y = b, factorized. `reuse` is a factor of an earlier pass with the same eliminated
+ * sources: its ordering and symbolic analysis are kept, only the values are refactorized.
+ */
+function buildCore(net: Network, topo: NetworkTopology, modes: ChargerModes, ends: Int32Array, reuse: Core | null): Core | SolveError {
+  let key = '';
+  for (let e = 0; e < net.elements.length; e++) if (isConstraintSource(modes, net.elements[e])) key += `${e},`;
+  const red = reuse && reuse.key === key ? reuse.red : reduce(net, topo, modes);
+  const { rep, off, m } = red;
+  const cap = m + 4 * net.elements.length;
+  const rows = new Int32Array(cap);
+  const cols = new Int32Array(cap);
+  const vals = new Float64Array(cap);
+  let t = 0;
+  for (let j = 0; j < m; j++) {
+    rows[t] = j;
+    cols[t] = j;
+    vals[t++] = 0;
+  }
+  const loads: LoadColumn[] = [];
+  // Norton branch between nodes na, nb: conductance g (its source current goes in rightHandSide).
+  const branch = (na: number, nb: number, g: number) => {
+    const ra = rep[na];
+    const rb = rep[nb];
+    if (ra === rb) return;
+    if (ra >= 0) {
+      rows[t] = ra; cols[t] = ra; vals[t++] = g;
+    }
+    if (rb >= 0) {
+      rows[t] = rb; cols[t] = rb; vals[t++] = g;
+    }
+    if (ra >= 0 && rb >= 0) {
+      rows[t] = ra; cols[t] = rb; vals[t++] = -g;
+      rows[t] = rb; cols[t] = ra; vals[t++] = -g;
+    }
+  };
+  const els = net.elements;
+  for (let e = 0; e < els.length; e++) {
+    const el = els[e];
+    const n1 = ends[2 * e];
+    const n2 = ends[2 * e + 1];
+    switch (el.kind) {
+      case 'battery':
+      case 'resistor':
+      case 'load_resistor':
+        branch(n1, n2, 1 / el.r_ohm);
+        break;
       case 'constant_power':
         loads.push({ el, ra: rep[n1], rb: rep[n2], c: off[n1] - off[n2] });
         break;
       case 'voltage_source':
         if (isConstraintSource(modes, el)) break;
+        // In current limit the branch stays in the pattern (value 0) so a mode change keeps the
+        // symbolic analysis.
         if (modes.get(el.id) === 'cc') {
-          inject(n1, n2, el.i_max_A!);
-          // Keep the branch in the pattern (value 0) so a mode change keeps the symbolic analysis.
-          if (el.r_ohm !== undefined) branch(n1, n2, 0, 0);
-        } else branch(n1, n2, 1 / el.r_ohm!, el.volts / el.r_ohm!);
+          if (el.r_ohm !== undefined) branch(n1, n2, 0);
+        } else branch(n1, n2, 1 / el.r_ohm!);
         break;
     }
   }
+  const b = rightHandSide(net, modes, ends, red);
   let factor: LdlFactor | null = null;
   let y0: Float64Array = new Float64Array(0);
   if (m > 0) {
@@ -256,10 +290,17 @@ const across = (x: Float64Array, ra: number, rb: number) => (ra >= 0 ? x[ra] : 0
  * Newton on the loads' voltages: F(v) = v - v_oc + W i(v) = 0, J = I + W diag(di/dv), with a
  * backtracking line search. Returns the load currents, or an error when the loads collapse.
  */
-function solveLoads(loads: LoadColumn[], voc: Float64Array, W: Float64Array): { i: Float64Array; iterations: number } | SolveError {
+function solveLoads(loads: LoadColumn[], voc: Float64Array, W: Float64Array, warm?: Float64Array): { i: Float64Array; v: Float64Array; iterations: number } | SolveError {
   const ids = loads.map((l) => l.el.id);
   const collapsed = loads.filter((l, j) => constantPowerCollapsed(l.el, voc[j]));
   if (collapsed.length) return collapseError(collapsed.map((l) => l.el.id));
+  if (warm && warm.length === loads.length) {
+    // Start from an earlier solution (e.g. the previous step of a discharge run); kept only when every
+    // load lands on its upper operating point (above half its open-circuit voltage), where a cold
+    // start ends too.
+    const hot = newton(loads, voc, W, warm);
+    if (hot && hot.v.every((v, j) => v > voc[j] / 2 && !(loads[j].el.v_min_V !== undefined && v < loads[j].el.v_min_V!))) return hot;
+  }
   const first = newton(loads, voc, W, voc);
   if (first) return first;
   // Past the fold of P = v i there is no upper operating point; a load with v_min_V then settles on
@@ -272,7 +313,7 @@ function solveLoads(loads: LoadColumn[], voc: Float64Array, W: Float64Array): { 
   return collapseError(ids);
 }
 
-function newton(loads: LoadColumn[], voc: Float64Array, W: Float64Array, start: Float64Array): { i: Float64Array; iterations: number } | null {
+function newton(loads: LoadColumn[], voc: Float64Array, W: Float64Array, start: Float64Array): { i: Float64Array; v: Float64Array; iterations: number } | null {
   const k = loads.length;
   const v = Float64Array.from(start);
   const i = new Float64Array(k);
@@ -298,7 +339,7 @@ function newton(loads: LoadColumn[], voc: Float64Array, W: Float64Array, start: 
   for (let it = 1; it <= MAX_NEWTON_ITERATIONS; it++) {
     if (norm <= tol) {
       residual(v, F);
-      return { i, iterations: it };
+      return { i, v, iterations: it };
     }
     for (let r = 0; r < k; r++) for (let c = 0; c < k; c++) J[r * k + c] = (r === c ? 1 : 0) + W[r * k + c] * constantPowerSlope(loads[c].el, v[c]);
     const step = denseSolve(J, F.map((x) => -x), k);
@@ -338,6 +379,7 @@ function finish(
   y0: Float64Array,
   zLoads: (Float64Array | null)[],
   ends: Int32Array = core.ends,
+  warm?: Float64Array,
 ): SolveOutcome | { nextModes: ChargerModes } {
   const { red, loads } = core;
   const k = loads.length;
@@ -353,7 +395,7 @@ function finish(
         W[r * k + c] = z ? across(z, loads[r].ra, loads[r].rb) : 0;
       }
     }
-    const sol = solveLoads(loads, voc, W);
+    const sol = solveLoads(loads, voc, W, warm);
     if (!('i' in sol)) return sol;
     iterations = sol.iterations;
     y = Float64Array.from(y0);
@@ -540,6 +582,41 @@ export function solvePrepared(prep: PreparedNetwork, changes: NetworkChange[] = 
     }
   }
   const r = finish(changed, topo, modes, core, y0, zLoads, ends);
+  return 'nextModes' in r ? solveNetworkFast(changed) : r;
+}
+
+/**
+ * Solves the prepared network with new open-circuit voltages for some batteries (states of charge
+ * stepped in a discharge run). The matrix does not change, so only the right-hand side is rebuilt and
+ * solved (one triangular solve pair); the constant-power loads' Newton starts from the load voltages
+ * of `previous` (an earlier step's result) when given. A charger that would change mode falls back to
+ * a full solve of the changed network.
+ */
+export function solvePreparedEmf(prep: PreparedNetwork, ocv_V: ReadonlyMap<string, number>, previous?: SolveOutcome): SolveOutcome {
+  const { network: net, topology: topo, core, modes } = prep;
+  const elements = net.elements.slice();
+  for (let e = 0; e < elements.length; e++) {
+    const el = elements[e];
+    const v = ocv_V.get(el.id);
+    if (v === undefined) continue;
+    if (el.kind !== 'battery') return solveError('invalid_value', `element '${el.id}' (${el.kind}) has no open-circuit voltage`, { elements: [el.id] });
+    if (!Number.isFinite(v)) return solveError('invalid_value', `element '${el.id}': ocv_V must be a finite number (got ${v})`, { elements: [el.id] });
+    elements[e] = { ...el, ocv_V: v };
+  }
+  const changed: Network = { ...net, elements };
+  if (!core.factor) return solveNetworkFast(changed);
+  const y0 = core.factor.solve(rightHandSide(changed, modes, core.ends, core.red));
+  let warm: Float64Array | undefined;
+  if (previous?.ok && core.loads.length) {
+    warm = new Float64Array(core.loads.length);
+    const V = previous.node_voltages_V;
+    for (let j = 0; j < core.loads.length; j++) {
+      const el = core.loads[j].el;
+      warm[j] = (V[el.pos] ?? NaN) - (V[el.neg] ?? NaN);
+    }
+    if (!warm.every(Number.isFinite)) warm = undefined;
+  }
+  const r = finish(changed, topo, modes, core, y0, core.zLoads, core.ends, warm);
   return 'nextModes' in r ? solveNetworkFast(changed) : r;
 }
 

@@ -8,7 +8,7 @@ import type { Network, SolveOutcome } from './types';
 import { solveNetworkFast } from './fast';
 
 export { solveNetworkReference } from './reference';
-export { linearSweep, prepareNetwork, solvePrepared, solveVariants, solveNetworkFast, type LinearSweep, type PreparedNetwork } from './fast';
+export { linearSweep, prepareNetwork, solvePrepared, solvePreparedEmf, solveVariants, solveNetworkFast, type LinearSweep, type PreparedNetwork } from './fast';
 export {
   applyChanges,
   batteryShortVariants,
