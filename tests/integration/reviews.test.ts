@@ -33,7 +33,9 @@ async function diagramWithRevisions(count: number, by: Agent = designer, name = 
   const id = (await by.post(`/api/projects/${stationId}/diagrams`).send({ name, content: smallBank(name) })).body.diagram.id;
   let base: number | null = null;
   for (let i = 1; i <= count; i++) {
-    const res = await by.post(`/api/diagrams/${id}/revisions`).send({ baseRevision: base, message: `Revision ${i}`, content: smallBank(`${name} ${i}`) });
+    const res: { status: number; body: { revision: { number: number } } } = await by
+      .post(`/api/diagrams/${id}/revisions`)
+      .send({ baseRevision: base, message: `Revision ${i}`, content: smallBank(`${name} ${i}`) });
     expect(res.status).toBe(201);
     base = res.body.revision.number;
   }
