@@ -11,11 +11,7 @@ import { analyzeDiagram, optimizeTakeoff, suggestSizing, type AnalysisMode } fro
 import { AnalysisPanel, FindingsPanel } from '@/features/editor/analysis';
 import { resetCoreResults } from '@/features/editor/analysis/useCore';
 import { useEditorStore } from '@/features/editor/store';
-import type { CanvasSummary } from '@/features/editor/results/types';
-
-const noCanvas: CanvasSummary = {
-  solved: true, batteries: {}, cables: {}, fuses: {}, loads: {}, imbalance_pct: null, wiringLoss_W: 0, internalLoss_W: 0, findings: [], badges: {},
-};
+import { computeCanvas } from '@/features/editor/results/compute';
 
 /** Put a document in the editor with the core's analysis of it in `mode`, as the compute worker would. */
 function openInEditor(doc: DiagramDocument, mode: AnalysisMode = 'load', opts: { readOnly?: boolean } = {}) {
@@ -23,14 +19,15 @@ function openInEditor(doc: DiagramDocument, mode: AnalysisMode = 'load', opts: {
   store.load(doc, { diagramId: 'd1', readOnly: opts.readOnly ?? false, unitSystem: 'us' });
   store.setAnalysis({ mode });
   const raw = analyzeDiagram(doc, { mode });
-  store.setResults({ seq: 1, mode, canvas: noCanvas, raw, elapsed_ms: 0 }, 'ready');
+  store.setResults({ seq: 1, stage: 'full', mode, canvas: computeCanvas(doc, { mode }).canvas, raw, elapsed_ms: 0 }, 'ready');
   return raw;
 }
 
 /** Keep the store's analysis in step with its document after an edit (the compute worker's job in the app). */
 function recompute() {
   const s = useEditorStore.getState();
-  s.setResults({ seq: 2, mode: s.analysis.mode, canvas: noCanvas, raw: analyzeDiagram(s.doc, { mode: s.analysis.mode }), elapsed_ms: 0 }, 'ready');
+  const mode = s.analysis.mode;
+  s.setResults({ seq: 2, stage: 'full', mode, canvas: computeCanvas(s.doc, { mode }).canvas, raw: analyzeDiagram(s.doc, { mode }), elapsed_ms: 0 }, 'ready');
 }
 
 beforeEach(() => {
@@ -119,6 +116,22 @@ describe('sizing assistant', () => {
     await waitFor(() => expect(useEditorStore.getState().past).toHaveLength(steps + 1));
     const after = useEditorStore.getState().doc;
     for (const b of sizing.branches) for (const c of b.cables) expect(after.cables.find((x) => x.id === c.id)!.props.conductor).toEqual(c.conductor);
+  });
+
+  it('"Apply all" adds the missing battery fuses to a post-to-post bank in one step, overloading no cable', async () => {
+    const doc = postToPostTemplate({ count: 4, takeOff: 'same-end' });
+    const before = analyzeDiagram(doc);
+    expect(before.findings.filter((f) => f.id === 'cable-over-ampacity')).toHaveLength(0);
+    openInEditor(doc);
+    const user = userEvent.setup();
+    render(<AnalysisPanel />);
+    await user.click(screen.getByRole('button', { name: 'Sizing assistant' }));
+    const steps = useEditorStore.getState().past.length;
+    await user.click(await screen.findByRole('button', { name: 'Apply all' }));
+    await waitFor(() => expect(useEditorStore.getState().past).toHaveLength(steps + 1));
+    const after = analyzeDiagram(useEditorStore.getState().doc);
+    expect(after.findings.filter((f) => f.id === 'cable-over-ampacity')).toEqual([]);
+    expect(useEditorStore.getState().doc.parts.filter((p) => p.type === 'fuse').length).toBeGreaterThan(doc.parts.filter((p) => p.type === 'fuse').length);
   });
 
   it('offers no apply buttons to a role without diagram.edit', async () => {

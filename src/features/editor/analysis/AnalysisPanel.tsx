@@ -33,11 +33,11 @@ function ModeSwitch() {
   return (
     <fieldset>
       <legend className="mb-1 text-[12px] font-medium text-graphite-700">Analysis</legend>
-      <div className="grid grid-cols-5 overflow-hidden rounded-md border border-graphite-300 text-[12px]">
+      <div className="grid grid-cols-5 overflow-hidden rounded-md border border-graphite-300 text-[11px]">
         {MODES.map((m, i) => (
           <label
             key={m.id}
-            className={`relative cursor-pointer px-1 py-1 text-center font-medium has-[:checked]:bg-graphite-800 has-[:checked]:text-white has-[:focus-visible]:outline-2 has-[:focus-visible]:outline-copper-500 ${i ? 'border-l border-graphite-300' : ''}`}
+            className={`relative cursor-pointer px-0.5 py-1 text-center font-medium has-[:checked]:bg-graphite-800 has-[:checked]:text-white has-[:focus-visible]:outline-2 has-[:focus-visible]:outline-copper-500 ${i ? 'border-l border-graphite-300' : ''}`}
           >
             <input
               type="radio"
@@ -128,7 +128,7 @@ function ModeResults({ result, doc, labelOf }: { result: AnalysisOk; doc: Diagra
               {result.equalize.between.length === 2 ? ` between ${labelOf(result.equalize.between[0])} and ${labelOf(result.equalize.between[1])}` : ''}.
             </p>
           ) : null}
-          <BatteriesTable op={op} labelOf={labelOf} currentLabel={result.mode === 'charge' ? 'Current' : 'Current'} />
+          <BatteriesTable op={op} labelOf={labelOf} />
           <CablesTable op={op} labelOf={labelOf} />
           <FusesTable op={op} doc={doc} labelOf={labelOf} />
           {result.mode === 'load' ? <LoadsAndLosses op={op} doc={doc} labelOf={labelOf} dropLimit_pct={dropLimit} /> : <LoadsAndLosses op={op} doc={{ ...doc, parts: [] }} labelOf={labelOf} dropLimit_pct={dropLimit} />}

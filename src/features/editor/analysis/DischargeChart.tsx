@@ -41,8 +41,12 @@ interface PlotProps {
 
 function Plot({ title, yLabel, units, t, values, yMin, yMax, fmtTick, labelOf, marks = [] }: PlotProps) {
   const all = units.flatMap((u) => values(u));
-  const lo0 = yMin ?? Math.min(0, ...all);
-  const hi0 = yMax ?? Math.max(...all, lo0 + 1e-6);
+  // Without fixed limits, the data's own range with a margin, so that close series stay apart.
+  const dMin = Math.min(...all);
+  const dMax = Math.max(...all);
+  const pad = Math.max((dMax - dMin) * 0.15, Math.abs(dMax) * 0.02, 1e-3);
+  const lo0 = yMin ?? dMin - pad;
+  const hi0 = yMax ?? dMax + pad;
   const yt = niceTicks(lo0, hi0);
   const lo = Math.min(lo0, yt[0]);
   const hi = Math.max(hi0, yt[yt.length - 1]);

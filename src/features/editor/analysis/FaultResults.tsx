@@ -7,7 +7,7 @@ import type { AnalysisOk, FaultCase } from '@shared/electrical';
 import type { DiagramDocument } from '@shared/diagram';
 import { CheckIcon, ErrorIcon } from '@/components/icons';
 import type { LabelOf } from './labels';
-import { Figures, PartLink, fmtA, fmtKA, tableClass } from './ui';
+import { Figures, PartLink, fmtKA, tableClass } from './ui';
 
 export function faultCaseLabel(c: Pick<FaultCase, 'kind' | 'id'>, labelOf: LabelOf): string {
   return c.kind === 'battery' ? `${labelOf(c.id)} internally shorted` : `${labelOf(c.id)} shorted at its load end`;
@@ -57,8 +57,8 @@ export function FaultResults({ result, doc, labelOf }: { result: AnalysisOk; doc
               <th className="text-left">Fuse</th>
               {one ? <th className="text-right">This fault</th> : null}
               <th className="text-right">Max</th>
-              <th className="text-right">Interrupting</th>
-              <th className="text-right">Max vs rating</th>
+              <th className="pl-1 text-right" title="Interrupting rating">Int. rating</th>
+              <th className="text-right" title="Largest prospective current against the interrupting rating">Check</th>
             </tr>
           </thead>
           <tbody>
@@ -109,7 +109,9 @@ export function FaultResults({ result, doc, labelOf }: { result: AnalysisOk; doc
               </td>
               {one ? <td className="text-right">{fmtKA(Math.abs(one.op.cables[id]?.current_A ?? 0))}</td> : null}
               <td className="text-right">{fmtKA(m.current_A)}</td>
-              <td className="truncate pl-2 text-graphite-600">{faultCaseLabel(sweep.cases[m.case], labelOf)}</td>
+              <td className="truncate pl-2 text-graphite-600" title={faultCaseLabel(sweep.cases[m.case], labelOf)}>
+                {faultCaseLabel(sweep.cases[m.case], labelOf)}
+              </td>
             </tr>
           ))}
         </tbody>

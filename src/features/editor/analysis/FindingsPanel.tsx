@@ -6,7 +6,7 @@ import { useMemo, useState } from 'react';
 import type { Finding, Severity } from '@shared/electrical';
 import { SafetyCaution } from '@/components/SafetyCaution';
 import { useEditorStore } from '../store';
-import { useLabels } from './labels';
+import { useLabels, useRuleTitles } from './labels';
 import { SEVERITIES, SEVERITY } from './severity';
 import { useAnalysisResult } from './useCore';
 
@@ -17,6 +17,7 @@ interface Shown extends Finding {
 export function FindingsPanel() {
   const { result, updating, error } = useAnalysisResult();
   const labelOf = useLabels();
+  const titles = useRuleTitles();
   const focusParts = useEditorStore((s) => s.focusParts);
   const nParts = useEditorStore((s) => s.doc.parts.length);
   const [active, setActive] = useState<string | null>(null);
@@ -81,7 +82,9 @@ export function FindingsPanel() {
                     <span className={`flex items-center gap-1 font-semibold ${S.text}`}>
                       <S.Icon size={13} className="shrink-0" />
                       <span className="sr-only">{S.word}: </span>
-                      <span className="truncate">{f.id}</span>
+                      <span className="min-w-0" title={`Rule ${f.id}`}>
+                        {titles?.get(f.id) ?? f.id}
+                      </span>
                     </span>
                     <span className="mt-0.5 block text-graphite-900">{f.message}</span>
                     {f.suggestion ? <span className="mt-1 block text-graphite-700">→ {f.suggestion}</span> : null}

@@ -27,23 +27,23 @@ export function BankTable({ bank, labelOf }: { bank: BankFigures; labelOf: Label
   return <Figures rows={rows} />;
 }
 
-export function BatteriesTable({ op, labelOf, currentLabel = 'Current' }: { op: OperatingPoint; labelOf: LabelOf; currentLabel?: string }) {
+export function BatteriesTable({ op, labelOf }: { op: OperatingPoint; labelOf: LabelOf }) {
   const entries = Object.entries(op.sources);
   if (!entries.length) return null;
   const scale = Math.max(1e-9, ...entries.map(([, s]) => Math.max(Math.abs(s.share_pct), s.idealShare_pct))) * 1.1;
   return (
     <table className={tableClass} aria-label="Batteries">
       <colgroup>
-        <col className="w-[28%]" />
+        <col className="w-[24%]" />
+        <col className="w-[16%]" />
+        <col className="w-[29%]" />
+        <col className="w-[14%]" />
         <col className="w-[17%]" />
-        <col className="w-[27%]" />
-        <col className="w-[13%]" />
-        <col className="w-[15%]" />
       </colgroup>
       <thead>
         <tr>
           <th className="text-left">Battery</th>
-          <th className="text-right">{currentLabel}</th>
+          <th className="text-right">Current</th>
           <th className="text-left pl-1.5">Share</th>
           <th className="text-right">Ideal</th>
           <th className="text-right">Dev.</th>
@@ -58,10 +58,10 @@ export function BatteriesTable({ op, labelOf, currentLabel = 'Current' }: { op: 
             <td className="text-right">{fmtA(s.current_A)}</td>
             <td className="pl-1.5">
               <span className="flex items-center gap-1">
-                <span className="flex-1">
+                <span className="min-w-0 flex-1">
                   <Bar fraction={Math.abs(s.share_pct) / scale} marker={s.idealShare_pct / scale} />
                 </span>
-                <span className="w-9 text-right">{fmtPct(s.share_pct)}</span>
+                <span className="w-10 shrink-0 text-right">{fmtPct(s.share_pct)}</span>
               </span>
             </td>
             <td className="text-right text-graphite-600">{fmtPct(s.idealShare_pct)}</td>

@@ -30,7 +30,9 @@ async function applyBranches(branches: BranchSizing[], label: string) {
   return applyDocument(label, applySizing(doc, branches));
 }
 
-function Branch({ b, unitSystem, canApply, disabled, busy, onApply }: { b: BranchSizing; unitSystem: UnitSystem; canApply: boolean; disabled: boolean; busy: boolean; onApply: () => void }) {
+function Branch({ b, unitSystem, canApply, disabled, busy, onApply }: {
+  b: BranchSizing; unitSystem: UnitSystem; canApply: boolean; disabled: boolean; busy: boolean; onApply: () => void;
+}) {
   const labelOf = useLabels();
   const doc = useEditorStore((s) => s.doc);
   const changes = sizingChanges(b, doc);
@@ -66,11 +68,17 @@ function Branch({ b, unitSystem, canApply, disabled, busy, onApply }: { b: Branc
         </dd>
         <dt className="text-graphite-600">Conductor</dt>
         <dd>
-          <strong>{b.cables[0] ? conductorText(b.cables[0].conductor, unitSystem) : '—'}</strong>
-          {presentSizes.length && !presentSizes.every((p) => sameJson(p, b.cables[0]?.conductor)) ? (
-            <span className="text-graphite-600"> (now {presentSizes.map((p) => conductorText(p, unitSystem)).join(', ')})</span>
-          ) : null}
-          <span className="block text-[11px] text-graphite-500">{b.cables.map((c) => labelOf(c.id)).join(', ')}</span>
+          {b.cables[0] ? (
+            <>
+              <strong>{conductorText(b.cables[0].conductor, unitSystem)}</strong>
+              {presentSizes.length && !presentSizes.every((p) => sameJson(p, b.cables[0]?.conductor)) ? (
+                <span className="text-graphite-600"> (now {presentSizes.map((p) => conductorText(p, unitSystem)).join(', ')})</span>
+              ) : null}
+              <span className="block text-[11px] text-graphite-500">{b.cables.map((c) => labelOf(c.id)).join(', ')}</span>
+            </>
+          ) : (
+            <span className="text-graphite-600">no cable of its own (its posts join other cables directly)</span>
+          )}
         </dd>
         <dt className="text-graphite-600">Figures</dt>
         <dd className="tabular-nums">

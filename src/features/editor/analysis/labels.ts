@@ -1,6 +1,6 @@
 /** Names of parts and cables as the designer wrote them, for the panels. */
 import type { DiagramDocument } from '@shared/diagram';
-import { useMemo } from 'react';
+import { useEffect, useMemo, useState } from 'react';
 import { useEditorStore } from '../store';
 
 export type LabelOf = (id: string) => string;
@@ -23,4 +23,25 @@ export function labelsOf(doc: DiagramDocument): LabelOf {
 export function useLabels(): LabelOf {
   const doc = useEditorStore((s) => s.doc);
   return useMemo(() => labelsOf(doc), [doc]);
+}
+
+let ruleTitles: Map<string, string> | null = null;
+
+/** Rule titles by rule id, loaded with the rule registry on first use (ids are shown until then). */
+export function useRuleTitles(): Map<string, string> | null {
+  const [titles, setTitles] = useState(ruleTitles);
+  useEffect(() => {
+    if (titles) return;
+    let live = true;
+    import('@shared/electrical/rules/rules')
+      .then(({ RULES }) => {
+        ruleTitles = new Map(RULES.map((r) => [r.id, r.title]));
+        if (live) setTitles(ruleTitles);
+      })
+      .catch(() => {});
+    return () => {
+      live = false;
+    };
+  }, [titles]);
+  return titles;
 }

@@ -87,7 +87,8 @@ export function Figures({ rows }: { rows: [string, ReactNode][] }) {
     <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-0.5 text-[12px]">
       {rows.map(([k, v]) => (
         <div key={k} className="contents">
-          <dt className="text-graphite-600">{k}</dt>
+          {/* A key starting with spaces is a sub-item of the row above. */}
+          <dt className={k.startsWith(' ') ? 'pl-3 text-graphite-500' : 'text-graphite-600'}>{k.trim()}</dt>
           <dd className="text-right font-medium tabular-nums text-graphite-900">{v}</dd>
         </div>
       ))}

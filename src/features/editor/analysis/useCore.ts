@@ -173,15 +173,16 @@ export interface AnalysisView {
 export function useAnalysisResult(): AnalysisView {
   const raw = useEditorStore((s) => s.results?.raw);
   const resultsStatus = useEditorStore((s) => s.resultsStatus);
-  const hasResults = useEditorStore((s) => s.results !== null);
+  // 'figures': fast canvas figures for the newest revision, the analysis still the last full one.
+  const stage = useEditorStore((s) => (s.results ? s.results.stage ?? 'full' : null));
   const fromEditor = isAnalysisResult(raw) ? raw : null;
-  // Compute here only when the editor's results came and lack the analysis (or failed).
-  const needOwn = !fromEditor && (hasResults || resultsStatus === 'error');
+  // Compute here only when the editor's full results came without the analysis, or failed.
+  const needOwn = !fromEditor && (stage === 'full' || resultsStatus === 'error');
   useCoreJob('analyze', needOwn);
   const own = useCoreResults((s) => s.analyze) as Slot<AnalysisResult>;
-  if (fromEditor) return { result: fromEditor, updating: resultsStatus === 'computing' };
+  if (fromEditor) return { result: fromEditor, updating: resultsStatus === 'computing' || stage === 'figures' };
   if (needOwn) return { result: own.output, updating: own.status === 'computing', error: own.status === 'error' ? own.message : undefined };
-  return { result: null, updating: resultsStatus === 'computing' || resultsStatus === 'idle' };
+  return { result: null, updating: true };
 }
 
 /** Per-branch sizing suggestions of the editor's document. */
