@@ -6,12 +6,12 @@
  */
 import './sheet.css';
 import { forwardRef } from 'react';
-import type { Step } from '@shared/diagram/annotations';
+import type { AnnotationKind, Step } from '@shared/diagram/annotations';
 import { PART_TYPES, type PartType } from '@shared/electrical/parts';
 import { formatDateTime } from '@/lib/format';
 import { PaletteGlyph } from '@/features/editor/canvas/symbols';
 import { BRIEFING_CAUTION, BRIEFING_CAUTION_TITLE } from './caution';
-import { MIN_BODY_HEIGHT, SHEET_MARGIN, sheetSize } from './layout';
+import { SHEET_MARGIN, sheetSize } from './layout';
 import { reviewStateText, revisionText, type SheetMeta } from './meta';
 
 export interface SheetImage {
@@ -27,7 +27,8 @@ export interface BriefingSheetProps {
   partTypes: PartType[];
   /** Installation steps to list (empty when annotations are left out). */
   steps: Step[];
-  showAnnotationLegend: boolean;
+  /** Annotation kinds drawn on the sheet (their legend entries). */
+  annotationKinds: AnnotationKind[];
   analysisLabel: string;
   unitLabel: string;
 }
@@ -50,7 +51,7 @@ function Terminal({ kind }: { kind: 'pos' | 'neg' }) {
   );
 }
 
-function Legend({ partTypes, annotations }: { partTypes: PartType[]; annotations: boolean }) {
+function Legend({ partTypes, kinds }: { partTypes: PartType[]; kinds: AnnotationKind[] }) {
   return (
     <ul className="bw-sheet-legend">
       {partTypes.map((t) => (
@@ -74,40 +75,44 @@ function Legend({ partTypes, annotations }: { partTypes: PartType[]; annotations
         <span className="bw-legend-mark" style={{ fontSize: 9, fontWeight: 600 }}>2/0</span>
         Cable label: size · length; current · % of ampacity
       </li>
-      {annotations ? (
-        <>
-          <li>
+      {kinds.includes('step') ? (
+        <li>
             <span className="bw-legend-mark">
               <svg width="18" height="18" aria-hidden="true"><circle cx="9" cy="9" r="8" fill="#1f4b82" /><text x="9" y="12.5" textAnchor="middle" fontSize="10" fontWeight="700" fill="#fff">1</text></svg>
             </span>
             Installation step
           </li>
-          <li>
+      ) : null}
+      {kinds.includes('highlight') ? (
+        <li>
             <span className="bw-legend-mark">
               <svg width="28" height="14" aria-hidden="true"><rect x="1" y="1" width="26" height="12" rx="3" fill="rgb(42 98 168 / 0.05)" stroke="#2a62a8" strokeWidth="1.5" strokeDasharray="4 2" /></svg>
             </span>
             Highlighted group
           </li>
-          <li>
+      ) : null}
+      {kinds.includes('callout') ? (
+        <li>
             <span className="bw-legend-mark">
               <svg width="28" height="14" aria-hidden="true"><rect x="8" y="1" width="19" height="10" rx="2" fill="#fff" stroke="#2a62a8" strokeWidth="1.2" /><line x1="1" y1="13" x2="9" y2="8" stroke="#2a62a8" strokeWidth="1.2" /></svg>
             </span>
             Callout on a part
           </li>
-          <li>
+      ) : null}
+      {kinds.includes('note') ? (
+        <li>
             <span className="bw-legend-mark">
               <svg width="28" height="14" aria-hidden="true"><rect x="1" y="1" width="26" height="12" rx="2" fill="#eef4fb" stroke="#bcd4ef" /><rect x="1" y="1" width="3" height="12" fill="#2a62a8" /></svg>
             </span>
             Note
           </li>
-        </>
       ) : null}
     </ul>
   );
 }
 
 export const BriefingSheet = forwardRef<HTMLDivElement, BriefingSheetProps>(function BriefingSheet(
-  { meta, image, partTypes, steps, showAnnotationLegend, analysisLabel, unitLabel },
+  { meta, image, partTypes, steps, annotationKinds, analysisLabel, unitLabel },
   ref,
 ) {
   const size = sheetSize(image);
@@ -121,7 +126,7 @@ export const BriefingSheet = forwardRef<HTMLDivElement, BriefingSheetProps>(func
       role="document"
       aria-label={`Crew briefing sheet: ${meta.diagramName}`}
     >
-      <div className="bw-sheet-diagram" style={{ width: image.width, height: image.height, minHeight: Math.min(image.height, MIN_BODY_HEIGHT) }}>
+      <div className="bw-sheet-diagram" style={{ width: image.width, height: image.height }}>
         <img src={image.src} width={image.width} height={image.height} alt={`Diagram of ${meta.diagramName}`} />
         {meta.notReviewed ? (
           <>
@@ -160,7 +165,7 @@ export const BriefingSheet = forwardRef<HTMLDivElement, BriefingSheetProps>(func
         </section>
         <section className="bw-sheet-box" aria-label="Legend">
           <h3>Legend</h3>
-          <Legend partTypes={partTypes} annotations={showAnnotationLegend} />
+          <Legend partTypes={partTypes} kinds={annotationKinds} />
         </section>
         {steps.length ? (
           <section className="bw-sheet-box" aria-label="Installation steps">

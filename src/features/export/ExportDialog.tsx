@@ -19,7 +19,7 @@ import { BriefingSheet, type BriefingSheetProps } from './BriefingSheet';
 import { captureDiagram, captureSheet, dataUrlToBlob, diagramImageSize, downloadBlob, drawingBounds, nextPaint, slug, type ImageFormat } from './capture';
 import { MAX_CANVAS_SIDE, PIXEL_RATIOS, sheetSize, type PixelRatio } from './layout';
 import { revisionText, useSheetMeta } from './meta';
-import { analysisLabel, partTypesIn, stepsOf, unitLabel } from './sheetProps';
+import { analysisLabel, annotationKindsIn, partTypesIn, stepsOf, unitLabel } from './sheetProps';
 
 type Choice = `png${PixelRatio}` | 'svg';
 const CHOICES: { id: Choice; label: string; format: ImageFormat; ratio: PixelRatio }[] = [
@@ -85,7 +85,7 @@ export function ExportDialog({ open, onClose, diagram }: { open: boolean; onClos
       if (selection.length) useEditorStore.getState().select(selection);
       flushSync(() =>
         setStaged({
-          meta, image, partTypes: partTypesIn(doc), steps: withAnnotations ? stepsOf(doc) : [], showAnnotationLegend: withAnnotations,
+          meta, image, partTypes: partTypesIn(doc), steps: withAnnotations ? stepsOf(doc) : [], annotationKinds: withAnnotations ? annotationKindsIn(doc) : [],
           analysisLabel: analysisLabel(mode), unitLabel: unitLabel(unitSystem),
         }),
       );

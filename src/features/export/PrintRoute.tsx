@@ -31,7 +31,7 @@ import { BriefingSheet } from './BriefingSheet';
 import { captureDiagram, nextPaint, type DiagramImage } from './capture';
 import { sheetSize } from './layout';
 import { useSheetMeta } from './meta';
-import { analysisLabel, partTypesIn, stepsOf, unitLabel } from './sheetProps';
+import { analysisLabel, annotationKindsIn, partTypesIn, stepsOf, unitLabel } from './sheetProps';
 
 /** Printable width of an A4 / Letter landscape page at 96 px per inch, less 10 mm margins (about 1040 px). */
 const PRINT_WIDTH_PX = 1040;
@@ -102,7 +102,7 @@ function PrintSheet({ diagram, withAnnotations }: { diagram: DiagramRecord; with
           <div className="bw-print-fit" style={{ zoom: fit }}>
             <BriefingSheet
               meta={meta} image={{ ...image }} partTypes={partTypesIn(doc)} steps={withAnnotations ? stepsOf(doc) : []}
-              showAnnotationLegend={withAnnotations} analysisLabel={analysisLabel(mode)} unitLabel={unitLabel(unitSystem)}
+              annotationKinds={withAnnotations ? annotationKindsIn(doc) : []} analysisLabel={analysisLabel(mode)} unitLabel={unitLabel(unitSystem)}
             />
           </div>
           <section className="bw-print-page" aria-labelledby="print-bom">

@@ -76,6 +76,20 @@ export async function captureDiagram(
   viewportEl: HTMLElement,
   opts: { format: ImageFormat; pixelRatio: number; includeAnnotations: boolean },
 ): Promise<DiagramImage> {
+  // Labels show their full detail at zoom 1 (they shorten when zoomed out): draw at zoom 1 while capturing.
+  const before = rf.getViewport();
+  if (before.zoom !== 1) {
+    await rf.setViewport({ x: before.x, y: before.y, zoom: 1 });
+    await nextPaint();
+  }
+  try {
+    return await captureAtZoom1(rf, viewportEl, opts);
+  } finally {
+    if (before.zoom !== 1) await rf.setViewport(before);
+  }
+}
+
+async function captureAtZoom1(rf: ReactFlowInstance, viewportEl: HTMLElement, opts: { format: ImageFormat; pixelRatio: number; includeAnnotations: boolean }): Promise<DiagramImage> {
   const bounds = drawingBounds(rf, viewportEl, opts.includeAnnotations) ?? { x: 0, y: 0, width: 200, height: 120 };
   const { width, height } = diagramImageSize(bounds);
   const vp = getViewportForBounds(bounds, width, height, 1, 1, 0);
@@ -88,8 +102,17 @@ export async function captureDiagram(
     filter: keep(opts.includeAnnotations),
     style: { width: `${width}px`, height: `${height}px`, transform: `translate(${vp.x}px, ${vp.y}px) scale(${vp.zoom})` },
   };
-  const src = opts.format === 'png' ? await toPng(viewportEl, options) : await toSvg(viewportEl, options);
+  const src = opts.format === 'png' ? await toPng(viewportEl, options) : svgAsBase64(await toSvg(viewportEl, options));
   return { src, width, height };
+}
+
+/** html-to-image's percent-encoded SVG data URL as base64 (a third smaller once nested in the sheet). */
+function svgAsBase64(url: string): string {
+  const text = decodeURIComponent(url.slice(url.indexOf(',') + 1));
+  const bytes = new TextEncoder().encode(text);
+  let bin = '';
+  for (let i = 0; i < bytes.length; i += 0x8000) bin += String.fromCharCode(...bytes.subarray(i, i + 0x8000));
+  return `data:image/svg+xml;base64,${btoa(bin)}`;
 }
 
 /** The composed sheet element as the final image. */

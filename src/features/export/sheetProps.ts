@@ -1,5 +1,5 @@
 /** What a briefing sheet shows, from the editor's document and options. */
-import { drawableAnnotations, stepsInOrder } from '@shared/diagram/annotations';
+import { ANNOTATION_KINDS, drawableAnnotations, stepsInOrder, type AnnotationKind } from '@shared/diagram/annotations';
 import type { DiagramDocument } from '@shared/diagram';
 import { PART_TYPE_IDS, type PartType } from '@shared/electrical/parts';
 import type { AnalysisMode } from '@shared/electrical/analysis';
@@ -26,3 +26,9 @@ export function partTypesIn(doc: DiagramDocument): PartType[] {
 }
 
 export const stepsOf = (doc: DiagramDocument) => stepsInOrder(drawableAnnotations(doc.annotations));
+
+/** Annotation kinds the document draws (for the legend). */
+export function annotationKindsIn(doc: DiagramDocument): AnnotationKind[] {
+  const present = new Set(drawableAnnotations(doc.annotations).map((a) => a.kind));
+  return ANNOTATION_KINDS.filter((k) => present.has(k));
+}
