@@ -684,12 +684,16 @@ export function linearSweep(prep: PreparedNetwork, options: { omit?: (el: Networ
       for (let j = 0; j < m; j++) y0[j] -= dy[j];
     }
   }
+  // The sweep works in the factor's pivot order: slot k of a vector is unknown perm[k]; G stays last.
+  const pinv = factor ? factor.pinv : new Int32Array(0);
+  const pslot = (node: number) => (red.rep[node] >= 0 ? pinv[red.rep[node]] : G);
+  const y0p = new Float64Array(m + 1);
+  for (let j = 0; j < m; j++) y0p[pinv[j]] = y0[j];
   const omitted = (el: NetworkElement) => el.kind === 'constant_power' || (options.omit !== undefined && options.omit(el));
   const elementIndex = new Map<string, number>();
   for (let e = 0; e < els.length; e++) elementIndex.set(els[e].id, e);
-  const volts = (node: number) => (red.rep[node] >= 0 ? y0[red.rep[node]] : 0) + red.off[node];
+  const volts = (node: number) => y0[slot(node)] + red.off[node];
   const z = new Float64Array(m + 1);
-  const u = new Float64Array(m);
   return {
     voltage(node) {
       const i = topo.index.get(node);
@@ -711,23 +715,40 @@ export function linearSweep(prep: PreparedNetwork, options: { omit?: (el: Networ
         const n1 = ends[2 * e];
         const n2 = ends[2 * e + 1];
         wel[j] = e;
-        wa[j] = slot(n1);
-        wb[j] = slot(n2);
+        wa[j] = pslot(n1);
+        wb[j] = pslot(n2);
         wc[j] = red.off[n1] - red.off[n2];
         if (omitted(el)) wkind[j] = KIND_OPEN;
-        else if (el.kind === 'battery') [wkind[j], wg[j], wemf[j]] = [KIND_BATTERY, 1 / el.r_ohm, el.ocv_V];
-        else if (el.kind === 'resistor' || el.kind === 'load_resistor') [wkind[j], wg[j]] = [KIND_RESISTOR, 1 / el.r_ohm];
-        else if (el.kind === 'current_source') [wkind[j], wemf[j]] = [KIND_FIXED, el.amps];
-        else if (el.kind === 'voltage_source' && modes.get(el.id) === 'cc') [wkind[j], wemf[j]] = [KIND_FIXED, el.i_max_A!];
-        else if (el.kind === 'voltage_source' && el.r_ohm !== undefined) [wkind[j], wg[j], wemf[j]] = [KIND_BATTERY, 1 / el.r_ohm, el.volts];
-        else return solveError('invalid_value', `element '${el.id}' (an ideal source) cannot be watched in a linear sweep`, { elements: [el.id] });
+        else if (el.kind === 'battery') {
+          wkind[j] = KIND_BATTERY;
+          wg[j] = 1 / el.r_ohm;
+          wemf[j] = el.ocv_V;
+        } else if (el.kind === 'resistor' || el.kind === 'load_resistor') {
+          wkind[j] = KIND_RESISTOR;
+          wg[j] = 1 / el.r_ohm;
+        } else if (el.kind === 'current_source') {
+          wkind[j] = KIND_FIXED;
+          wemf[j] = el.amps;
+        } else if (el.kind === 'voltage_source' && modes.get(el.id) === 'cc') {
+          wkind[j] = KIND_FIXED;
+          wemf[j] = el.i_max_A!;
+        } else if (el.kind === 'voltage_source' && el.r_ohm !== undefined) {
+          wkind[j] = KIND_BATTERY;
+          wg[j] = 1 / el.r_ohm;
+          wemf[j] = el.volts;
+        } else return solveError('invalid_value', `element '${el.id}' (an ideal source) cannot be watched in a linear sweep`, { elements: [el.id] });
       }
       const currents = new Float64Array(w);
-      const y = new Float64Array(m + 1);
+      // Voltage across each watched element in the unchanged network.
+      const v0 = new Float64Array(w);
+      for (let j = 0; j < w; j++) v0[j] = y0p[wa[j]] - y0p[wb[j]] + wc[j];
       for (let s = 0; s < variants.length; s++) {
         const ch = variants[s];
         if (!(Number.isFinite(ch.r_ohm) && ch.r_ohm > 0)) return solveError('invalid_value', `change ${ch.kind === 'shunt' ? `'${ch.id}'` : `to '${ch.element}'`}: r_ohm must be a finite number > 0`);
-        let na: number, nb: number, dg: number, dJsrc: number;
+        let na: number;
+        let nb: number;
+        let dg: number;
+        let dJsrc = 0;
         let changed = -1;
         const gNew = 1 / ch.r_ohm;
         if (ch.kind === 'shunt') {
@@ -737,52 +758,58 @@ export function linearSweep(prep: PreparedNetwork, options: { omit?: (el: Networ
             const node = ia === undefined ? ch.a : ch.b;
             return solveError('unknown_node', `shunt '${ch.id}' refers to node '${node}', which is not in the network`, { nodes: [node] });
           }
-          [na, nb, dg, dJsrc] = [ia, ib, gNew, 0];
+          na = ia;
+          nb = ib;
+          dg = gNew;
         } else {
           const e = elementIndex.get(ch.element);
           if (e === undefined) return solveError('unknown_element', `change refers to element '${ch.element}', which is not in the network`, { elements: [ch.element] });
           const el = els[e];
           if (omitted(el)) return solveError('invalid_value', `element '${el.id}' is left out of this sweep and cannot be shorted`, { elements: [el.id] });
-          if (el.kind === 'battery') [dg, dJsrc] = [gNew - 1 / el.r_ohm, -el.ocv_V / el.r_ohm];
-          else if (el.kind === 'resistor' || el.kind === 'load_resistor') [dg, dJsrc] = [gNew - 1 / el.r_ohm, 0];
+          if (el.kind === 'battery') {
+            dg = gNew - 1 / el.r_ohm;
+            dJsrc = -el.ocv_V / el.r_ohm;
+          } else if (el.kind === 'resistor' || el.kind === 'load_resistor') dg = gNew - 1 / el.r_ohm;
           else return solveError('invalid_value', `element '${el.id}' (${el.kind}) cannot be shorted: only batteries and resistors`, { elements: [el.id] });
-          [na, nb, changed] = [ends[2 * e], ends[2 * e + 1], e];
+          na = ends[2 * e];
+          nb = ends[2 * e + 1];
+          changed = e;
         }
-        const ra = slot(na);
-        const rb = slot(nb);
+        const pa = pslot(na);
+        const pb = pslot(nb);
         const dJ = dJsrc - dg * (red.off[na] - red.off[nb]);
         let alpha = 0;
-        if (ra !== rb && factor) {
-          // Sherman–Morrison: y = y0 + α K⁻¹u with u = e_ra − e_rb.
-          u.fill(0);
-          if (ra < G) u[ra] = 1;
-          if (rb < G) u[rb] = -1;
-          factor.solve(u, z);
+        if (pa !== pb && factor) {
+          // Sherman–Morrison: y = y0 + α K⁻¹u with u = e_a − e_b (in pivot order).
+          z.fill(0);
+          if (pa < G) z[pa] = 1;
+          if (pb < G) z[pb] = -1;
+          factor.solvePermuted(z, Math.min(pa, pb));
           z[G] = 0;
-          const uz = z[ra] - z[rb];
+          const uz = z[pa] - z[pb];
           const den = 1 + dg * uz;
           if (!(Math.abs(den) > 1e-300) || !Number.isFinite(den)) return solveError('singular_network', `the network with change ${s + 1} is singular`);
-          alpha = dJ - (dg * (y0[ra] - y0[rb] + dJ * uz)) / den;
-          for (let i = 0; i <= m; i++) y[i] = y0[i] + alpha * z[i];
-        } else y.set(y0);
+          alpha = dJ - (dg * (y0p[pa] - y0p[pb] + dJ * uz)) / den;
+        } else z.fill(0);
         for (let j = 0; j < w; j++) {
-          const v = y[wa[j]] - y[wb[j]] + wc[j];
+          const v = v0[j] + alpha * (z[wa[j]] - z[wb[j]]);
+          let i: number;
           switch (wkind[j]) {
             case KIND_BATTERY:
-              currents[j] = (wemf[j] - v) * wg[j];
+              i = (wemf[j] - v) * wg[j];
               break;
             case KIND_RESISTOR:
-              currents[j] = v * wg[j];
+              i = v * wg[j];
               break;
             case KIND_FIXED:
-              currents[j] = wemf[j];
+              i = wemf[j];
               break;
             default:
-              currents[j] = 0;
+              i = 0;
           }
-          if (wel[j] === changed) currents[j] = (els[changed].kind === 'battery' ? -v : v) * gNew;
+          currents[j] = wel[j] === changed ? (els[changed].kind === 'battery' ? -v : v) * gNew : i;
         }
-        const vChange = y[ra] - y[rb] + red.off[na] - red.off[nb];
+        const vChange = y0p[pa] - y0p[pb] + alpha * (z[pa] - z[pb]) + red.off[na] - red.off[nb];
         const changeCurrent = (changed >= 0 && els[changed].kind === 'battery' ? -vChange : vChange) * gNew;
         visit(s, currents, changeCurrent);
       }

@@ -236,20 +236,30 @@ export class LdlFactor {
 
   /** Solves A x = b for the last factorized values. `x` may be `b`. */
   solve(b: ArrayLike<number>, x: Float64Array = new Float64Array(this.n)): Float64Array {
-    const { n, perm, Lp, Li, Lx, D, work: w } = this;
+    const { n, perm, work: w } = this;
     for (let k = 0; k < n; k++) w[k] = b[perm[k]];
-    for (let j = 0; j < n; j++) {
-      const wj = w[j];
-      if (wj !== 0) for (let p = Lp[j]; p < Lp[j + 1]; p++) w[Li[p]] -= Lx[p] * wj;
-    }
-    for (let j = 0; j < n; j++) w[j] /= D[j];
-    for (let j = n - 1; j >= 0; j--) {
-      let wj = w[j];
-      for (let p = Lp[j]; p < Lp[j + 1]; p++) wj -= Lx[p] * w[Li[p]];
-      w[j] = wj;
-    }
+    this.solvePermuted(w);
     for (let k = 0; k < n; k++) x[perm[k]] = w[k];
     return x;
+  }
+
+  /**
+   * Solves A x = b in place in the factor's own pivot order: on entry w[k] is entry perm[k] of b, on
+   * return entry perm[k] of x. `from`: entries of w before it are zero (a sparse right-hand side, e.g.
+   * the two ends of one branch), so the forward solve starts there.
+   */
+  solvePermuted(w: Float64Array, from = 0): Float64Array {
+    const { n, Lp, Li, Lx, D } = this;
+    for (let j = from; j < n; j++) {
+      const wj = w[j];
+      if (wj !== 0) for (let p = Lp[j], e = Lp[j + 1]; p < e; p++) w[Li[p]] -= Lx[p] * wj;
+    }
+    for (let j = n - 1; j >= 0; j--) {
+      let wj = w[j] / D[j];
+      for (let p = Lp[j], e = Lp[j + 1]; p < e; p++) wj -= Lx[p] * w[Li[p]];
+      w[j] = wj;
+    }
+    return w;
   }
 }
 
