@@ -65,7 +65,7 @@ function SidePicker({ id, label, value, revisions, hasUnsaved, onChange }: { id:
         id={id}
         value={sideParam(value)}
         onChange={(e) => onChange(parseSide(e.target.value)!)}
-        className="h-8 rounded-md border border-graphite-300 bg-white px-2 text-[13px]"
+        className="h-8 max-w-64 truncate rounded-md border border-graphite-300 bg-white px-2 text-[13px]"
       >
         {revisions.map((r) => (
           <option key={r.number} value={String(r.number)}>
@@ -183,8 +183,8 @@ function CompareReady({ diagramId, projectId, teamId, a, b, unitSystem, role, me
           Fit both
         </button>
       </div>
-      <div ref={boxRef} className="flex h-[52dvh] min-h-[340px] gap-2" data-testid="compare-canvases">
-        <div className="bw-pane" data-testid="canvas-a">
+      <div className="flex h-[52dvh] min-h-[340px] gap-2" data-testid="compare-canvases">
+        <div ref={boxRef} className="bw-pane" data-testid="canvas-a">
           <span className="bw-pane-title">A · {a.label}{a.revision ? <RevisionStateBadge state={a.revision.state} /> : null}</span>
           <DiagramCanvas doc={docA} marks={marks.a} viewport={viewport} onViewportChange={setViewport} label={`Version A (${a.label})`} />
         </div>

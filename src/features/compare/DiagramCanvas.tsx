@@ -3,10 +3,10 @@
  * marks (outline, tag with glyph and word) and comment pins. The viewport is controlled by the caller so
  * two canvases can pan and zoom together.
  */
-import { memo, useMemo, type ComponentType } from 'react';
+import { memo, useCallback, useMemo, useState, type ComponentType } from 'react';
 import {
-  Background, BackgroundVariant, EdgeLabelRenderer, getSmoothStepPath, ReactFlow,
-  type EdgeProps, type NodeMouseHandler, type NodeProps, type Viewport,
+  Background, BackgroundVariant, ConnectionMode, EdgeLabelRenderer, getSmoothStepPath, ReactFlow,
+  type EdgeProps, type NodeChange, type NodeMouseHandler, type NodeProps, type Viewport,
 } from '@xyflow/react';
 import type { DiagramCable, DiagramDocument, DiagramPart } from '@shared/diagram';
 import { CableEdge, type CableFlowEdge } from '@/features/editor/canvas/CableEdge';
@@ -146,12 +146,33 @@ export interface DiagramCanvasProps {
 }
 
 export function DiagramCanvas({ doc, marks, pins, picked = null, viewport, onViewportChange, onPick, label }: DiagramCanvasProps) {
+  // Measured sizes go back into the node objects: a node object made anew (a mark or pin changed) keeps
+  // its handles' positions, so its cables stay drawn.
+  const [measured, setMeasured] = useState(() => new Map<string, { width: number; height: number }>());
+  const onNodesChange = useCallback((changes: NodeChange<ViewNode>[]) => {
+    const dims = changes.filter((c) => c.type === 'dimensions' && c.dimensions);
+    if (!dims.length) return;
+    setMeasured((prev) => {
+      let next: Map<string, { width: number; height: number }> | null = null;
+      for (const c of dims) {
+        if (c.type !== 'dimensions' || !c.dimensions) continue;
+        const old = prev.get(c.id);
+        if (old && old.width === c.dimensions.width && old.height === c.dimensions.height) continue;
+        next ??= new Map(prev);
+        next.set(c.id, { width: c.dimensions.width, height: c.dimensions.height });
+      }
+      return next ?? prev;
+    });
+  }, []);
+
   const nodes = useMemo<ViewNode[]>(() => {
     const sides = busbarTapSides(doc.parts, doc.cables);
     return doc.parts.map((part) => {
       const mark = marks?.get(part.id);
       const pinCount = pins?.get(part.id) ?? 0;
+      const m = measured.get(part.id);
       return {
+        ...(m ? { measured: m } : {}),
         id: part.id,
         type: part.type,
         position: part.position,
@@ -162,7 +183,7 @@ export function DiagramCanvas({ doc, marks, pins, picked = null, viewport, onVie
         className: `${mark ? `bw-diff-node bw-diff-${mark.status}` : ''}${picked === part.id ? ' bw-picked' : ''}`,
       };
     });
-  }, [doc, marks, pins, picked]);
+  }, [doc, marks, pins, picked, measured]);
 
   const edges = useMemo<ViewEdge[]>(
     () =>
@@ -187,10 +208,13 @@ export function DiagramCanvas({ doc, marks, pins, picked = null, viewport, onVie
         edges={edges}
         nodeTypes={viewNodeTypes}
         edgeTypes={viewEdgeTypes}
+        onNodesChange={onNodesChange}
         viewport={viewport}
         onViewportChange={onViewportChange}
         onNodeClick={onPick ? onNodeClick : undefined}
         onEdgeClick={onPick ? (_, e) => onPick(e.id) : undefined}
+        // Every terminal is a source handle (as in the editor): cables land on sources only in loose mode.
+        connectionMode={ConnectionMode.Loose}
         nodesDraggable={false}
         nodesConnectable={false}
         edgesReconnectable={false}

@@ -71,6 +71,10 @@ describe('compare two revisions', { timeout: 30_000 }, () => {
     expect(canvasA.querySelector('[data-id="bat2"]')).toHaveTextContent('Moved');
     // Unchanged parts carry no mark.
     expect(canvasB.querySelector('[data-id="bat1"]')).not.toHaveClass('bw-diff-node');
+    // Every cable is drawn, and the reconnected take-off is marked on both sides.
+    await waitFor(() => expect(canvasB.querySelectorAll('.react-flow__edge')).toHaveLength(b.cables.length));
+    expect(canvasA.querySelector('.react-flow__edge[data-id="c-main-neg"]')).toHaveClass('bw-diff-changed');
+    expect(canvasB.querySelector('.react-flow__edge[data-id="c-main-neg"]')).toHaveClass('bw-diff-changed');
   });
 
   it('frames a clicked change in both canvases with one shared viewport', async () => {
