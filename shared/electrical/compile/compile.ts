@@ -196,17 +196,20 @@ export function compileDiagram(doc: DiagramDocument): CompileResult {
 
   // --- Zero-resistance elements merge nodes ----------------------------------------------------------------
   const zero = new UnionFind();
-  for (const { el } of raw) for (const n of elementNodes(el)) zero.add(n);
+  const anyZero = raw.some((r) => r.el.kind === 'resistor' && r.el.r_ohm === 0);
+  if (anyZero) for (const { el } of raw) for (const n of elementNodes(el)) zero.add(n);
   const kept: typeof raw = [];
   for (const r of raw) {
     if (r.el.kind === 'resistor' && r.el.r_ohm === 0) zero.union(r.el.a, r.el.b);
     else kept.push(r);
   }
-  const node = (n: string) => zero.find(n);
+  const node = anyZero ? (n: string) => zero.find(n) : (n: string) => n;
   const elements = kept;
-  for (const r of elements) {
-    const [a, b] = elementNodes(r.el);
-    if (node(a) !== a || node(b) !== b) r.el = renameNodes(r.el, node);
+  if (anyZero) {
+    for (const r of elements) {
+      const [a, b] = elementNodes(r.el);
+      if (node(a) !== a || node(b) !== b) r.el = renameNodes(r.el, node);
+    }
   }
 
   // --- Ideal voltage sources in a loop of zero resistance ----------------------------------------------------
