@@ -21,6 +21,10 @@ import { teamRoutes } from './routes/teams';
 import { inviteRoutes } from './routes/invites';
 import { projectRoutes } from './routes/projects';
 import { diagramRoutes } from './routes/diagrams';
+import { uploadRoutes } from './routes/uploads';
+import { libraryRoutes } from './routes/library';
+import { createStorage } from './storage';
+import type { UploadStorage } from './storage/types';
 
 export const JSON_BODY_LIMIT = '1mb';
 /** Routes that carry a whole diagram document (up to 2,000 parts and 5,000 cables) take larger bodies. */
@@ -45,6 +49,8 @@ export interface CreateAppOptions {
   config: Config;
   client?: ClientServing;
   limiter?: Partial<LimiterOptions>;
+  /** Storage for uploads; by default the one the config names (DATA_DIR/uploads, or S3_BUCKET). */
+  storage?: UploadStorage;
 }
 
 function securityHeaders(config: Config, dev: boolean): RequestHandler {
@@ -78,7 +84,8 @@ export function createApp(options: CreateAppOptions): Express {
   const { db, mailer, config, client } = options;
   const sessions = createSessions(db);
   const limiter = createSignInLimiter(options.limiter);
-  const deps: AppDeps = { db, mailer, config, sessions, limiter };
+  const storage = options.storage ?? createStorage(config);
+  const deps: AppDeps = { db, mailer, config, sessions, limiter, storage };
 
   const app = express();
   app.disable('x-powered-by');
@@ -100,6 +107,8 @@ export function createApp(options: CreateAppOptions): Express {
   api.use('/invites', inviteRoutes(deps));
   api.use('/projects', projectRoutes(deps));
   api.use('/diagrams', diagramRoutes(deps));
+  api.use(uploadRoutes(deps));
+  api.use(libraryRoutes(deps));
   api.use(apiNotFound);
   api.use(errorHandler);
   app.use('/api', api);

@@ -21,6 +21,16 @@ const envSchema = z
       .optional(),
     DEMO: z.enum(['0', '1'], { error: 'DEMO must be 0 or 1' }).default('1'),
     DEMO_PASSWORD: z.string().min(10, 'DEMO_PASSWORD must be at least 10 characters').default('bankwright-demo'),
+    UPLOAD_MAX_MB: z.coerce
+      .number('UPLOAD_MAX_MB must be a number')
+      .min(0.001, 'UPLOAD_MAX_MB must be more than 0')
+      .max(200, 'UPLOAD_MAX_MB must be at most 200')
+      .default(20),
+    S3_BUCKET: z.string().regex(/^[a-z0-9][a-z0-9.-]{1,61}[a-z0-9]$/, 'S3_BUCKET must be a bucket name (3–63 lower-case letters, digits, dots, hyphens)').optional(),
+    S3_ENDPOINT: z.url('S3_ENDPOINT must be a URL such as https://s3.example.com').optional(),
+    S3_REGION: z.string().min(1).default('us-east-1'),
+    S3_PREFIX: z.string().regex(/^[A-Za-z0-9/_-]{0,100}$/, 'S3_PREFIX may hold letters, digits, /, _ and -').default(''),
+    S3_FORCE_PATH_STYLE: z.enum(['0', '1'], { error: 'S3_FORCE_PATH_STYLE must be 0 or 1' }).optional(),
   })
   .transform((e) => ({
     nodeEnv: e.NODE_ENV,
@@ -31,6 +41,19 @@ const envSchema = z
     appOrigin: new URL(e.APP_ORIGIN ?? `http://localhost:${e.PORT}`).origin,
     demo: e.DEMO !== '0',
     demoPassword: e.DEMO_PASSWORD,
+    uploadMaxBytes: Math.round(e.UPLOAD_MAX_MB * 1024 * 1024),
+    /** Where uploaded files go: DATA_DIR/uploads, or an S3-compatible bucket when S3_BUCKET is set. */
+    storage: e.S3_BUCKET
+      ? {
+          kind: 's3' as const,
+          bucket: e.S3_BUCKET,
+          endpoint: e.S3_ENDPOINT,
+          region: e.S3_REGION,
+          prefix: e.S3_PREFIX,
+          // Most S3-compatible servers (MinIO, Garage, Ceph) want path-style addressing.
+          forcePathStyle: e.S3_FORCE_PATH_STYLE ? e.S3_FORCE_PATH_STYLE === '1' : e.S3_ENDPOINT !== undefined,
+        }
+      : { kind: 'local' as const },
   }));
 
 export type Config = z.output<typeof envSchema>;

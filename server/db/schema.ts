@@ -251,3 +251,58 @@ export const reviewComments = pgTable(
   },
   (t) => [index('review_comments_revision_idx').on(t.revisionId)],
 );
+
+/**
+ * Files attached to a project: data sheets (PDF) and site photos (JPEG, PNG, WebP). The bytes live in
+ * the storage adapter (server/storage) under `key`, a random name that never comes from user input;
+ * `file_name` is the sanitized name shown and offered on download. docs/decisions/008-uploads-storage.md.
+ */
+export const uploads = pgTable(
+  'uploads',
+  {
+    id: text('id').primaryKey(),
+    projectId: text('project_id')
+      .notNull()
+      .references(() => projects.id, { onDelete: 'cascade' }),
+    key: text('key').notNull(),
+    fileName: text('file_name').notNull(),
+    /** Sniffed from the bytes on upload (never the client's claim). */
+    contentType: text('content_type').notNull(),
+    size: integer('size').notNull(),
+    /** Pixel dimensions of an image, from its header; null for PDFs. */
+    width: integer('width'),
+    height: integer('height'),
+    uploadedBy: text('uploaded_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    index('uploads_project_idx').on(t.projectId),
+    uniqueIndex('uploads_key_unique').on(t.key),
+    check('uploads_size_check', sql`${t.size} >= 0`),
+    check('uploads_content_type_check', sql`${t.contentType} in ('application/pdf', 'image/jpeg', 'image/png', 'image/webp')`),
+  ],
+);
+
+/**
+ * The team parts library (shared/library): presets of batteries, cables, fuses and busbars. `props` is
+ * validated with libraryItemSchema on every write.
+ */
+export const libraryItems = pgTable(
+  'library_items',
+  {
+    id: text('id').primaryKey(),
+    teamId: text('team_id')
+      .notNull()
+      .references(() => teams.id, { onDelete: 'cascade' }),
+    kind: text('kind', { enum: ['battery', 'cable', 'fuse', 'busbar'] }).notNull(),
+    name: text('name').notNull(),
+    manufacturer: text('manufacturer').notNull().default(''),
+    partNumber: text('part_number').notNull().default(''),
+    props: jsonb('props').notNull(),
+    createdBy: text('created_by').references(() => users.id, { onDelete: 'set null' }),
+    updatedBy: text('updated_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [index('library_items_team_idx').on(t.teamId, t.kind), check('library_items_kind_check', sql`${t.kind} in ('battery', 'cable', 'fuse', 'busbar')`)],
+);

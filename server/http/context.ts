@@ -5,6 +5,7 @@ import type { Db } from '../db/client';
 import type { Mailer } from '../mail/mailer';
 import type { SignInLimiter } from '../auth/rate-limit';
 import type { ActiveSession, Sessions, SessionUser } from '../auth/sessions';
+import type { UploadStorage } from '../storage/types';
 import { unauthenticated } from './errors';
 
 export interface AppDeps {
@@ -13,6 +14,8 @@ export interface AppDeps {
   config: Config;
   sessions: Sessions;
   limiter: SignInLimiter;
+  /** Where uploaded files' bytes live (server/storage). */
+  storage: UploadStorage;
 }
 
 export interface Auth {

@@ -8,7 +8,8 @@ import type { Db } from '../db/client';
 import { commentSchema, decisionSchema, resolveCommentSchema, reviewRequestSchema } from '../../shared/schemas/reviews';
 import { addComment, decide, listComments, requestReview, setCommentResolved } from '../services/reviews';
 import { requireDiagramRole } from '../services/access';
-import { deleteDiagram, saveWorkingCopy, updateDiagram } from '../services/diagrams';
+import { deleteDiagram, saveAnnotations, saveWorkingCopy, updateDiagram } from '../services/diagrams';
+import { annotationsBodySchema } from '../../shared/diagram/annotations';
 import { duplicateDiagram, findRevision, getDiagramWithLatest, getRevision, listRevisions, restoreRevision, saveRevision } from '../services/revisions';
 
 /** A revision number from the URL: 1, 2, … (anything else names no revision). */
@@ -39,6 +40,14 @@ export function diagramRoutes(deps: AppDeps): Router {
     await requireDiagramRole(db, user.id, req.params.id, 'diagram.edit');
     const input = parse(workingCopySchema, req.body);
     res.json(await saveWorkingCopy(db, user.id, req.params.id, input.content, input.baseVersion));
+  });
+
+  r.put('/:id/annotations', async (req, res) => {
+    const { user } = requireAuth(res);
+    await requireDiagramRole(db, user.id, req.params.id, 'diagram.annotate');
+    // Strict: a body carrying parts, cables or settings is refused, not silently ignored.
+    const input = parse(annotationsBodySchema.strict(), req.body);
+    res.json(await saveAnnotations(db, user.id, req.params.id, input.annotations, input.baseVersion));
   });
 
   r.patch('/:id', async (req, res) => {

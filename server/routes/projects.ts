@@ -8,6 +8,7 @@ import { requireProjectRole, requireTeamRole } from '../services/access';
 import { createProject, deleteProject, getProject, listDiagrams, listProjects, updateProject } from '../services/projects';
 import { createDiagram } from '../services/diagrams';
 import { listActivity } from '../services/activity';
+import { removeStored } from '../services/uploads';
 
 const activityQuery = z.object({
   limit: z.coerce.number().int('limit must be a whole number').min(1, 'limit must be 1–500').max(500, 'limit must be 1–500').default(100),
@@ -50,7 +51,7 @@ export function projectRoutes(deps: AppDeps): Router {
   r.delete('/:id', async (req, res) => {
     const { user } = requireAuth(res);
     await requireProjectRole(db, user.id, req.params.id, 'project.edit');
-    await deleteProject(db, req.params.id);
+    await removeStored(deps.storage, await deleteProject(db, req.params.id));
     res.status(204).end();
   });
 

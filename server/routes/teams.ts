@@ -7,6 +7,7 @@ import { parse } from '../http/validate';
 import { requireTeamRole } from '../services/access';
 import { createInvite, revokeInvite } from '../services/invites';
 import { listOutbox } from '../services/outbox';
+import { removeStored } from '../services/uploads';
 import { changeRole, createTeam, deleteTeam, getTeam, listMembers, listTeams, removeMember, updateTeam } from '../services/teams';
 
 export function teamRoutes(deps: AppDeps): Router {
@@ -41,7 +42,7 @@ export function teamRoutes(deps: AppDeps): Router {
     const { user } = requireAuth(res);
     const { teamId } = req.params;
     await requireTeamRole(db, user.id, teamId, 'team.manage');
-    await deleteTeam(db, teamId);
+    await removeStored(deps.storage, await deleteTeam(db, teamId));
     res.status(204).end();
   });
 

@@ -5,7 +5,7 @@
 import { and, eq } from 'drizzle-orm';
 import { can, type Permission, type Role } from '../../shared/roles';
 import type { DbOrTx } from '../db/client';
-import { diagrams, memberships, projects } from '../db/schema';
+import { diagrams, memberships, projects, uploads } from '../db/schema';
 import { forbidden, notFound } from '../http/errors';
 
 export async function membershipRole(db: DbOrTx, userId: string, teamId: string): Promise<Role | null> {
@@ -58,6 +58,26 @@ export async function requireDiagramRole(
     .innerJoin(memberships, and(eq(memberships.teamId, projects.teamId), eq(memberships.userId, userId)))
     .where(eq(diagrams.id, diagramId));
   if (!row) throw notFound('No such diagram.');
+  if (!can(row.role, permission)) throw forbidden();
+  return row;
+}
+
+export type UploadRow = typeof uploads.$inferSelect;
+
+/** The upload with its project and the caller's role in the project's team (404 / 403 as above). */
+export async function requireUploadRole(
+  db: DbOrTx,
+  userId: string,
+  uploadId: string,
+  permission: Permission,
+): Promise<{ upload: UploadRow; project: ProjectRow; role: Role }> {
+  const [row] = await db
+    .select({ upload: uploads, project: projects, role: memberships.role })
+    .from(uploads)
+    .innerJoin(projects, eq(projects.id, uploads.projectId))
+    .innerJoin(memberships, and(eq(memberships.teamId, projects.teamId), eq(memberships.userId, userId)))
+    .where(eq(uploads.id, uploadId));
+  if (!row) throw notFound('No such file.');
   if (!can(row.role, permission)) throw forbidden();
   return row;
 }

@@ -6,10 +6,11 @@
  */
 import { and, eq, sql } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
-import { emptyDiagram, type DiagramDocument } from '../../shared/diagram/schema';
+import { emptyDiagram, type DiagramAnnotation, type DiagramDocument } from '../../shared/diagram/schema';
+import { parseAnnotations } from '../../shared/diagram/annotations';
 import type { Db, DbOrTx } from '../db/client';
 import { activity, diagrams, projects, users } from '../db/schema';
-import { conflict, notFound } from '../http/errors';
+import { ApiError, conflict, notFound } from '../http/errors';
 import { newId } from '../ids';
 
 const updater = alias(users, 'updater');
@@ -108,12 +109,56 @@ export async function saveWorkingCopy(db: Db, userId: string, diagramId: string,
     .where(and(eq(diagrams.id, diagramId), eq(diagrams.workingCopyVersion, baseVersion)))
     .returning({ workingCopyVersion: diagrams.workingCopyVersion, updatedAt: diagrams.updatedAt });
   if (saved) return saved;
+  throw await workingCopyConflict(db, diagramId);
+}
+
+/** 409 working_copy_conflict naming who saved the current version. */
+async function workingCopyConflict(db: DbOrTx, diagramId: string) {
   const current = await getDiagram(db, diagramId);
-  throw conflict(
+  return conflict(
     'working_copy_conflict',
     current.updatedBy
       ? `${current.updatedBy.name} saved this diagram since you opened it (version ${current.workingCopyVersion}).`
       : `This diagram was saved since you opened it (version ${current.workingCopyVersion}).`,
     { workingCopyVersion: current.workingCopyVersion, updatedAt: current.updatedAt, updatedBy: current.updatedBy },
   );
+}
+
+/**
+ * Replace only the working copy's annotation layer (trainers annotate; they never change the electrical
+ * model). Same optimistic concurrency as saveWorkingCopy: the row is locked, `baseVersion` must be the
+ * current version (else 409 working_copy_conflict), and the version moves on by one. Each annotation of
+ * a known kind is checked strictly (shared/diagram/annotations.ts) against the parts of the current copy;
+ * ids must not clash with part or cable ids. Entries of kinds a later version may add are kept as given.
+ */
+export async function saveAnnotations(db: Db, userId: string, diagramId: string, annotations: DiagramAnnotation[], baseVersion: number) {
+  return db.transaction(async (tx) => {
+    const [row] = await tx
+      .select({ content: diagrams.content, version: diagrams.workingCopyVersion })
+      .from(diagrams)
+      .where(eq(diagrams.id, diagramId))
+      .for('update');
+    if (!row) throw notFound('No such diagram.');
+    if (row.version !== baseVersion) throw await workingCopyConflict(tx, diagramId);
+    const content = row.content as Partial<DiagramDocument>;
+    const parts = Array.isArray(content.parts) ? content.parts : [];
+    const cables = Array.isArray(content.cables) ? content.cables : [];
+    const fields: Record<string, string[]> = {};
+    const add = (path: string, message: string) => (fields[path] ??= []).push(message);
+    for (const issue of parseAnnotations(annotations, new Set(parts.map((p) => p.id))).issues) add(issue.path.replace(/^\$\./, ''), issue.message);
+    const taken = new Set([...parts.map((p) => p.id), ...cables.map((c) => c.id)]);
+    const seen = new Set<string>();
+    annotations.forEach((a, i) => {
+      if (taken.has(a.id)) add(`annotations.${i}.id`, `Id "${a.id}" is already used by a part or cable`);
+      else if (seen.has(a.id)) add(`annotations.${i}.id`, `Duplicate id "${a.id}"`);
+      seen.add(a.id);
+    });
+    if (Object.keys(fields).length) throw new ApiError(400, 'validation_failed', 'Some annotations need attention.', { fields });
+    const [saved] = await tx
+      .update(diagrams)
+      .set({ content: { ...content, annotations }, workingCopyVersion: sql`${diagrams.workingCopyVersion} + 1`, updatedAt: new Date(), updatedBy: userId })
+      .where(eq(diagrams.id, diagramId))
+      .returning({ workingCopyVersion: diagrams.workingCopyVersion, updatedAt: diagrams.updatedAt });
+    return saved!;
+  });
 }

@@ -1,6 +1,6 @@
 import { asc, desc, eq, sql } from 'drizzle-orm';
 import type { Db } from '../db/client';
-import { activity, diagrams, projects } from '../db/schema';
+import { activity, diagrams, projects, uploads } from '../db/schema';
 import { newId } from '../ids';
 import { latestRevisionStates } from './revisions';
 
@@ -60,8 +60,13 @@ export async function updateProject(
   return getProject(db, projectId);
 }
 
-export async function deleteProject(db: Db, projectId: string) {
-  await db.delete(projects).where(eq(projects.id, projectId));
+/** Deletes the project (diagrams, revisions, uploads cascade); returns the storage keys of its uploads to remove. */
+export async function deleteProject(db: Db, projectId: string): Promise<string[]> {
+  return db.transaction(async (tx) => {
+    const keys = (await tx.select({ key: uploads.key }).from(uploads).where(eq(uploads.projectId, projectId))).map((r) => r.key);
+    await tx.delete(projects).where(eq(projects.id, projectId));
+    return keys;
+  });
 }
 
 /** Number of parts in a diagram document; 0 when `parts` is missing or not an array. */

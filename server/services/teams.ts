@@ -2,7 +2,7 @@ import { and, asc, count, eq, gt, isNull, ne, sql } from 'drizzle-orm';
 import type { Role } from '../../shared/roles';
 import { can } from '../../shared/roles';
 import type { Db, DbOrTx } from '../db/client';
-import { invites, memberships, teams, users } from '../db/schema';
+import { invites, memberships, projects, teams, uploads, users } from '../db/schema';
 import { newId } from '../ids';
 import { conflict, notFound } from '../http/errors';
 
@@ -49,8 +49,15 @@ export async function updateTeam(db: Db, userId: string, teamId: string, input: 
   return getTeam(db, userId, teamId);
 }
 
-export async function deleteTeam(db: Db, teamId: string) {
-  await db.delete(teams).where(eq(teams.id, teamId));
+/** Deletes the team (projects, uploads, library cascade); returns the storage keys of its uploads to remove. */
+export async function deleteTeam(db: Db, teamId: string): Promise<string[]> {
+  return db.transaction(async (tx) => {
+    const keys = (
+      await tx.select({ key: uploads.key }).from(uploads).innerJoin(projects, eq(projects.id, uploads.projectId)).where(eq(projects.teamId, teamId))
+    ).map((r) => r.key);
+    await tx.delete(teams).where(eq(teams.id, teamId));
+    return keys;
+  });
 }
 
 export async function listMembers(db: Db, teamId: string, role: Role) {
