@@ -166,7 +166,34 @@ function extract(doc: DiagramDocument, ids: string[]): Clipboard {
   return structuredClone({ parts, cables });
 }
 
+/** Position patches of one drag merged: the first inverse and the last forward patch per path (a drag is one step however long). */
+function mergeReplaces(older: Patch[], newer: Patch[], keep: 'first' | 'last'): Patch[] {
+  const byPath = new Map<string, Patch>();
+  for (const p of keep === 'last' ? [...older, ...newer] : [...newer, ...older]) byPath.set(p.path.join('/'), p);
+  return [...byPath.values()];
+}
+const allReplaces = (ps: Patch[]) => ps.every((p) => p.op === 'replace');
+
 export const useEditorStore = create<EditorState>()((set, get) => {
+  /** Record a new document as one history step, or merged into the last one with the same `coalesce` key. */
+  const commit = (label: string, doc: DiagramDocument, patches: Patch[], inversePatches: Patch[], coalesce?: string, opts: { keepSelection?: boolean } = {}) => {
+    const s = get();
+    const now = Date.now();
+    const last = s.past[s.past.length - 1];
+    const drag = !!coalesce && coalesce.startsWith('drag:');
+    const merge = !!coalesce && !!last && last.coalesce === coalesce && (drag || now - last.at < COALESCE_WINDOW_MS);
+    let past: HistoryStep[];
+    if (!merge) past = [...s.past, { label, patches, inversePatches, coalesce, at: now }].slice(-MAX_HISTORY);
+    else {
+      const compact = drag && allReplaces(patches) && allReplaces(last.patches);
+      const step: HistoryStep = compact
+        ? { ...last, patches: mergeReplaces(last.patches, patches, 'last'), inversePatches: mergeReplaces(last.inversePatches, inversePatches, 'first'), at: now }
+        : { ...last, patches: [...last.patches, ...patches], inversePatches: [...inversePatches, ...last.inversePatches], at: now };
+      past = [...s.past.slice(0, -1), step];
+    }
+    set({ doc, past, future: [], docRevision: s.docRevision + 1, selection: opts.keepSelection ? s.selection : pruneSelection(s.selection, doc) });
+  };
+
   /** Insert clipboard contents with fresh ids, offset; returns the new ids. */
   const insertCopies = (clip: Clipboard, offset: number, label: string): string[] => {
     const newIds: string[] = [];
@@ -236,15 +263,7 @@ export const useEditorStore = create<EditorState>()((set, get) => {
       if (s.readOnly) return false;
       const [doc, patches, inversePatches] = produceWithPatches(s.doc, recipe);
       if (patches.length === 0) return false;
-      const now = Date.now();
-      const last = s.past[s.past.length - 1];
-      const merge =
-        !!opts.coalesce && !!last && last.coalesce === opts.coalesce &&
-        (opts.coalesce.startsWith('drag:') || now - last.at < COALESCE_WINDOW_MS);
-      const past = merge
-        ? [...s.past.slice(0, -1), { ...last, patches: [...last.patches, ...patches], inversePatches: [...inversePatches, ...last.inversePatches], at: now }]
-        : [...s.past, { label, patches, inversePatches, coalesce: opts.coalesce, at: now }].slice(-MAX_HISTORY);
-      set({ doc, past, future: [], docRevision: s.docRevision + 1, selection: pruneSelection(s.selection, doc) });
+      commit(label, doc, patches, inversePatches, opts.coalesce);
       return true;
     },
 
@@ -347,14 +366,27 @@ export const useEditorStore = create<EditorState>()((set, get) => {
     },
 
     moveParts: (moves, dragKey) => {
-      if (moves.length === 0) return;
+      const s = get();
+      if (moves.length === 0 || s.readOnly) return;
+      // The hot path of a drag (one call per pointer move): a new parts array with only the moved parts
+      // replaced, and their position patches, without an immer draft of every part.
       const byId = new Map(moves.map((m) => [m.id, m.position]));
-      get().edit(moves.length === 1 ? 'Move part' : `Move ${moves.length} parts`, (d) => {
-        for (const p of d.parts) {
-          const to = byId.get(p.id);
-          if (to && (p.position.x !== to.x || p.position.y !== to.y)) p.position = { x: to.x, y: to.y };
-        }
-      }, { coalesce: dragKey ? `drag:${dragKey}` : 'nudge' });
+      let parts: DiagramPart[] | null = null;
+      const patches: Patch[] = [];
+      const inversePatches: Patch[] = [];
+      s.doc.parts.forEach((p, i) => {
+        const to = byId.get(p.id);
+        if (!to || (p.position.x === to.x && p.position.y === to.y)) return;
+        parts ??= s.doc.parts.slice();
+        const position = Object.freeze({ x: to.x, y: to.y });
+        parts[i] = Object.freeze({ ...p, position }) as DiagramPart;
+        patches.push({ op: 'replace', path: ['parts', i, 'position'], value: { x: to.x, y: to.y } });
+        inversePatches.push({ op: 'replace', path: ['parts', i, 'position'], value: { x: p.position.x, y: p.position.y } });
+      });
+      if (parts) {
+        const doc = Object.freeze({ ...s.doc, parts: Object.freeze(parts) as DiagramPart[] });
+        commit(moves.length === 1 ? 'Move part' : `Move ${moves.length} parts`, doc, patches, inversePatches, dragKey ? `drag:${dragKey}` : 'nudge', { keepSelection: true });
+      }
       const fresh = get().freshParts;
       if (fresh.length && fresh.some((id) => byId.has(id))) set({ freshParts: fresh.filter((id) => !byId.has(id)) });
     },
@@ -429,6 +461,20 @@ export const useEditorStore = create<EditorState>()((set, get) => {
     setResults: (results, status) => set({ results, resultsStatus: status }),
     setResultsStatus: (status) => set({ resultsStatus: status }),
   };
+});
+
+/**
+ * The live results and the unit system in a store of their own, kept in step with the editor store.
+ * The canvas figures (hundreds of node and cable components) subscribe here, so a document change —
+ * each frame of a drag — does not run their selectors; only new results or a unit change do.
+ */
+export interface CanvasView {
+  results: EditorResults | null;
+  unitSystem: UnitSystem;
+}
+export const useCanvasView = create<CanvasView>()(() => ({ results: useEditorStore.getState().results, unitSystem: useEditorStore.getState().unitSystem }));
+useEditorStore.subscribe((s, prev) => {
+  if (s.results !== prev.results || s.unitSystem !== prev.unitSystem) useCanvasView.setState({ results: s.results, unitSystem: s.unitSystem });
 });
 
 /** Undo/redo availability (for toolbar buttons). */

@@ -33,6 +33,8 @@ export const useSaveState = create<SaveState>()((set) => ({
 export const SAVE_DEBOUNCE_MS = 1000;
 const LOCAL_DEBOUNCE_MS = 250;
 const RETRY_MS = 5000;
+/** Tell other tabs about edits at most this often, ms. */
+const EDITED_NOTICE_MS = 1000;
 
 export interface LocalCopy {
   doc: DiagramDocument;
@@ -157,13 +159,19 @@ export function useWorkingCopySync(diagramId: string, enabled: boolean, initialD
       saveTimer = setTimeout(save, SAVE_DEBOUNCE_MS);
     };
 
+    let lastEditedNotice = 0;
+    // Runs on every document change, each frame of a drag included: keep it to timers and flags.
     const onDocChange = () => {
       dirty = true;
       const st = useSaveState.getState();
-      if (st.status !== 'conflict' && st.status !== 'offline') st.set({ status: 'pending' });
+      if (st.status !== 'conflict' && st.status !== 'offline' && st.status !== 'pending') st.set({ status: 'pending' });
       clearTimeout(localTimer);
       localTimer = setTimeout(writeLocal, LOCAL_DEBOUNCE_MS);
-      channel?.postMessage({ type: 'edited', tabId });
+      const now = Date.now();
+      if (now - lastEditedNotice >= EDITED_NOTICE_MS) {
+        lastEditedNotice = now;
+        channel?.postMessage({ type: 'edited', tabId });
+      }
       if (st.status !== 'conflict') schedule();
     };
 

@@ -28,6 +28,33 @@ describe('editor store: history', () => {
     expect(editor().doc.parts[0].position).toEqual({ x: 200, y: 100 });
   });
 
+  it('a long drag of several parts keeps one patch per part, touches only the moved parts, and undoes exactly', () => {
+    resetEditor();
+    const a = editor().addPart('battery', { x: 0, y: 0 })!;
+    const b = editor().addPart('battery', { x: 200, y: 0 })!;
+    const c = editor().addPart('fuse', { x: 400, y: 0 })!;
+    const still = editor().doc.parts.find((p) => p.id === c)!;
+    for (let k = 1; k <= 300; k++) {
+      editor().moveParts([{ id: a, position: { x: k, y: 0 } }, { id: b, position: { x: 200 + k, y: k } }], 'drag-many');
+    }
+    const step = editor().past.at(-1)!;
+    expect(step.patches).toHaveLength(2);
+    expect(step.inversePatches).toHaveLength(2);
+    // The part not dragged is the very same object (memoised canvas nodes skip it).
+    expect(editor().doc.parts.find((p) => p.id === c)).toBe(still);
+    expect(Object.isFrozen(editor().doc.parts.find((p) => p.id === a))).toBe(true);
+    editor().undo();
+    expect(editor().doc.parts.map((p) => p.position)).toEqual([{ x: 0, y: 0 }, { x: 200, y: 0 }, { x: 400, y: 0 }]);
+    editor().redo();
+    expect(editor().doc.parts.map((p) => p.position)).toEqual([{ x: 300, y: 0 }, { x: 500, y: 300 }, { x: 400, y: 0 }]);
+  });
+
+  it('does not move parts of a read-only diagram', () => {
+    resetEditor(undefined, { readOnly: true });
+    editor().moveParts([{ id: 'x', position: { x: 1, y: 1 } }], 'd');
+    expect(editor().past).toHaveLength(0);
+  });
+
   it('keeps two drags as two steps', () => {
     resetEditor();
     const id = editor().addPart('fuse', { x: 0, y: 0 })!;

@@ -9,12 +9,13 @@
  * label sits a third of the way along its run rather than at the midpoint, so it clears a lead that
  * takes off from the same posts.
  */
-import { memo, useState } from 'react';
-import { BaseEdge, EdgeLabelRenderer, getSmoothStepPath, useStore, type Edge, type EdgeProps, type ReactFlowState } from '@xyflow/react';
+import { memo, useState, type ReactNode } from 'react';
+import { createPortal } from 'react-dom';
+import { BaseEdge, getSmoothStepPath, useStore, type Edge, type EdgeProps, type ReactFlowState } from '@xyflow/react';
 import { useShallow } from 'zustand/react/shallow';
 import type { DiagramCable } from '@shared/diagram';
 import { ErrorIcon, NoteIcon, WarningIcon } from '@/components/icons';
-import { useEditorStore } from '../store';
+import { useCanvasView, useEditorStore } from '../store';
 import { fmtAmps, fmtPct, lengthText, shortConductor } from '../units';
 
 export interface CableEdgeData extends Record<string, unknown> {
@@ -32,6 +33,24 @@ const detailOf = (s: ReactFlowState): Detail => {
   const z = s.transform[2];
   return z >= DETAIL_ZOOM ? 'full' : z >= JUMPER_ZOOM ? 'compact' : 'minimal';
 };
+
+/**
+ * React Flow's edge-label layer, found once per flow. React Flow's own EdgeLabelRenderer looks the layer
+ * up with querySelector in a store selector, which runs for every edge on every store update (each drag
+ * frame): with a few hundred cables that was the largest single cost of a drag.
+ */
+const labelLayers = new WeakMap<HTMLElement, Element | null>();
+const selectDomNode = (s: ReactFlowState) => s.domNode;
+function EdgeLabel({ children }: { children: ReactNode }) {
+  const dom = useStore(selectDomNode);
+  if (!dom) return null;
+  let layer = labelLayers.get(dom);
+  if (!layer) {
+    layer = dom.querySelector('.react-flow__edgelabel-renderer');
+    if (layer) labelLayers.set(dom, layer);
+  }
+  return layer ? createPortal(children, layer) : null;
+}
 
 const fmtCurrent = (a: number) => (Math.abs(a) >= 1000 ? `${(a / 1000).toFixed(2)} kA` : fmtAmps(a));
 
@@ -61,10 +80,10 @@ function pointAlong(path: string, t: number): [number, number] | null {
 }
 
 function CableEdgeView({ id, data, selected, sourceX, sourceY, targetX, targetY, sourcePosition, targetPosition }: EdgeProps<CableFlowEdge>) {
-  const unitSystem = useEditorStore((s) => s.unitSystem);
+  const unitSystem = useCanvasView((s) => s.unitSystem);
   const detail = useStore(detailOf);
   const [hover, setHover] = useState(false);
-  const r = useEditorStore(
+  const r = useCanvasView(
     useShallow((s) => {
       const canvas = s.results?.canvas;
       const c = canvas?.cables[id];
@@ -80,7 +99,7 @@ function CableEdgeView({ id, data, selected, sourceX, sourceY, targetX, targetY,
       };
     }),
   );
-  const badge = useEditorStore(useShallow((s) => s.results?.canvas.badges[id] ?? null));
+  const badge = useCanvasView(useShallow((s) => s.results?.canvas.badges[id] ?? null));
   const [path, midX, midY] = getSmoothStepPath({ sourceX, sourceY, targetX, targetY, sourcePosition, targetPosition, borderRadius: 8, offset: 18 });
   if (!data) return null;
   const { cable } = data;
@@ -116,7 +135,7 @@ function CableEdgeView({ id, data, selected, sourceX, sourceY, targetX, targetY,
         {...(arrow ? (r!.dir > 0 ? { markerEnd: `url(#${arrow})` } : { markerStart: `url(#${arrow})` }) : {})}
       />
       {showLabel ? (
-        <EdgeLabelRenderer>
+        <EdgeLabel>
           <div
             className={`bw-cable-label nodrag nopan${selected ? ' bw-cable-label-selected' : ''}${over || faulted ? ' bw-over' : ''}`}
             style={{ transform: `translate(-50%, -50%) translate(${labelX}px, ${labelY}px)`, zIndex: selected || hover ? 1 : undefined }}
@@ -140,7 +159,7 @@ function CableEdgeView({ id, data, selected, sourceX, sourceY, targetX, targetY,
               </span>
             ) : null}
           </div>
-        </EdgeLabelRenderer>
+        </EdgeLabel>
       ) : null}
     </>
   );

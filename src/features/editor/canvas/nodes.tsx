@@ -9,7 +9,7 @@ import { useShallow } from 'zustand/react/shallow';
 import type { DiagramPart } from '@shared/diagram';
 import { PART_TYPES, type PartType } from '@shared/electrical/parts';
 import { ErrorIcon, NoteIcon, WarningIcon } from '@/components/icons';
-import { useEditorStore } from '../store';
+import { useCanvasView, useEditorStore } from '../store';
 import type { CanvasMark } from '../results/types';
 import { baseBox, partBox, POSITION, rotatePlacement, terminalPlacements, type TerminalPlacement } from './geometry';
 import { PartSymbol } from './symbols';
@@ -32,7 +32,8 @@ function TerminalHandle({ nodeId, placement, readOnly, label }: { nodeId: string
   // A primitive key so handles re-render only when a connection starts or ends.
   const from = useConnection((c) => (c.inProgress && c.fromHandle ? `${c.fromHandle.nodeId}\u0000${c.fromHandle.id ?? ''}` : ''));
   const [fromNode, fromTerminal] = from ? from.split('\u0000') : ['', ''];
-  const fromPolarity = useEditorStore((s) => (fromNode ? terminalPolarity(s.doc.parts.find((p) => p.id === fromNode), fromTerminal) : null));
+  // Read, not subscribed: it matters only while a connection is drawn (and `from` re-renders this then).
+  const fromPolarity = fromNode ? terminalPolarity(useEditorStore.getState().doc.parts.find((p) => p.id === fromNode), fromTerminal) : null;
   const isSource = from !== '' && fromNode === nodeId && fromTerminal === placement.terminal;
   const allowed = from !== '' && fromNode !== nodeId;
   const crossesPolarity = allowed && !!fromPolarity && !!placement.polarity && fromPolarity !== placement.polarity;
@@ -57,7 +58,7 @@ function TerminalHandle({ nodeId, placement, readOnly, label }: { nodeId: string
 }
 
 function FindingsBadge({ id }: { id: string }) {
-  const badge = useEditorStore(useShallow((s) => s.results?.canvas.badges[id] ?? null));
+  const badge = useCanvasView(useShallow((s) => s.results?.canvas.badges[id] ?? null));
   if (!badge) return null;
   const Icon = badge.severity === 'error' ? ErrorIcon : badge.severity === 'warning' ? WarningIcon : NoteIcon;
   const word = badge.severity === 'error' ? 'error' : badge.severity === 'warning' ? 'warning' : 'note';
@@ -118,7 +119,7 @@ const MARK_TEXT: Record<CanvasMark, string> = {
 
 /** The mode's mark on a part: the faulted battery, the one that empties first, the pair exchanging most. */
 function MarkTag({ id }: { id: string }) {
-  const m = useEditorStore((s) => s.results?.canvas.marks[id]);
+  const m = useCanvasView((s) => s.results?.canvas.marks[id]);
   if (!m) return null;
   return (
     <span className={`bw-mark bw-mark-${m} absolute -top-2.5 left-1 rounded px-1 text-[9.5px] leading-4 font-bold uppercase tracking-wide ${m === 'faulted' || m === 'worst-fault' ? 'bg-fault-700 text-white' : 'bg-caution-700 text-white'}`} data-testid={`mark-${id}`}>
@@ -128,7 +129,7 @@ function MarkTag({ id }: { id: string }) {
 }
 
 function BatteryResult({ id }: { id: string }) {
-  const r = useEditorStore(
+  const r = useCanvasView(
     useShallow((s) => {
       const c = s.results?.canvas;
       const b = c?.batteries[id];
@@ -169,7 +170,7 @@ function BatteryResult({ id }: { id: string }) {
 }
 
 function FuseResult({ id }: { id: string }) {
-  const r = useEditorStore(
+  const r = useCanvasView(
     useShallow((s) => {
       const c = s.results?.canvas;
       const f = c?.fuses[id];
@@ -208,7 +209,7 @@ function FuseResult({ id }: { id: string }) {
 }
 
 function LoadResult({ id }: { id: string }) {
-  const r = useEditorStore(
+  const r = useCanvasView(
     useShallow((s) => {
       const l = s.results?.canvas.loads[id];
       return l ? { v: Math.round(l.voltage_V * 100) / 100, drop: Math.round(l.drop_pct * 100) / 100 } : null;

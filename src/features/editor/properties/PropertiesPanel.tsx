@@ -2,7 +2,7 @@
  * The Properties tab: the selected part or cable, or the bank-wide settings when nothing is selected.
  * Values are validated by the core's zod schemas; units follow the team's system and accept either.
  */
-import { useCallback, useId, useMemo } from 'react';
+import { memo, useCallback, useId, useMemo } from 'react';
 import { useShallow } from 'zustand/react/shallow';
 import { cableSchema, settingsSchema, terminalsOf, type DiagramCable, type DiagramPart } from '@shared/diagram';
 import {
@@ -129,7 +129,13 @@ function describePart(p: DiagramPart) {
   return p.label || `${PART_TYPES[p.type].name} ${p.id}`;
 }
 
-function PartProperties({ part, unitSystem, readOnly }: { part: DiagramPart; unitSystem: UnitSystem; readOnly: boolean }) {
+type PartPropertiesProps = { part: DiagramPart; unitSystem: UnitSystem; readOnly: boolean };
+
+/** The form shows label and props only: a move (each frame of a drag) must not re-render it. */
+const sameForm = (a: PartPropertiesProps, b: PartPropertiesProps) =>
+  a.unitSystem === b.unitSystem && a.readOnly === b.readOnly && a.part.id === b.part.id && a.part.type === b.part.type && a.part.label === b.part.label && a.part.props === b.part.props;
+
+const PartProperties = memo(function PartProperties({ part, unitSystem, readOnly }: PartPropertiesProps) {
   const updatePart = useEditorStore((s) => s.updatePart);
   const def = PART_TYPES[part.type];
   const specs = part.type === 'dc_load' ? DC_LOAD_FIELDS[part.props.mode] : PART_FIELDS[part.type];
@@ -195,7 +201,7 @@ function PartProperties({ part, unitSystem, readOnly }: { part: DiagramPart; uni
       <SpecForm key={part.id + (part.type === 'dc_load' ? part.props.mode : '')} specs={specs} value={part.props} schema={def.schema} unitSystem={unitSystem} disabled={readOnly} onCommit={onCommit} />
     </div>
   );
-}
+}, sameForm);
 
 function TerminalSelect({ label, value, options, onChange, disabled }: { label: string; value: string; options: { value: string; label: string }[]; onChange: (v: string) => void; disabled?: boolean }) {
   const id = useId();

@@ -1,0 +1,349 @@
+/**
+ * Browser benchmark of the editor with 200 parts (node_modules/.bin/tsx bench/browser/editor-drag.ts).
+ *
+ * Starts a real server (tests/browser/support.ts: builds the client when stale, fresh PGlite data dir,
+ * demo data), signs in as the demo designer, creates a 200-part diagram through the API, opens it in
+ * Debian's chromium and measures:
+ * - dragging one battery with page.mouse in many steps, at the fitted view (every part and cable on
+ *   screen) and zoomed in: requestAnimationFrame timestamps recorded in the page → frame intervals
+ *   (median, 95th percentile) and frames per second, plus long tasks; an idle baseline first;
+ * - a property edit → updated figure on the canvas: from the input event's timestamp to the
+ *   MutationObserver seeing the battery's figure text change (one battery's internal resistance, and the
+ *   inverter's power, which changes every figure); the results hook's performance marks give the
+ *   worker's own time and when the full analysis (findings) landed;
+ * - the JavaScript the editor route loads (files, raw and gzipped from dist/client).
+ *
+ * Options: --moves N (default 150), --edits N (default 10), --json (machine-readable output only).
+ * A benchmark, not a test: it asserts nothing and is not part of npm test.
+ */
+import { readFileSync, writeFileSync, mkdirSync } from 'node:fs';
+import { cpus, loadavg } from 'node:os';
+import { basename, join } from 'node:path';
+import { gzipSync } from 'node:zlib';
+import type { Page } from 'playwright-core';
+import { launchBrowser, screenshotPath, signIn, startServer } from '../../tests/browser/support';
+import { bank200 } from './bank200';
+
+const args = process.argv.slice(2);
+const opt = (name: string, dflt: number) => {
+  const i = args.indexOf(name);
+  return i >= 0 ? Number(args[i + 1]) : dflt;
+};
+const MOVES = opt('--moves', 150);
+const EDITS = opt('--edits', 10);
+const SKIP_ZOOMED = args.includes('--fit-only');
+const JSON_ONLY = args.includes('--json');
+/** Write a CPU profile of the fitted-view drag to test-results/bench-editor-drag.cpuprofile. */
+const PROFILE = args.includes('--profile');
+const log = (...xs: unknown[]) => {
+  if (!JSON_ONLY) console.error(...xs);
+};
+
+const quantile = (xs: number[], q: number) => {
+  if (!xs.length) return NaN;
+  const s = [...xs].sort((a, b) => a - b);
+  const pos = (s.length - 1) * q;
+  const lo = Math.floor(pos);
+  return s[lo] + (s[Math.min(lo + 1, s.length - 1)] - s[lo]) * (pos - lo);
+};
+const r1 = (x: number) => Math.round(x * 10) / 10;
+
+interface FrameStats {
+  frames: number;
+  median_ms: number;
+  p95_ms: number;
+  max_ms: number;
+  fps_median: number;
+  fps_p5: number;
+  longTasks: number;
+  longTask_ms: number;
+}
+
+function frameStats(stamps: number[], longTasks: number[]): FrameStats {
+  const d = stamps.slice(1).map((t, i) => t - stamps[i]);
+  const median = quantile(d, 0.5);
+  const p95 = quantile(d, 0.95);
+  return {
+    frames: d.length, median_ms: r1(median), p95_ms: r1(p95), max_ms: r1(Math.max(...d)),
+    fps_median: r1(1000 / median), fps_p5: r1(1000 / p95), longTasks: longTasks.length, longTask_ms: r1(longTasks.reduce((a, b) => a + b, 0)),
+  };
+}
+
+/** Start recording rAF timestamps and long tasks in the page. */
+async function startFrames(page: Page) {
+  await page.evaluate(() => {
+    const w = window as unknown as { __bw: { stamps: number[]; long: number[]; on: boolean; obs?: PerformanceObserver } };
+    w.__bw = { stamps: [], long: [], on: true };
+    try {
+      w.__bw.obs = new PerformanceObserver((list) => {
+        for (const e of list.getEntries()) w.__bw.long.push(e.duration);
+      });
+      w.__bw.obs.observe({ type: 'longtask', buffered: false });
+    } catch {
+      /* no long-task timing */
+    }
+    const tick = (t: number) => {
+      if (!w.__bw.on) return;
+      w.__bw.stamps.push(t);
+      requestAnimationFrame(tick);
+    };
+    requestAnimationFrame(tick);
+  });
+}
+
+async function stopFrames(page: Page): Promise<FrameStats> {
+  const { stamps, long } = await page.evaluate(() => {
+    const w = window as unknown as { __bw: { stamps: number[]; long: number[]; on: boolean; obs?: PerformanceObserver } };
+    w.__bw.on = false;
+    w.__bw.obs?.disconnect();
+    return { stamps: w.__bw.stamps, long: w.__bw.long };
+  });
+  return frameStats(stamps, long);
+}
+
+async function nodeCentre(page: Page, id: string) {
+  const box = await page.locator(`.react-flow__node[data-id="${id}"]`).boundingBox();
+  if (!box) throw new Error(`node ${id} not on screen`);
+  return { x: box.x + box.width / 2, y: box.y + box.height / 2, w: box.width };
+}
+
+/** Drag a node in `moves` small steps along a loop, recording frames. */
+type MainThread = Record<'script_ms' | 'layout_ms' | 'style_ms' | 'task_ms', number>;
+
+/** Main-thread time by kind over `f`, from the DevTools protocol's Performance metrics. */
+async function mainThread<T>(page: Page, f: () => Promise<T>): Promise<[T, MainThread]> {
+  const cdp = await page.context().newCDPSession(page);
+  await cdp.send('Performance.enable');
+  const read = async () => Object.fromEntries(((await cdp.send('Performance.getMetrics')) as { metrics: { name: string; value: number }[] }).metrics.map((m) => [m.name, m.value]));
+  const a = await read();
+  const out = await f();
+  const b = await read();
+  await cdp.detach();
+  const d = (k: string) => r1((b[k] - a[k]) * 1000);
+  return [out, { script_ms: d('ScriptDuration'), layout_ms: d('LayoutDuration'), style_ms: d('RecalcStyleDuration'), task_ms: d('TaskDuration') }];
+}
+
+async function dragBench(page: Page, id: string, moves: number, radius: number): Promise<FrameStats & { moved: boolean; zoom: number; mainThread: MainThread; wall_ms: number }> {
+  const zoom = await page.evaluate(() => {
+    const t = getComputedStyle(document.querySelector('.react-flow__viewport')!).transform;
+    return new DOMMatrixReadOnly(t).a;
+  });
+  const before = await page.locator(`.react-flow__node[data-id="${id}"]`).getAttribute('style');
+  const c = await nodeCentre(page, id);
+  // Grab the node's body, left of its label (the label passes pointer events through anyway).
+  const x0 = c.x - c.w * 0.3;
+  const y0 = c.y;
+  await page.mouse.move(x0, y0);
+  await page.mouse.down();
+  const t0 = Date.now();
+  const [stats, main] = await mainThread(page, async () => {
+    await startFrames(page);
+    for (let i = 1; i <= moves; i++) {
+      // A loop back to near the start (a few grid steps off), so the part stays among its neighbours.
+      const a = (i / moves) * Math.PI * 2;
+      await page.mouse.move(x0 + Math.sin(a) * radius + (i / moves) * 12, y0 + (1 - Math.cos(a)) * radius * 0.5);
+    }
+    return stopFrames(page);
+  });
+  const wall_ms = Date.now() - t0;
+  await page.mouse.up();
+  const after = await page.locator(`.react-flow__node[data-id="${id}"]`).getAttribute('style');
+  return { ...stats, moved: before !== after, zoom: Math.round(zoom * 100) / 100, mainThread: main, wall_ms };
+}
+
+interface EditSample {
+  toDom_ms: number;
+  figuresMark_ms: number | null;
+  worker_ms: number | null;
+  full_ms: number | null;
+}
+
+/** Type values into a field one edit at a time; time input event → the watched figure's text changes. */
+async function editBench(page: Page, fieldLabel: string, values: string[], watch: string): Promise<EditSample[]> {
+  const field = page.getByLabel(fieldLabel, { exact: true });
+  await field.waitFor();
+  const out: EditSample[] = [];
+  for (const v of values) {
+    const done = field.evaluate(
+      (input, sel) =>
+        new Promise<EditSample>((resolve, reject) => {
+          const target = document.querySelector(sel);
+          if (!target) return reject(new Error(`no ${sel}`));
+          const before = target.textContent;
+          let t0 = 0;
+          const marksBefore = performance.getEntriesByType('mark').length;
+          const onInput = (e: Event) => {
+            t0 = e.timeStamp;
+          };
+          input.addEventListener('input', onInput, { capture: true, once: true });
+          const obs = new MutationObserver(() => {
+            if (!t0 || target.textContent === before) return;
+            const t1 = performance.now();
+            obs.disconnect();
+            // Let the full analysis land too, then read the marks of this edit.
+            setTimeout(() => {
+              const marks = performance.getEntriesByType('mark').slice(marksBefore) as PerformanceMark[];
+              const change = marks.find((m) => m.name === 'bw-change');
+              const figures = marks.find((m) => m.name === 'bw-figures');
+              const full = marks.filter((m) => m.name === 'bw-full').pop();
+              resolve({
+                toDom_ms: t1 - t0,
+                figuresMark_ms: figures && change ? figures.startTime - change.startTime : null,
+                worker_ms: figures ? (figures.detail as { worker_ms: number }).worker_ms : null,
+                full_ms: full && change ? full.startTime - change.startTime : null,
+              });
+            }, 1500);
+          });
+          obs.observe(target, { subtree: true, childList: true, characterData: true });
+          setTimeout(() => reject(new Error('no update within 10 s')), 10_000);
+        }),
+      watch,
+    );
+    await field.fill(v);
+    out.push(await done);
+  }
+  return out;
+}
+
+function summarise(samples: EditSample[]) {
+  const pick = (f: (s: EditSample) => number | null) => samples.map(f).filter((x): x is number => x !== null);
+  const q = (xs: number[]) => (xs.length ? { median: r1(quantile(xs, 0.5)), p90: r1(quantile(xs, 0.9)), max: r1(Math.max(...xs)) } : null);
+  return { n: samples.length, toDom_ms: q(pick((s) => s.toDom_ms)), figuresMark_ms: q(pick((s) => s.figuresMark_ms)), worker_ms: q(pick((s) => s.worker_ms)), full_ms: q(pick((s) => s.full_ms)) };
+}
+
+/** The scripts the editor route loaded on open (not the workers), with sizes from dist/client. */
+async function routeScripts(page: Page) {
+  const entries = await page.evaluate(() =>
+    (performance.getEntriesByType('resource') as PerformanceResourceTiming[])
+      .filter((e) => /\.js(\?|$)/.test(e.name))
+      .map((e) => ({ name: new URL(e.name).pathname, initiator: e.initiatorType })),
+  );
+  const rows = entries.map((e) => {
+    let raw = 0;
+    let gz = 0;
+    try {
+      const buf = readFileSync(join(process.cwd(), 'dist/client', e.name));
+      raw = buf.length;
+      gz = gzipSync(buf, { level: 9 }).length;
+    } catch {
+      /* not a built file */
+    }
+    return { file: basename(e.name), initiator: e.initiator, kB: r1(raw / 1024), gzip_kB: r1(gz / 1024) };
+  });
+  const worker = (r: { file: string }) => /worker/i.test(r.file);
+  const initial = rows.filter((r) => !worker(r));
+  return { initial, workers: rows.filter(worker), initialGzip_kB: r1(initial.reduce((a, r) => a + r.gzip_kB, 0)), initial_kB: r1(initial.reduce((a, r) => a + r.kB, 0)) };
+}
+
+async function main() {
+  const load0 = loadavg();
+  log(`starting the server (builds the client when stale)…`);
+  const server = await startServer();
+  const browser = await launchBrowser();
+  try {
+    const page = await browser.newPage({ viewport: { width: 1440, height: 900 } });
+    page.setDefaultTimeout(60_000);
+    // tsx keeps function names with an `__name` helper that the page does not have.
+    await page.addInitScript('window.__name = (f) => f');
+    await signIn(page, server.url, 'designer@demo.test');
+    await page.waitForURL(/\/projects/);
+    const doc = bank200();
+    const id = await page.evaluate(async (content) => {
+      const me = await (await fetch('/api/auth/me')).json();
+      const { projects } = await (await fetch(`/api/projects?teamId=${me.teams[0].id}`)).json();
+      const res = await fetch(`/api/projects/${projects[0].id}/diagrams`, {
+        method: 'POST', headers: { 'Content-Type': 'application/json' }, body: JSON.stringify({ name: 'Benchmark bank, 200 parts', content }),
+      });
+      if (res.status !== 201) throw new Error(`create diagram answered ${res.status}: ${await res.text()}`);
+      return (await res.json()).diagram.id as string;
+    }, doc);
+    log(`diagram ${id}: ${doc.parts.length} parts, ${doc.cables.length} cables; opening the editor…`);
+    const tOpen = Date.now();
+    await page.goto(`${server.url}/diagrams/${id}`);
+    await page.getByRole('heading', { name: 'Benchmark bank, 200 parts' }).waitFor();
+    await page.getByRole('button', { name: 'Dismiss the safety note' }).click();
+    await page.waitForFunction((n) => document.querySelectorAll('.react-flow__node').length === n, doc.parts.length);
+    await page.getByTestId('share-bat1').waitFor();
+    const open_ms = Date.now() - tOpen;
+    const scripts = await routeScripts(page);
+    await page.waitForTimeout(1500);
+
+    await startFrames(page);
+    await page.waitForTimeout(1000);
+    const idle = await stopFrames(page);
+    log('idle', idle);
+
+    const cdp = PROFILE ? await page.context().newCDPSession(page) : null;
+    if (cdp) {
+      await cdp.send('Profiler.enable');
+      await cdp.send('Profiler.setSamplingInterval', { interval: 200 });
+      await cdp.send('Profiler.start');
+    }
+    const dragFit = await dragBench(page, 'bat30', MOVES, 40);
+    if (cdp) {
+      const { profile } = (await cdp.send('Profiler.stop')) as { profile: unknown };
+      mkdirSync('test-results', { recursive: true });
+      writeFileSync('test-results/bench-editor-drag.cpuprofile', JSON.stringify(profile));
+      await cdp.detach();
+    }
+    log('drag at the fitted view', dragFit);
+    await page.screenshot({ path: screenshotPath('bench-editor-200-fit') });
+
+    // Zoom in on the middle of the bank (about 1:1) and drag again: fewer parts on screen, larger ones.
+    if (SKIP_ZOOMED) throw Object.assign(new Error('--fit-only'), { partial: { idle, dragFit } });
+    const c = await nodeCentre(page, 'bat32');
+    await page.mouse.move(c.x, c.y);
+    for (let i = 0; i < 8; i++) {
+      await page.mouse.wheel(0, -200);
+      await page.waitForTimeout(60);
+    }
+    await page.waitForTimeout(500);
+    const dragZoomed = await dragBench(page, 'bat32', MOVES, 120);
+    log('drag zoomed in', dragZoomed);
+    await page.screenshot({ path: screenshotPath('bench-editor-200-zoomed') });
+
+    // Property edits: one battery's internal resistance (its own figure changes), then the inverter's power (every figure changes).
+    await page.locator('.react-flow__node[data-id="bat32"]').click({ position: { x: 12, y: 12 } });
+    const vals = (a: string, b: string) => Array.from({ length: EDITS }, (_, i) => (i % 2 ? a : b));
+    const battery = await editBench(page, 'Internal resistance', vals('2', '30'), '[data-testid="share-bat32"]');
+    log('battery edit', summarise(battery));
+    await page.getByRole('button', { name: 'Fit' }).click();
+    await page.waitForTimeout(600);
+    await page.locator('.react-flow__node[data-id="inverter"]').click({ position: { x: 4, y: 4 } });
+    const inverter = await editBench(page, 'AC output power', vals('2000', '2600'), '[data-testid="share-bat1"]');
+    log('inverter edit', summarise(inverter));
+
+    const result = {
+      machine: { cores: cpus().length, cpu: cpus()[0]?.model ?? 'unknown', node: process.version, loadavgStart: load0.map(r1), loadavgEnd: loadavg().map(r1) },
+      diagram: { parts: doc.parts.length, cables: doc.cables.length },
+      open_ms,
+      scripts,
+      idle,
+      dragFit,
+      dragZoomed,
+      editBattery: summarise(battery),
+      editInverter: summarise(inverter),
+      raw: { battery, inverter },
+    };
+    mkdirSync('test-results', { recursive: true });
+    writeFileSync('test-results/bench-editor-drag.json', JSON.stringify(result, null, 2));
+    if (JSON_ONLY) process.stdout.write(JSON.stringify(result, null, 2) + '\n');
+    else {
+      const { raw: _raw, ...brief } = result;
+      void _raw;
+      console.log(JSON.stringify(brief, null, 2));
+    }
+  } catch (e) {
+    const partial = (e as { partial?: unknown }).partial;
+    if (!partial) throw e;
+    console.log(JSON.stringify(partial, null, 2));
+  } finally {
+    await browser.close();
+    await server.stop();
+  }
+}
+
+main().catch((e) => {
+  console.error(e);
+  process.exit(1);
+});
