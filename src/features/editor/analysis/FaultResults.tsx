@@ -72,7 +72,10 @@ export function FaultResults({ result, doc, labelOf }: { result: AnalysisOk; doc
                     <PartLink id={p.id}>{labelOf(p.id)}</PartLink>
                   </td>
                   {one ? <td className="text-right">{fmtKA(here)}</td> : null}
-                  <td className="text-right">{max ? fmtKA(max.current_A) : '—'}</td>
+                  <td className="text-right">
+                    {max ? fmtKA(max.current_A) : '—'}
+                    {max ? <span className="sr-only">, largest when {faultCaseLabel(sweep.cases[max.case], labelOf)}</span> : null}
+                  </td>
                   <td className="text-right text-graphite-600">{fmtKA(p.props.interrupting_A)}</td>
                   <td className="text-right">{max ? <Verdict current_A={max.current_A} interrupting_A={p.props.interrupting_A} /> : '—'}</td>
                 </tr>
@@ -80,7 +83,7 @@ export function FaultResults({ result, doc, labelOf }: { result: AnalysisOk; doc
             })}
           </tbody>
           <caption className="caption-bottom pt-1 text-left text-[11px] text-graphite-500">
-            Max: the largest prospective current through the fuse over all {sweep.cases.length} fault cases (hover a row for the case).
+            Max: the largest prospective current through the fuse over all {sweep.cases.length} fault cases (a row's tooltip names that case).
           </caption>
         </table>
       ) : (

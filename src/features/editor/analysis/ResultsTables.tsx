@@ -32,7 +32,7 @@ export function BatteriesTable({ op, labelOf }: { op: OperatingPoint; labelOf: L
   if (!entries.length) return null;
   const scale = Math.max(1e-9, ...entries.map(([, s]) => Math.max(Math.abs(s.share_pct), s.idealShare_pct))) * 1.1;
   return (
-    <table className={tableClass} aria-label="Batteries">
+    <table className={tableClass} aria-label="Batteries and strings">
       <colgroup>
         <col className="w-[24%]" />
         <col className="w-[16%]" />
@@ -42,7 +42,7 @@ export function BatteriesTable({ op, labelOf }: { op: OperatingPoint; labelOf: L
       </colgroup>
       <thead>
         <tr>
-          <th className="text-left">Battery</th>
+          <th className="text-left">{entries.every(([, s]) => s.type === 'battery') ? 'Battery' : 'Unit'}</th>
           <th className="text-right">Current</th>
           <th className="text-left pl-1.5">Share</th>
           <th className="text-right">Ideal</th>

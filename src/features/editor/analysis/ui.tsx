@@ -7,9 +7,9 @@ export const fmtA = (a: number) => `${Math.abs(a) >= 1000 ? a.toFixed(0) : Math.
 export const fmtV = (v: number, digits = 2) => `${v.toFixed(digits)} V`;
 export const fmtW = (w: number) => `${Math.abs(w) >= 100 ? w.toFixed(0) : w.toFixed(1)} W`;
 export const fmtPct = (p: number, digits = 1) => `${p.toFixed(digits)} %`;
-export const fmtPp = (p: number) => `${p >= 0 ? '+' : '−'}${Math.abs(p).toFixed(1)} pp`;
+export const fmtPp = (p: number) => (Math.abs(p) < 0.05 ? '0.0 pp' : `${p > 0 ? '+' : '−'}${Math.abs(p).toFixed(1)} pp`);
 export const fmtAh = (ah: number) => `${ah >= 100 ? ah.toFixed(0) : ah.toFixed(1)} Ah`;
-export const fmtKA = (a: number) => (Math.abs(a) >= 1000 ? `${(a / 1000).toFixed(2)} kA` : fmtA(a));
+export const fmtKA = (a: number) => (Math.abs(a) >= 10_000 ? `${(a / 1000).toFixed(1)} kA` : Math.abs(a) >= 1000 ? `${(a / 1000).toFixed(2)} kA` : fmtA(a));
 
 export function Section({ title, defaultOpen = true, children, aside }: { title: string; defaultOpen?: boolean; children: ReactNode; aside?: ReactNode }) {
   const [open, setOpen] = useState(defaultOpen);

@@ -91,10 +91,14 @@ function ensureWorker(): Worker | null {
     pendingKeys[e.data.job].delete(e.data.seq);
     onAnswer(e.data, key);
   };
-  worker.onerror = () => {
+  worker.onerror = (e: ErrorEvent) => {
+    // Start a fresh worker on the next request; report the failure for what was asked.
+    worker?.terminate();
+    worker = null;
     for (const job of JOBS) {
+      pendingKeys[job].clear();
       const slot = useCoreResults.getState()[job];
-      if (slot.status === 'computing') setSlot(job, { ...slot, status: 'error', message: 'The analysis stopped unexpectedly.' });
+      if (slot.status === 'computing') setSlot(job, { ...slot, status: 'error', message: `The analysis stopped unexpectedly${e.message ? ` (${e.message})` : ''}. It runs again on the next change.` });
     }
   };
   return worker;
