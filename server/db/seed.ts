@@ -7,7 +7,8 @@ import type { Role } from '../../shared/roles';
 import { hashPassword } from '../auth/passwords';
 import type { Db, Tx } from './client';
 import { demoDiagramContents, demoRevisionContents } from './demo-diagrams';
-import { activity, diagramRevisions, diagrams, memberships, projects, reviewComments, reviewDecisions, reviewRequests, teams, users } from './schema';
+import { demoLibraryItems } from './demo-library';
+import { activity, diagramRevisions, diagrams, libraryItems, memberships, projects, reviewComments, reviewDecisions, reviewRequests, teams, users } from './schema';
 import { newId } from '../ids';
 import { contentHash } from '../services/content-hash';
 import { computeResultsSummary } from '../services/summaries';
@@ -101,6 +102,21 @@ export async function seedDemo(db: Db, password: string): Promise<boolean> {
     await seedDemoReview(tx, { diagram: diagramRows[0], projectId: station, designer: designer.id, reviewer: reviewer.id, revisionDocs, summaries, at });
     await tx.insert(activity).values(
       demoProjects.map((p) => ({ id: newId(), projectId: p.id, userId: designer.id, action: 'project.created', detail: { name: p.name }, createdAt: at(p.minute) })),
+    );
+    await tx.insert(libraryItems).values(
+      demoLibraryItems().map((item, i) => ({
+        id: newId(),
+        teamId,
+        kind: item.kind,
+        name: item.name,
+        manufacturer: item.manufacturer ?? '',
+        partNumber: item.partNumber ?? '',
+        props: item.props,
+        createdBy: designer.id,
+        updatedBy: designer.id,
+        createdAt: at(5 + i),
+        updatedAt: at(5 + i),
+      })),
     );
   });
   return true;

@@ -74,9 +74,11 @@ export async function sniffUpload(bytes: Uint8Array): Promise<SniffedFile> {
     throw unsupported(what, `This file's content is ${what}, not a PDF, JPEG, PNG or WebP. Only data sheets (PDF) and photos (JPEG, PNG, WebP) can be attached.`);
   }
   if (!(found.mime in UPLOAD_TYPES)) {
+    const markup = found.mime === 'application/xml' || found.mime.startsWith('text/') ? describeUnknown(bytes) : null;
+    const what = markup === 'SVG markup' || markup === 'HTML' ? markup : `${found.mime} (.${found.ext})`;
     throw unsupported(
-      found.mime,
-      `This file's content is ${found.mime} (.${found.ext}), whatever its name says. Only data sheets (PDF) and photos (JPEG, PNG, WebP) can be attached.`,
+      what,
+      `This file's content is ${what}, whatever its name says. Only data sheets (PDF) and photos (JPEG, PNG, WebP) can be attached.`,
     );
   }
   const contentType = found.mime as UploadContentType;
