@@ -19,7 +19,6 @@ import { faultSweep, prepareFaults } from '../analysis/faults';
 import type { AnalysisIssue } from '../analysis/types';
 import { cableRunConductorResistance_ohm, cableTemperature_C } from '../parts/cable';
 import { fuseDefaults, type FuseProps } from '../parts/passive';
-import { CONDUCTOR_PRESETS } from '../parts/presets';
 import { FUSE_CLASSES, type FuseClassId, nextStandardRating } from '../tables/fuses';
 
 export interface BranchSizing {
@@ -53,14 +52,14 @@ export type SizingResult = { ok: true; branches: BranchSizing[] } | { ok: false;
 const CLASS_PREFERENCE: FuseClassId[] = ['class_t', 'battery_terminal', 'anl', 'breaker_dc', 'strip', 'blade'];
 
 /**
- * Sizes tried, smallest first, in the branch's own size system: the sizes battery cable is commonly made
- * in (the conductor presets: 8 AWG … 4/0, then kcmil), or the IEC 60228 metric series from 1.5 mm².
+ * Sizes tried, smallest first, in the branch's own size system: the AWG sizes from 14 AWG (the smallest
+ * the ampacity tables list) except 3 AWG, which battery cable is rarely made in (common practice), then
+ * kcmil; or the IEC 60228 metric series from 1.5 mm².
  */
 function candidates(present: ConductorSize): ConductorSize[] {
   if (present.system === 'mm2') return MM2_SIZES.filter((s) => s >= 1.5).map((size) => ({ system: 'mm2', size }) as ConductorSize);
-  const presets = CONDUCTOR_PRESETS.map((p) => p.props).filter((c) => c.system !== 'mm2');
-  const largest = presets.filter((c) => c.system === 'kcmil').reduce((a, c) => Math.max(a, c.size as number), 0);
-  return [...presets, ...usStandardSizes().filter((c) => c.system === 'kcmil' && c.size > largest)];
+  const us = usStandardSizes().filter((c) => !(c.system === 'awg' && c.size === '3'));
+  return us.slice(us.findIndex((c) => c.system === 'awg' && c.size === '14'));
 }
 
 function branchCables(ctx: AnalysisContext, source: string): DiagramCable[] {
@@ -124,7 +123,9 @@ export function suggestSizing(doc: DiagramDocument): SizingResult {
     const reasoning = [
       `${label} carries ${fmt(share)} A in the load case${fullScale > 1.0001 ? ` (${fmt(full)} A at the inverters' rated power)` : ''}.`,
       `${fmt(share)} A × ${s.designMargin} = ${fmt(share * s.designMargin)} A${fullScale > 1.0001 ? `; the larger of that and ${fmt(full)} A is ${fmt(required)} A` : ''}, so the next standard rating is ${rating} A (NEC 240.6(A)).`,
-      pick
+      !sized.length
+        ? `The branch has no cable run of its own (its connections are bolted directly), so no conductor is sized for it.`
+        : pick
         ? `${sizeLabel(conductor)} is the smallest conductor whose corrected ampacity (${fmt(pickAmp)} A, ${s.ampacityTable}) carries ${rating} A (NEC 240.4)${limitedBy === 'drop' ? ` and keeps the branch drop within ${s.voltageDropLimit_pct} %` : ''}; branch drop ${pickDrop.toFixed(2)} %.`
         : `No listed conductor carries ${rating} A within a ${s.voltageDropLimit_pct} % drop; the largest listed size is suggested — split the load over more batteries or shorten the runs.`,
       existing ? '' : `There is no fuse in this branch: a ${FUSE_CLASSES[fuseClass].name} fuse is added at the positive post.`,

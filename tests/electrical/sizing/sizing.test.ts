@@ -48,6 +48,16 @@ describe('fuse and cable sizing', () => {
     expect(r.branches[0].cables[0].conductor).toEqual({ system: 'awg', size: '2' });
   });
 
+  it('small branches get small conductors: 20 A × 1.25 = 25 A fuse (NEC 240.6(A)); 12 AWG carries 25 A at 75 °C (NEC 310.16)', () => {
+    const r = suggestSizing(branch(20));
+    if (!r.ok) throw new Error('sizing failed');
+    const b = r.branches[0];
+    expect(b.fuse.rating_A).toBe(25);
+    // 2.1 m of 12 AWG at 20 A drops about 0.23 V (1.9 % of 12 V), within the 3 % limit.
+    expect(b.cables[0].conductor).toEqual({ system: 'awg', size: '12' });
+    expect(b.ampacity_A).toBe(25);
+  });
+
   it('a long run is sized up for the voltage drop limit', () => {
     const r = suggestSizing(branch(80, 6));
     if (!r.ok) throw new Error('sizing failed');
