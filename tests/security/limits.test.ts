@@ -7,6 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { count } from 'drizzle-orm';
 import { diagrams } from '../../server/db/schema';
 import { DIAGRAM_LIMITS, emptyDiagram } from '../../shared/diagram/schema';
+import { busbarBankTemplate } from '../../shared/diagram/templates';
 import { makeTestApp, type Agent, type TestApp } from '../helpers/app';
 
 let t: TestApp;
@@ -55,6 +56,16 @@ describe('limits', () => {
     const res = await designer.patch(`/api/diagrams/${list[0].id}`).send({ name: 'y'.repeat(1_100_000) });
     expect(res.status).toBe(413);
     expect(res.body.error.details.limitBytes).toBe(1024 * 1024);
+  });
+
+  // Fails today: diagramSchema's superRefine lists terminals from props that failed validation, so this
+  // document throws RangeError inside the parse and the server answers 500 (a tapCount of 2^31 − 1 would
+  // instead try to allocate two billion terminal names: a denial of service by any designer).
+  it.fails('a busbar with an absurd tapCount is refused with 400, not a server fault', async () => {
+    const content = busbarBankTemplate({ count: 1 });
+    (content.parts.find((p) => p.type === 'busbar')!.props as { tapCount: number }).tapCount = 2e300;
+    const res = await designer.post(`/api/projects/${projectId}/diagrams`).send({ name: 'Absurd taps', content });
+    expect(res.status).toBe(400);
   });
 
   it.todo('network element count: a check request over the element limit is refused with a clear 4xx (no check route or limit yet)');
