@@ -155,7 +155,9 @@ export function compileDiagram(doc: DiagramDocument): CompileResult {
     if (p.type === 'switch' && !p.props.closed) {
       notes.push({ code: 'open_switch', message: `${describe(p)} is open; modelled as a very high resistance`, parts: [p.id] });
     }
-    map.parts[p.id] = { elements: [], nodes: Object.fromEntries(def.terminals(p.props).map((t) => [t, terminalNode(p.id, t)])) };
+    const nodes: Record<string, string> = {};
+    for (const t of def.terminals(p.props)) nodes[t] = terminalNode(p.id, t);
+    map.parts[p.id] = { elements: [], nodes };
   }
 
   for (const c of doc.cables) {
@@ -262,10 +264,12 @@ export function compileDiagram(doc: DiagramDocument): CompileResult {
     map.elementOwner[el.id] = owner;
     (owner.kind === 'part' ? map.parts[owner.id] : map.cables[owner.id]).elements.push(el.id);
   }
-  for (const p of Object.values(map.parts)) for (const t of Object.keys(p.nodes)) p.nodes[t] = node(p.nodes[t]);
-  for (const c of Object.values(map.cables)) {
-    c.from_node = node(c.from_node);
-    c.to_node = node(c.to_node);
+  if (anyZero) {
+    for (const p of Object.values(map.parts)) for (const t of Object.keys(p.nodes)) p.nodes[t] = node(p.nodes[t]);
+    for (const c of Object.values(map.cables)) {
+      c.from_node = node(c.from_node);
+      c.to_node = node(c.to_node);
+    }
   }
   const nodeSet = new Set<string>();
   for (const { el } of elements) for (const n of elementNodes(el)) nodeSet.add(n);

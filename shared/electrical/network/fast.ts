@@ -693,7 +693,6 @@ export function linearSweep(prep: PreparedNetwork, options: { omit?: (el: Networ
   const elementIndex = new Map<string, number>();
   for (let e = 0; e < els.length; e++) elementIndex.set(els[e].id, e);
   const volts = (node: number) => y0[slot(node)] + red.off[node];
-  const z = new Float64Array(m + 1);
   return {
     voltage(node) {
       const i = topo.index.get(node);
@@ -742,15 +741,22 @@ export function linearSweep(prep: PreparedNetwork, options: { omit?: (el: Networ
       // Voltage across each watched element in the unchanged network.
       const v0 = new Float64Array(w);
       for (let j = 0; j < w; j++) v0[j] = y0p[wa[j]] - y0p[wb[j]] + wc[j];
-      for (let s = 0; s < variants.length; s++) {
+      // Each variant as a rank-one change: its two nodes, its pivot slots, Δg, ΔJ and the new conductance.
+      const nv = variants.length;
+      const vna = new Int32Array(nv);
+      const vnb = new Int32Array(nv);
+      const vpa = new Int32Array(nv);
+      const vpb = new Int32Array(nv);
+      const vdg = new Float64Array(nv);
+      const vdJ = new Float64Array(nv);
+      const vg = new Float64Array(nv);
+      const vchanged = new Int32Array(nv).fill(-1);
+      for (let s = 0; s < nv; s++) {
         const ch = variants[s];
         if (!(Number.isFinite(ch.r_ohm) && ch.r_ohm > 0)) return solveError('invalid_value', `change ${ch.kind === 'shunt' ? `'${ch.id}'` : `to '${ch.element}'`}: r_ohm must be a finite number > 0`);
-        let na: number;
-        let nb: number;
-        let dg: number;
-        let dJsrc = 0;
-        let changed = -1;
         const gNew = 1 / ch.r_ohm;
+        let dg = gNew;
+        let dJsrc = 0;
         if (ch.kind === 'shunt') {
           const ia = topo.index.get(ch.a);
           const ib = topo.index.get(ch.b);
@@ -758,9 +764,8 @@ export function linearSweep(prep: PreparedNetwork, options: { omit?: (el: Networ
             const node = ia === undefined ? ch.a : ch.b;
             return solveError('unknown_node', `shunt '${ch.id}' refers to node '${node}', which is not in the network`, { nodes: [node] });
           }
-          na = ia;
-          nb = ib;
-          dg = gNew;
+          vna[s] = ia;
+          vnb[s] = ib;
         } else {
           const e = elementIndex.get(ch.element);
           if (e === undefined) return solveError('unknown_element', `change refers to element '${ch.element}', which is not in the network`, { elements: [ch.element] });
@@ -771,47 +776,69 @@ export function linearSweep(prep: PreparedNetwork, options: { omit?: (el: Networ
             dJsrc = -el.ocv_V / el.r_ohm;
           } else if (el.kind === 'resistor' || el.kind === 'load_resistor') dg = gNew - 1 / el.r_ohm;
           else return solveError('invalid_value', `element '${el.id}' (${el.kind}) cannot be shorted: only batteries and resistors`, { elements: [el.id] });
-          na = ends[2 * e];
-          nb = ends[2 * e + 1];
-          changed = e;
+          vna[s] = ends[2 * e];
+          vnb[s] = ends[2 * e + 1];
+          vchanged[s] = e;
         }
-        const pa = pslot(na);
-        const pb = pslot(nb);
-        const dJ = dJsrc - dg * (red.off[na] - red.off[nb]);
-        let alpha = 0;
-        if (pa !== pb && factor) {
-          // Sherman–Morrison: y = y0 + α K⁻¹u with u = e_a − e_b (in pivot order).
-          z.fill(0);
-          if (pa < G) z[pa] = 1;
-          if (pb < G) z[pb] = -1;
-          factor.solvePermuted(z, Math.min(pa, pb));
-          z[G] = 0;
-          const uz = z[pa] - z[pb];
-          const den = 1 + dg * uz;
-          if (!(Math.abs(den) > 1e-300) || !Number.isFinite(den)) return solveError('singular_network', `the network with change ${s + 1} is singular`);
-          alpha = dJ - (dg * (y0p[pa] - y0p[pb] + dJ * uz)) / den;
-        } else z.fill(0);
-        for (let j = 0; j < w; j++) {
-          const v = v0[j] + alpha * (z[wa[j]] - z[wb[j]]);
-          let i: number;
-          switch (wkind[j]) {
-            case KIND_BATTERY:
-              i = (wemf[j] - v) * wg[j];
-              break;
-            case KIND_RESISTOR:
-              i = v * wg[j];
-              break;
-            case KIND_FIXED:
-              i = wemf[j];
-              break;
-            default:
-              i = 0;
+        vpa[s] = pslot(vna[s]);
+        vpb[s] = pslot(vnb[s]);
+        vdg[s] = dg;
+        vdJ[s] = dJsrc - dg * (red.off[vna[s]] - red.off[vnb[s]]);
+        vg[s] = gNew;
+      }
+      // Four variants per block solve (Sherman–Morrison each: y = y0 + α K⁻¹u, u = e_a − e_b).
+      const Z = new Float64Array(4 * (m + 1));
+      for (let s0 = 0; s0 < nv; s0 += 4) {
+        Z.fill(0);
+        let from = G;
+        for (let r = 0; r < 4 && s0 + r < nv; r++) {
+          const pa = vpa[s0 + r];
+          const pb = vpb[s0 + r];
+          if (pa === pb || !factor) continue;
+          if (pa < G) Z[4 * pa + r] = 1;
+          if (pb < G) Z[4 * pb + r] = -1;
+          from = Math.min(from, pa, pb);
+        }
+        if (from < G) factor!.solvePermuted4(Z, from);
+        for (let r = 0; r < 4 && s0 + r < nv; r++) {
+          const s = s0 + r;
+          const pa = vpa[s];
+          const pb = vpb[s];
+          const dg = vdg[s];
+          const dJ = vdJ[s];
+          const gNew = vg[s];
+          const changed = vchanged[s];
+          let alpha = 0;
+          if (pa !== pb && factor) {
+            const uz = Z[4 * pa + r] - Z[4 * pb + r];
+            const den = 1 + dg * uz;
+            if (!(Math.abs(den) > 1e-300) || !Number.isFinite(den)) return solveError('singular_network', `the network with change ${s + 1} is singular`);
+            alpha = dJ - (dg * (y0p[pa] - y0p[pb] + dJ * uz)) / den;
           }
-          currents[j] = wel[j] === changed ? (els[changed].kind === 'battery' ? -v : v) * gNew : i;
+          for (let j = 0; j < w; j++) {
+            const v = v0[j] + alpha * (Z[4 * wa[j] + r] - Z[4 * wb[j] + r]);
+            let i: number;
+            switch (wkind[j]) {
+              case KIND_BATTERY:
+                i = (wemf[j] - v) * wg[j];
+                break;
+              case KIND_RESISTOR:
+                i = v * wg[j];
+                break;
+              case KIND_FIXED:
+                i = wemf[j];
+                break;
+              default:
+                i = 0;
+            }
+            currents[j] = wel[j] === changed ? (els[changed].kind === 'battery' ? -v : v) * gNew : i;
+          }
+          const na = vna[s];
+          const nb = vnb[s];
+          const vChange = y0p[pa] - y0p[pb] + alpha * (Z[4 * pa + r] - Z[4 * pb + r]) + red.off[na] - red.off[nb];
+          const changeCurrent = (changed >= 0 && els[changed].kind === 'battery' ? -vChange : vChange) * gNew;
+          visit(s, currents, changeCurrent);
         }
-        const vChange = y0p[pa] - y0p[pb] + alpha * (z[pa] - z[pb]) + red.off[na] - red.off[nb];
-        const changeCurrent = (changed >= 0 && els[changed].kind === 'battery' ? -vChange : vChange) * gNew;
-        visit(s, currents, changeCurrent);
       }
       return null;
     },

@@ -261,6 +261,52 @@ export class LdlFactor {
     }
     return w;
   }
+
+  /**
+   * `solvePermuted` for four right-hand sides at once, interleaved: w[4k + r] is entry perm[k] of
+   * right-hand side r. Each one gets exactly the arithmetic of its own `solvePermuted`; the matrix
+   * indices are read once for all four.
+   */
+  solvePermuted4(w: Float64Array, from = 0): Float64Array {
+    const { n, Lp, Li, Lx, D } = this;
+    for (let j = from; j < n; j++) {
+      const q = 4 * j;
+      const a0 = w[q];
+      const a1 = w[q + 1];
+      const a2 = w[q + 2];
+      const a3 = w[q + 3];
+      if (a0 === 0 && a1 === 0 && a2 === 0 && a3 === 0) continue;
+      for (let p = Lp[j], e = Lp[j + 1]; p < e; p++) {
+        const l = Lx[p];
+        const t = 4 * Li[p];
+        w[t] -= l * a0;
+        w[t + 1] -= l * a1;
+        w[t + 2] -= l * a2;
+        w[t + 3] -= l * a3;
+      }
+    }
+    for (let j = n - 1; j >= 0; j--) {
+      const d = D[j];
+      const q = 4 * j;
+      let a0 = w[q] / d;
+      let a1 = w[q + 1] / d;
+      let a2 = w[q + 2] / d;
+      let a3 = w[q + 3] / d;
+      for (let p = Lp[j], e = Lp[j + 1]; p < e; p++) {
+        const l = Lx[p];
+        const t = 4 * Li[p];
+        a0 -= l * w[t];
+        a1 -= l * w[t + 1];
+        a2 -= l * w[t + 2];
+        a3 -= l * w[t + 3];
+      }
+      w[q] = a0;
+      w[q + 1] = a1;
+      w[q + 2] = a2;
+      w[q + 3] = a3;
+    }
+    return w;
+  }
 }
 
 /** Solves the small dense system A x = b (row-major k x k) by LU with partial pivoting; null if singular. */

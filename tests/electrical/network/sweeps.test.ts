@@ -93,7 +93,7 @@ describe('re-solve with new open-circuit voltages', () => {
     const prep = prepared(net);
     let previous: SolveOutcome | undefined;
     for (let step = 0; step < 5; step++) {
-      const ocv = new Map(Array.from({ length: 10 }, (_, k) => [`b${k + 1}`, 13.3 - 0.05 * step - 0.01 * k] as const));
+      const ocv = new Map<string, number>(Array.from({ length: 10 }, (_, k) => [`b${k + 1}`, 13.3 - 0.05 * step - 0.01 * k]));
       const fast = solved(solvePreparedEmf(prep, ocv, previous));
       const changed: Network = { ...net, elements: net.elements.map((e) => (e.kind === 'battery' ? { ...e, ocv_V: ocv.get(e.id)! } : e)) };
       const ref = solved(solveNetworkReference(changed));
