@@ -113,14 +113,18 @@ const HOLDER_NAME: Record<FuseClassId, string | null> = {
 // Grouping --------------------------------------------------------------------------------------------
 
 class Lines {
-  private groups = new Map<string, BomLine & { ids: Set<string> }>();
+  /** Groups in order of first use (the order of the lines); looked up by category, then key. */
+  private groups: (BomLine & { ids: Set<string> })[] = [];
+  private byCategory = new Map<BomCategory, Map<string, BomLine & { ids: Set<string> }>>();
   /** `describe` runs once per group (descriptions format sizes; keys are cheap). */
   add(category: BomCategory, key: string, describe: () => string, quantity: number, unit: BomUnit, partId: string) {
-    const k = `${category}|${key}`;
-    let g = this.groups.get(k);
+    let inCategory = this.byCategory.get(category);
+    if (!inCategory) this.byCategory.set(category, (inCategory = new Map()));
+    let g = inCategory.get(key);
     if (!g) {
       g = { category, description: describe(), quantity: 0, unit, partIds: [], ids: new Set() };
-      this.groups.set(k, g);
+      inCategory.set(key, g);
+      this.groups.push(g);
     }
     g.quantity += quantity;
     if (!g.ids.has(partId)) {
@@ -130,7 +134,7 @@ class Lines {
     return g;
   }
   all() {
-    return [...this.groups.values()];
+    return this.groups.slice();
   }
 }
 
