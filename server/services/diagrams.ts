@@ -124,6 +124,9 @@ async function workingCopyConflict(db: DbOrTx, diagramId: string) {
   );
 }
 
+/** "$.annotations[0].partId" -> "annotations.0.partId" (the API's field paths). */
+const dottedPath = (jsonPath: string) => jsonPath.replace(/^\$\.?/, '').replace(/\[(\d+)\]/g, '.$1');
+
 /**
  * Replace only the working copy's annotation layer (trainers annotate; they never change the electrical
  * model). Same optimistic concurrency as saveWorkingCopy: the row is locked, `baseVersion` must be the
@@ -145,7 +148,7 @@ export async function saveAnnotations(db: Db, userId: string, diagramId: string,
     const cables = Array.isArray(content.cables) ? content.cables : [];
     const fields: Record<string, string[]> = {};
     const add = (path: string, message: string) => (fields[path] ??= []).push(message);
-    for (const issue of parseAnnotations(annotations, new Set(parts.map((p) => p.id))).issues) add(issue.path.replace(/^\$\./, ''), issue.message);
+    for (const issue of parseAnnotations(annotations, new Set(parts.map((p) => p.id))).issues) add(dottedPath(issue.path), issue.message);
     const taken = new Set([...parts.map((p) => p.id), ...cables.map((c) => c.id)]);
     const seen = new Set<string>();
     annotations.forEach((a, i) => {
