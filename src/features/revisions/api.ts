@@ -30,9 +30,8 @@ export interface RevisionMeta {
   results?: { status: 'solved' | 'compile_failed' | 'solve_failed'; findingCounts: Record<string, number> | null };
 }
 
-/** Severity as stored: the rules say "note"; older summaries may say "info". */
-export type StoredResultsSummary = Omit<ResultsSummary, 'findings'> & {
-  findings: (Omit<ResultsSummary['findings'][number], 'severity'> & { severity: 'error' | 'warning' | 'note' | 'info' })[];
+/** The summary stored with a revision (shared/diagram/summary.ts); status and issues are optional for older rows. */
+export type StoredResultsSummary = ResultsSummary & {
   status?: 'solved' | 'compile_failed' | 'solve_failed';
   issues?: { code: string; message: string; parts: string[] }[];
 };
