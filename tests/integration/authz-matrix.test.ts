@@ -9,11 +9,16 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
-import { diagramRevisions, diagrams, invites, memberships, projects, reviewComments, teams, users } from '../../server/db/schema';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { diagramRevisions, diagrams, invites, libraryItems, memberships, projects, reviewComments, teams, uploads, users } from '../../server/db/schema';
+import { newStorageKey } from '../../server/storage';
 import { newId, newToken, sha256Hex } from '../../server/ids';
 import { hashPassword } from '../../server/auth/passwords';
 import { makeTestApp, DEMO_PASSWORD, type Agent, type TestApp } from '../helpers/app';
 import { smallBank } from './fixtures';
+import { multipart, png } from './upload-fixtures';
 
 const ROLES = ['owner', 'designer', 'reviewer', 'trainer', 'viewer'] as const;
 type DemoRole = (typeof ROLES)[number];
@@ -30,6 +35,11 @@ const GRANTED: Record<string, readonly DemoRole[]> = {
   'diagram.edit': ['owner', 'designer'],
   'review.comment': ['owner', 'designer', 'reviewer', 'trainer'],
   'review.decide': ['owner', 'reviewer'],
+  'diagram.annotate': ['owner', 'designer', 'trainer'],
+  /** Uploads (docs/api.md): owners, designers and trainers attach files. */
+  'upload.create': ['owner', 'designer', 'trainer'],
+  /** Deleting an upload: its uploader (a trainer here) or an owner or designer. */
+  'upload.delete': ['owner', 'designer', 'trainer'],
 };
 
 type Requirement =
@@ -42,6 +52,8 @@ interface Call {
   method: 'get' | 'post' | 'put' | 'patch' | 'delete';
   url: string;
   body?: unknown;
+  /** Content-Type for a raw (Buffer) body, e.g. multipart. */
+  type?: string;
 }
 
 interface RouteCase {
@@ -127,6 +139,23 @@ async function freshTeamLikeDemo(): Promise<string> {
   await t.db.insert(memberships).values(demo.filter((m) => ROLES.includes(m.role as DemoRole)).map((m) => ({ teamId: id, userId: m.userId, role: m.role })));
   return id;
 }
+/** A stored upload in the demo project, attached by the actor when they may upload (else by the designer). */
+async function freshUpload(actor: Actor): Promise<string> {
+  const id = newId();
+  const uploader = GRANTED['upload.create'].includes(actor as DemoRole) ? userIds[actor] : userIds.designer;
+  const key = newStorageKey();
+  const bytes = png(2, 2);
+  fs.mkdirSync(path.join(dataDir, 'uploads', key.slice(0, 2)), { recursive: true });
+  fs.writeFileSync(path.join(dataDir, 'uploads', key.slice(0, 2), key), bytes);
+  await t.db.insert(uploads).values({ id, projectId, key, fileName: 'matrix.png', contentType: 'image/png', size: bytes.length, width: 2, height: 2, uploadedBy: uploader });
+  return id;
+}
+async function freshLibraryItem(): Promise<string> {
+  const id = newId();
+  await t.db.insert(libraryItems).values({ id, teamId, kind: 'fuse', name: unique('Matrix fuse '), props: { fuseClass: 'anl', rating_A: 150, voltage_rating_V: 32, interrupting_A: 6000 } });
+  return id;
+}
+const matrixFuse = { kind: 'fuse', name: 'Matrix ANL 100 A', props: { fuseClass: 'anl', rating_A: 100, voltage_rating_V: 32, interrupting_A: 6000 } };
 async function emptyTeam(): Promise<string> {
   const id = newId();
   await t.db.insert(teams).values({ id, name: unique('Empty team ') });
@@ -368,6 +397,75 @@ const ROUTES: RouteCase[] = [
     success: 200,
     call: async () => ({ method: 'post', url: `/api/diagrams/${(await freshRevision('in_review')).diagramId}/revisions/1/decision`, body: { decision: 'approve' } }),
   },
+  {
+    route: 'PUT /api/diagrams/:id/annotations',
+    requires: { kind: 'permission', permission: 'diagram.annotate' },
+    success: 200,
+    call: async () => ({ method: 'put', url: `/api/diagrams/${await freshDiagram()}/annotations`, body: { annotations: [{ id: 'an1', kind: 'note', position: { x: 0, y: 0 }, text: 'Matrix note' }], baseVersion: 1 } }),
+  },
+  {
+    route: 'GET /api/projects/:id/uploads',
+    requires: { kind: 'permission', permission: 'project.read' },
+    success: 200,
+    call: async () => ({ method: 'get', url: `/api/projects/${projectId}/uploads` }),
+  },
+  {
+    route: 'POST /api/projects/:id/uploads',
+    requires: { kind: 'permission', permission: 'upload.create' },
+    success: 201,
+    call: async () => {
+      const { body, type } = multipart('matrix photo.png', png(2, 2), 'image/png');
+      return { method: 'post', url: `/api/projects/${projectId}/uploads`, body, type };
+    },
+  },
+  {
+    route: 'GET /api/uploads/:id/content',
+    requires: { kind: 'permission', permission: 'project.read' },
+    success: 200,
+    call: async (actor) => ({ method: 'get', url: `/api/uploads/${await freshUpload(actor)}/content` }),
+  },
+  {
+    route: 'DELETE /api/uploads/:id',
+    requires: { kind: 'permission', permission: 'upload.delete' },
+    success: 204,
+    call: async (actor) => ({ method: 'delete', url: `/api/uploads/${await freshUpload(actor)}` }),
+  },
+  {
+    route: 'GET /api/teams/:teamId/library',
+    requires: { kind: 'permission', permission: 'project.read' },
+    success: 200,
+    call: async () => ({ method: 'get', url: `/api/teams/${teamId}/library` }),
+  },
+  {
+    route: 'POST /api/teams/:teamId/library',
+    requires: { kind: 'permission', permission: 'project.edit' },
+    success: 201,
+    call: async () => ({ method: 'post', url: `/api/teams/${teamId}/library`, body: { ...matrixFuse, name: unique('Matrix fuse ') } }),
+  },
+  {
+    route: 'PATCH /api/teams/:teamId/library/:itemId',
+    requires: { kind: 'permission', permission: 'project.edit' },
+    success: 200,
+    call: async () => ({ method: 'patch', url: `/api/teams/${teamId}/library/${await freshLibraryItem()}`, body: { partNumber: 'MX-1' } }),
+  },
+  {
+    route: 'DELETE /api/teams/:teamId/library/:itemId',
+    requires: { kind: 'permission', permission: 'project.edit' },
+    success: 204,
+    call: async () => ({ method: 'delete', url: `/api/teams/${teamId}/library/${await freshLibraryItem()}` }),
+  },
+  {
+    route: 'POST /api/teams/:teamId/library/import',
+    requires: { kind: 'permission', permission: 'project.edit' },
+    success: 200,
+    call: async () => ({ method: 'post', url: `/api/teams/${teamId}/library/import`, body: { csv: `kind,name,conductor\ncable,${unique('Matrix cable ')},2 AWG\n`, mode: 'all_or_nothing' } }),
+  },
+  {
+    route: 'GET /api/teams/:teamId/library/export',
+    requires: { kind: 'permission', permission: 'project.read' },
+    success: 200,
+    call: async () => ({ method: 'get', url: `/api/teams/${teamId}/library/export` }),
+  },
 ];
 
 const agents = new Map<Actor, Agent>();
@@ -376,8 +474,11 @@ async function signedInAgent(actor: Actor): Promise<Agent> {
   return actor === 'anon' ? t.agent() : t.signIn(emailOf(actor), passwordOf(actor));
 }
 
+let dataDir: string;
+
 beforeAll(async () => {
-  t = await makeTestApp();
+  dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'bw-matrix-'));
+  t = await makeTestApp({ config: { dataDir } });
   placeholderHash = await hashPassword('matrix placeholder');
   const owner = await t.agentFor('owner');
   teamId = (await owner.get('/api/teams')).body.teams[0].id;
@@ -392,11 +493,12 @@ beforeAll(async () => {
 });
 afterAll(async () => {
   await t?.close();
+  fs.rmSync(dataDir, { recursive: true, force: true });
 });
 
 describe('authorization matrix', () => {
-  it('lists all 44 routes (add each new route here)', () => {
-    expect(ROUTES.map((r) => r.route)).toHaveLength(44);
+  it('lists all 55 routes (add each new route here)', () => {
+    expect(ROUTES.map((r) => r.route)).toHaveLength(55);
   });
 
   for (const c of ROUTES) {
@@ -405,8 +507,8 @@ describe('authorization matrix', () => {
         const status = expected(c, actor);
         it(`${actor} -> ${status}`, async () => {
           const agent = c.freshSession ? await signedInAgent(actor) : agents.get(actor)!;
-          const { method, url, body } = await c.call(actor, agent);
-          const req = agent[method](url);
+          const { method, url, body, type } = await c.call(actor, agent);
+          const req = type ? agent[method](url).set('Content-Type', type) : agent[method](url);
           const res = body === undefined ? await req : await req.send(body as object);
           expect({ route: c.route, actor, status: res.status, body: res.status >= 400 ? res.body : undefined }).toMatchObject({ route: c.route, actor, status });
           if (status >= 400) expect(res.body.error.code).toBe({ 401: 'unauthenticated', 403: 'forbidden', 404: 'not_found' }[status]);
