@@ -6,7 +6,7 @@
  */
 import { execFile } from 'node:child_process';
 import { readdirSync } from 'node:fs';
-import { cpus } from 'node:os';
+import { cpus, loadavg } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { runCase, type BenchCase, type BenchResult } from './registry';
@@ -77,6 +77,7 @@ async function main() {
   const selected = only ? cases.filter((c) => c.name.includes(only)) : cases;
   const results: BenchResult[] = [];
   const t0 = performance.now();
+  const loadBefore = loadavg();
   for (const c of selected) {
     process.stderr.write(`running ${c.name} ...\n`);
     results.push(c.memory ? await runInChild(c) : await runCase(c));
@@ -85,7 +86,8 @@ async function main() {
     process.stdout.write(JSON.stringify(results, null, 2) + '\n');
     return;
   }
-  process.stdout.write(`Node ${process.version}, ${cpus().length} cores (${cpus()[0]?.model ?? 'unknown cpu'})\n\n`);
+  const la = (x: number[]) => x.map((v) => v.toFixed(2)).join(' ');
+  process.stdout.write(`Node ${process.version}, ${cpus().length} cores (${cpus()[0]?.model ?? 'unknown cpu'}); load average (1, 5, 15 min) ${la(loadBefore)} before, ${la(loadavg())} after\n\n`);
   process.stdout.write(table(results) + '\n');
   const notes = results.filter((r) => r.note).map((r) => `- ${r.name}: ${r.note}`);
   if (notes.length) process.stdout.write(`\n${notes.join('\n')}\n`);
