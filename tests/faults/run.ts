@@ -37,7 +37,7 @@ const { values: args } = parseArgs({
     pg: { type: 'boolean', default: false },
     kills: { type: 'string', default: '20' },
     clients: { type: 'string', default: '20' },
-    seconds: { type: 'string', default: '600' },
+    seconds: { type: 'string', default: '1800' },
     'min-gap': { type: 'string', default: '0' },
     'max-gap': { type: 'string', default: '4000' },
     json: { type: 'string' },
@@ -264,13 +264,14 @@ await stopServer(reopened);
 await cleanup();
 
 const restartSorted = [...restarts].sort((a, b) => a - b);
-const ok = lost.length === 0 && mismatched.length === 0 && unexplained.length === 0 && gaps.length === 0 && readable && kills >= Math.min(KILLS, 1);
+const ok = lost.length === 0 && mismatched.length === 0 && unexplained.length === 0 && gaps.length === 0 && readable && kills >= KILLS;
 finish(
   {
     ok,
     database: args.pg ? 'postgresql' : 'pglite',
     clients: CLIENTS,
     kills,
+    killsPlanned: KILLS,
     runSeconds: Math.round(runSeconds),
     saveAttempts: stats.attempts,
     savesAcknowledged: acks.length,

@@ -141,11 +141,20 @@ function phase(name: string, requestsFor: (i: number) => Req[], connections = CO
   });
 }
 
+/** Saves cut off when a phase ends may still commit: start each phase from every diagram's real latest revision. */
+async function resyncBases() {
+  for (const c of conn) {
+    const list = (await setup.request('GET', `/api/diagrams/${c.diagramId}/revisions`)).body.revisions as { number: number }[];
+    c.base = list.length ? Math.max(...list.map((r) => r.number)) : null;
+  }
+}
+
 const results: ReturnType<typeof summarize>[] = [];
 log('phase reads');
 results.push(await phase('reads', (i) => readRequests(conn[i])));
 log('phase saves');
 results.push(await phase('saves', (i) => [saveRequest(conn[i])]));
+await resyncBases();
 log('phase mixed');
 results.push(await phase('mixed', (i) => [...readRequests(conn[i]), saveRequest(conn[i])]));
 
