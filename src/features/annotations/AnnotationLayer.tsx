@@ -33,7 +33,7 @@ function Marks({ annotations, boxes, activeId }: { annotations: Annotation[]; bo
         const { anchor, bubble } = calloutPlacement(pb);
         leaders.push({ id: a.id, x1: anchor.x, y1: anchor.y, x2: bubble.x + 10, y2: bubble.y + 18 });
         items.push(
-          <div key={a.id} className={`bw-ann-callout${active}`} data-annotation-id={a.id} style={{ left: bubble.x, top: bubble.y, maxWidth: CALLOUT_WIDTH }}>
+          <div key={a.id} className={`bw-ann-callout${active}`} data-annotation-id={a.id} style={{ left: bubble.x, top: bubble.y, width: 'max-content', maxWidth: CALLOUT_WIDTH }}>
             {a.text}
           </div>,
         );

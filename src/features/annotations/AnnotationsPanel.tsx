@@ -194,7 +194,7 @@ export function AnnotationsPanel() {
   };
 
   return (
-    <section aria-label="Annotations" className="absolute top-2 left-2 z-20 flex max-h-[calc(100%-1rem)] w-80 flex-col rounded-lg border border-graphite-200 bg-white shadow-lg">
+    <section aria-label="Annotations" className="absolute top-2 right-2 z-20 flex max-h-[calc(100%-12rem)] w-80 flex-col rounded-lg border border-graphite-200 bg-white shadow-lg">
       <header className="flex items-center gap-1 border-b border-graphite-100 px-3 py-2">
         <h2 className="flex-1 text-[13px] font-semibold">Annotations</h2>
         {annotateOnly ? (

@@ -128,17 +128,15 @@ export const BriefingSheet = forwardRef<HTMLDivElement, BriefingSheetProps>(func
     >
       <div className="bw-sheet-diagram" style={{ width: image.width, height: image.height }}>
         <img src={image.src} width={image.width} height={image.height} alt={`Diagram of ${meta.diagramName}`} />
-        {meta.notReviewed ? (
-          <>
-            <div className="bw-sheet-watermark" aria-hidden="true"><span>NOT REVIEWED</span></div>
-            <div className="bw-sheet-stamp" data-testid="not-reviewed">
-              NOT REVIEWED
-              <small>{meta.revision ? `r${meta.revision.number}: ${reviewStateText(meta)}` : 'Working copy, not a reviewed revision'}</small>
-            </div>
-          </>
-        ) : null}
+        {meta.notReviewed ? <div className="bw-sheet-watermark" aria-hidden="true"><span>NOT REVIEWED</span></div> : null}
       </div>
       <div className="bw-sheet-side">
+        {meta.notReviewed ? (
+          <div className="bw-sheet-stamp" data-testid="not-reviewed">
+            NOT REVIEWED
+            <small>{meta.revision ? `r${meta.revision.number}: ${reviewStateText(meta)}` : 'Working copy, not a reviewed revision'}</small>
+          </div>
+        ) : null}
         <section className="bw-sheet-box" aria-label="Title block">
           <h3>Crew briefing</h3>
           <div className="bw-sheet-title">
