@@ -51,6 +51,7 @@ export const routes: RouteObject[] = [
                       { path: 'projects', element: <ProjectListPage /> },
                       { path: 'members', element: <MembersPage /> },
                       { path: 'outbox', element: <OutboxPage /> },
+                      { path: 'library', lazy: async () => ({ Component: (await import('./features/library/LibraryPage')).default }) },
                     ],
                   },
                   { path: 'projects/:projectId', element: <ProjectPage /> },

@@ -10,6 +10,16 @@ import { TeamSwitcher } from '@/features/teams/TeamSwitcher';
 import { CreateTeamForm } from '@/features/teams/CreateTeamForm';
 import { NotFoundPage } from './NotFound';
 
+function LibraryIcon() {
+  return (
+    <svg width={14} height={14} viewBox="0 0 16 16" fill="none" stroke="currentColor" strokeWidth={1.5} strokeLinecap="round" aria-hidden="true" focusable="false">
+      <rect x="2" y="2.5" width="3" height="11" rx="0.5" />
+      <rect x="6.5" y="2.5" width="3" height="11" rx="0.5" />
+      <path d="m11 3.2 2.8-.7 1.7 10.7-2.8.6z" />
+    </svg>
+  );
+}
+
 /** Everything behind sign-in: waits for /api/auth/me, sends signed-out visitors to /sign-in. */
 export function RequireAuth() {
   const me = useMe();
@@ -119,6 +129,9 @@ export function AppShell() {
                 className={({ isActive }) => navClass({ isActive: isActive || pathname.startsWith('/projects/') || pathname.startsWith('/diagrams/') })}
               >
                 <FolderIcon size={14} /> Projects
+              </NavLink>
+              <NavLink to={`/teams/${team.id}/library`} className={navClass}>
+                <LibraryIcon /> Parts library
               </NavLink>
               <NavLink to={`/teams/${team.id}/members`} className={navClass}>
                 <UsersIcon size={14} /> Members

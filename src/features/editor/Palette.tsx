@@ -1,13 +1,22 @@
 /**
  * Parts palette: drag a part onto the canvas, or focus it and press Enter (or Space) to place it at
- * the centre of the view.
+ * the centre of the view. Below the parts, the team parts library: click a battery, fuse or busbar
+ * preset to place one with the preset's props; click a cable preset to apply it to the selected cables.
  */
-import { memo, useCallback, type DragEvent, type KeyboardEvent } from 'react';
+import { memo, useCallback, useContext, type DragEvent, type KeyboardEvent } from 'react';
+import { useParams } from 'react-router';
+import { QueryClientContext, useQuery } from '@tanstack/react-query';
 import { useReactFlow } from '@xyflow/react';
 import { PART_TYPES, type PartType } from '@shared/electrical/parts';
+import type { DiagramPart } from '@shared/diagram/schema';
+import type { LibraryRecord } from '@shared/schemas/library';
 import { PaletteGlyph } from './canvas/symbols';
 import { PART_DRAG_MIME, placePart } from './canvas/Canvas';
+import { GRID, partBox } from './canvas/geometry';
+import { diagramKeys, fetchDiagram } from './api';
 import { useEditorStore } from './store';
+import { useLibrary } from '../library/hooks';
+import { itemSummary } from '../library/summary';
 
 /** Palette order and the one-line description of each entry. */
 export const PALETTE: { type: PartType; hint: string }[] = [
@@ -68,9 +77,116 @@ const PaletteItem = memo(function PaletteItem({ type, hint, onPlace }: { type: P
   );
 });
 
+const snap = (v: number) => Math.round(v / GRID) * GRID;
+
+/** Place a library preset (battery, fuse, busbar) at the centre of the view, as placePart does, with the preset's props. */
+export function placePreset(item: LibraryRecord, centre: { x: number; y: number }): string | null {
+  if (item.kind === 'cable') return null;
+  const store = useEditorStore.getState();
+  const props = structuredClone(item.props) as Record<string, unknown>;
+  // A battery's make and model go to the bill of materials.
+  if (item.kind === 'battery' && !props.model) props.model = [item.manufacturer, item.partNumber].filter(Boolean).join(' ') || item.name;
+  const box = partBox({ type: item.kind, rotation: 0, props } as DiagramPart);
+  let at = { x: snap(centre.x - box.w / 2), y: snap(centre.y - box.h / 2) };
+  const taken = new Set(store.doc.parts.map((p) => `${p.position.x},${p.position.y}`));
+  for (let i = 0; i < 50 && taken.has(`${at.x},${at.y}`); i++) at = { x: at.x + GRID * 3, y: at.y + GRID * 3 };
+  return store.addPart(item.kind, at, { props });
+}
+
+/** Apply a cable preset (conductor, material, stranding, insulation) to the selected cables, as one undo step. */
+export function applyCablePreset(item: LibraryRecord): number {
+  if (item.kind !== 'cable') return 0;
+  const store = useEditorStore.getState();
+  const selected = new Set(store.selection);
+  const ids = store.doc.cables.filter((c) => selected.has(c.id)).map((c) => c.id);
+  if (!ids.length) return 0;
+  store.edit(`Apply ${item.name}`, (d) => {
+    for (const c of d.cables) if (selected.has(c.id)) Object.assign(c.props, structuredClone(item.props));
+  });
+  return ids.length;
+}
+
+/** The team of the open diagram (from the editor's diagram query) and its parts library. */
+function useTeamLibrary() {
+  const { diagramId = '' } = useParams();
+  const diagram = useQuery({
+    queryKey: diagramKeys.detail(diagramId),
+    queryFn: ({ signal }) => fetchDiagram(diagramId, signal),
+    staleTime: Infinity,
+    refetchOnWindowFocus: false,
+    refetchOnReconnect: false,
+    enabled: !!diagramId,
+  });
+  return useLibrary(diagram.data?.diagram.teamId);
+}
+
+const LIBRARY_GLYPH: Record<LibraryRecord['kind'], PartType | null> = { battery: 'battery', fuse: 'fuse', busbar: 'busbar', cable: null };
+
+function CableGlyph() {
+  return (
+    <svg width={28} height={28} viewBox="0 0 28 28" className="bw-glyph" aria-hidden="true" focusable="false">
+      <path d="M3 20c6 0 6-12 11-12s5 12 11 12" fill="none" stroke="currentColor" strokeWidth={2.5} strokeLinecap="round" />
+    </svg>
+  );
+}
+
+function TeamLibrary({ centre }: { centre: () => { x: number; y: number } }) {
+  const library = useTeamLibrary();
+  const selectedCables = useEditorStore((s) => {
+    if (!s.selection.length) return 0;
+    const ids = new Set(s.selection);
+    let n = 0;
+    for (const c of s.doc.cables) if (ids.has(c.id)) n++;
+    return n;
+  });
+  const items = library.data ?? [];
+  if (!library.data) return null;
+  return (
+    <section aria-labelledby="palette-library" className="border-t border-graphite-200">
+      <h2 id="palette-library" className="px-2 pt-2 pb-1 text-[11px] font-semibold tracking-wide text-graphite-500 uppercase">Team library</h2>
+      {items.length === 0 ? (
+        <p className="px-2 pb-2 text-[11px] text-graphite-500">No presets yet. Owners and designers add them on the Parts library page.</p>
+      ) : (
+        <ul className="space-y-0.5 px-1 pb-2">
+          {items.map((item) => {
+            const cable = item.kind === 'cable';
+            const disabled = cable && selectedCables === 0;
+            const action = cable
+              ? selectedCables
+                ? `Apply to the ${selectedCables === 1 ? 'selected cable' : `${selectedCables} selected cables`}`
+                : 'Select cables to apply this preset'
+              : 'Place at the centre of the view';
+            const glyph = LIBRARY_GLYPH[item.kind];
+            return (
+              <li key={item.id}>
+                <button
+                  type="button"
+                  className="bw-palette-item cursor-pointer disabled:cursor-not-allowed disabled:opacity-50"
+                  disabled={disabled}
+                  onClick={() => (cable ? applyCablePreset(item) : placePreset(item, centre()))}
+                  aria-label={`${item.name} (${itemSummary(item)}): ${action}`}
+                  title={`${itemSummary(item)}. ${action}.`}
+                >
+                  {glyph ? <PaletteGlyph type={glyph} /> : <CableGlyph />}
+                  <span className="min-w-0">
+                    <span className="block truncate text-[13px] font-medium text-graphite-800">{item.name}</span>
+                    <span className="block truncate text-[11px] text-graphite-500">{cable ? (disabled ? 'Cable: select cables' : 'Cable: apply to selection') : itemSummary(item)}</span>
+                  </span>
+                </button>
+              </li>
+            );
+          })}
+        </ul>
+      )}
+    </section>
+  );
+}
+
 export function Palette() {
   const centre = useViewCentre();
   const readOnly = useEditorStore((s) => s.readOnly);
+  // The library needs the server (a query client); a palette rendered on its own shows the parts only.
+  const online = useContext(QueryClientContext) !== undefined;
   const onPlace = useCallback((type: PartType) => {
     placePart(type, centre());
   }, [centre]);
@@ -83,6 +199,7 @@ export function Palette() {
           <PaletteItem key={p.type} type={p.type} hint={p.hint} onPlace={onPlace} />
         ))}
       </ul>
+      {online ? <TeamLibrary centre={centre} /> : null}
     </nav>
   );
 }

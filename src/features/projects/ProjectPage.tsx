@@ -13,6 +13,7 @@ import { formatDateTime, plural } from '@/lib/format';
 import { useSignedInMe } from '../auth/hooks';
 import { ImportDiagramButton } from '../diagram-files/ImportButton';
 import { ActivityList } from '../activity/ActivityList';
+import { UploadsSection } from '../uploads/UploadsSection';
 import { RevisionStateBadge } from '../revisions/RevisionStateBadge';
 import type { Project } from './api';
 import { useDeleteProject, useDiagrams, useProject } from './hooks';
@@ -139,6 +140,8 @@ function ProjectView({ project, teamName, mayEdit, mayImport }: { project: Proje
           </ul>
         )}
       </section>
+
+      <UploadsSection projectId={project.id} teamId={project.teamId} />
 
       <section aria-labelledby="activity-heading" className="mt-8">
         <h2 id="activity-heading" className="mb-2 text-[13px] font-semibold tracking-wide text-graphite-600 uppercase">
