@@ -12,6 +12,7 @@ import { Notice } from '@/components/Notice';
 import { formatDateTime } from '@/lib/format';
 import { AnnotationsPanel } from '@/features/annotations/AnnotationsPanel';
 import { BriefingToolbar } from '@/features/export/BriefingToolbar';
+import { RevisionStateBadge, SaveRevisionButton } from '@/features/revisions';
 import { AnalysisPanel, FindingsPanel } from './analysis';
 import type { DiagramRecord } from './api';
 import { Canvas } from './canvas/Canvas';
@@ -341,6 +342,8 @@ export function EditorLayout({ diagram, role, restoredFrom, filledDefaults, onDi
   const [templateOpen, setTemplateOpen] = useState(false);
   const [helpOpen, setHelpOpen] = useState(false);
   const [arranging, setArranging] = useState(false);
+  const [baseRevision, setBaseRevision] = useState<number | null>(diagram.latestRevision?.number ?? null);
+  const getContent = useCallback(() => useEditorStore.getState().doc, []);
   const toggleHelp = useCallback(() => setHelpOpen((o) => !o), []);
   useEditorShortcuts(toggleHelp);
   useLiveResults(true);
@@ -399,6 +402,14 @@ export function EditorLayout({ diagram, role, restoredFrom, filledDefaults, onDi
             </>
           ) : null}
           <BriefingToolbar diagram={diagram} role={role} />
+          <span className="mx-1 h-5 w-px bg-graphite-200" aria-hidden="true" />
+          {diagram.latestRevision ? <RevisionStateBadge state={diagram.latestRevision.state} number={diagram.latestRevision.number} /> : null}
+          <Link to={`/diagrams/${diagram.id}/history`} className="inline-flex h-7 items-center rounded-md px-2 text-[13px] font-medium text-graphite-700 hover:bg-graphite-100">
+            History
+          </Link>
+          {!readOnly ? (
+            <SaveRevisionButton diagramId={diagram.id} getContent={getContent} baseRevision={baseRevision} onSaved={(r) => setBaseRevision(r.number)} />
+          ) : null}
           <Button size="sm" variant="ghost" onClick={() => useEditorStore.getState().requestFit()} title="Zoom to fit (F)">
             Fit
           </Button>

@@ -1,5 +1,6 @@
 /** The diagram endpoints the editor calls (API contract: "Diagrams (editor working copy)"). */
 import type { Role } from '@shared/roles';
+import type { RevisionState } from '@shared/schemas/diagrams';
 import { api } from '@/lib/api';
 
 export interface DiagramRecord {
@@ -13,6 +14,8 @@ export interface DiagramRecord {
   workingCopyVersion: number;
   updatedAt: string;
   updatedBy: { id: string; name: string } | null;
+  /** The newest saved revision, when there is one. */
+  latestRevision?: { number: number; state: RevisionState } | null;
 }
 
 export interface DiagramResponse {
