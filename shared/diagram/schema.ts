@@ -154,6 +154,17 @@ export const diagramSchema = z
     doc.annotations.forEach((a, i) => claim(a.id, ['annotations', i, 'id']));
 
     const parts = new Map(doc.parts.map((p) => [p.id, p]));
+    // A part whose props already failed validation has no trustworthy terminal list (a busbar with an
+    // absurd tapCount would build billions of names): its props error stands, its cables are not checked.
+    const propsValid = new Map<string, boolean>();
+    const validProps = (part: DiagramPart) => {
+      let ok = propsValid.get(part.id);
+      if (ok === undefined) {
+        ok = PART_TYPES[part.type].schema.safeParse(part.props).success;
+        propsValid.set(part.id, ok);
+      }
+      return ok;
+    };
     doc.cables.forEach((c, i) => {
       for (const end of ['from', 'to'] as const) {
         const ref = c[end];
@@ -162,6 +173,7 @@ export const diagramSchema = z
           ctx.addIssue({ code: 'custom', path: ['cables', i, end, 'part'], message: `No part with id "${ref.part}"` });
           continue;
         }
+        if (!validProps(part)) continue;
         const terminals = terminalsOf(part);
         if (!terminals.includes(ref.terminal)) {
           ctx.addIssue({
