@@ -14,8 +14,13 @@ export interface BenchCase<T = unknown> {
    * own analysis time). Return null when the case cannot run here (shown as skipped).
    */
   measure?: (input: T) => Promise<number | null>;
-  /** Timed samples after one warm-up (default 21); stops early after `maxSeconds` (default 20). */
+  /**
+   * Timed samples (default 21) after the warm-up; stops early after `maxSeconds` (default 20). The
+   * warm-up calls `run` until `warmupSeconds` (default 0.5) have passed or 50 calls are done (at least
+   * one), so the samples time the optimized code, not the JIT tiering; a `measure` case warms up once.
+   */
   samples?: number;
+  warmupSeconds?: number;
   maxSeconds?: number;
   /** Target median in ms and peak memory in MB, printed beside the result. */
   targetMs?: number;
@@ -65,6 +70,10 @@ export async function runCase(c: BenchCase): Promise<BenchResult> {
   };
   const warm = await one();
   if (warm === null) return { ...base, samples: 0, medianMs: null, minMs: null, maxMs: null, skipped: 'not available here' };
+  if (!c.measure) {
+    const warmUntil = performance.now() + (c.warmupSeconds ?? 0.5) * 1000;
+    for (let i = 1; i < 50 && performance.now() < warmUntil; i++) await one();
+  }
   while (times.length < wanted && (times.length < 3 || performance.now() < deadline)) {
     const t = await one();
     if (t === null) break;

@@ -114,17 +114,28 @@ export function compileDiagram(doc: DiagramDocument): CompileResult {
   }
 
   // --- Connections: floating parts and unconnected terminals -----------------------------------------
+  // Each terminal's node name is built once; the same string then keys every map below.
+  const partTerminals = new Map<string, { terminals: string[]; nodes: Record<string, string>; nodeOf: Map<string, string> }>();
+  for (const p of electrical) {
+    const terminals = definitionOf(p).terminals(p.props);
+    const nodes: Record<string, string> = {};
+    const nodeOf = new Map<string, string>();
+    for (const t of terminals) nodeOf.set(t, (nodes[t] = terminalNode(p.id, t)));
+    partTerminals.set(p.id, { terminals, nodes, nodeOf });
+  }
+  const endNode = (end: { part: string; terminal: string }) =>
+    partTerminals.get(end.part)?.nodeOf.get(end.terminal) ?? terminalNode(end.part, end.terminal);
   const cablesAt = new Map<string, number>();
   for (const c of doc.cables) {
-    const a = terminalNode(c.from.part, c.from.terminal);
-    const b = terminalNode(c.to.part, c.to.terminal);
+    const a = endNode(c.from);
+    const b = endNode(c.to);
     cablesAt.set(a, (cablesAt.get(a) ?? 0) + 1);
     cablesAt.set(b, (cablesAt.get(b) ?? 0) + 1);
   }
   const floating = new Set<string>();
   for (const p of electrical) {
-    const terminals = definitionOf(p).terminals(p.props);
-    const used = terminals.filter((t) => cablesAt.has(terminalNode(p.id, t)));
+    const { terminals, nodeOf } = partTerminals.get(p.id)!;
+    const used = terminals.filter((t) => cablesAt.has(nodeOf.get(t)!));
     if (used.length === 0) {
       floating.add(p.id);
       errors.push({ code: 'floating_part', message: `${describe(p)} is not connected to anything`, parts: [p.id] });
@@ -132,7 +143,7 @@ export function compileDiagram(doc: DiagramDocument): CompileResult {
     }
     if (p.type === 'busbar') continue; // spare busbar studs are normal
     for (const t of terminals) {
-      if (!cablesAt.has(terminalNode(p.id, t))) {
+      if (!cablesAt.has(nodeOf.get(t)!)) {
         errors.push({ code: 'unconnected_terminal', message: `${describe(p)}: terminal "${t}" is not connected`, parts: [p.id] });
       }
     }
@@ -148,16 +159,15 @@ export function compileDiagram(doc: DiagramDocument): CompileResult {
     const single = model.elements.length === 1;
     const nominals = memberNominals(p);
     model.elements.forEach((e, i) => {
-      const el = renameNodes(e, (n) => localToGlobal(p.id, n));
+      const terminal = partTerminals.get(p.id)!.nodeOf;
+      const el = renameNodes(e, (n) => terminal.get(n) ?? localToGlobal(p.id, n));
       el.id = single ? p.id : `${p.id}/${e.id}`;
       raw.push({ el, owner: { kind: 'part', id: p.id }, ...(e.kind === 'battery' ? { nominal_V: nominals[i] } : {}) });
     });
     if (p.type === 'switch' && !p.props.closed) {
       notes.push({ code: 'open_switch', message: `${describe(p)} is open; modelled as a very high resistance`, parts: [p.id] });
     }
-    const nodes: Record<string, string> = {};
-    for (const t of def.terminals(p.props)) nodes[t] = terminalNode(p.id, t);
-    map.parts[p.id] = { elements: [], nodes };
+    map.parts[p.id] = { elements: [], nodes: partTerminals.get(p.id)!.nodes };
   }
 
   for (const c of doc.cables) {
@@ -167,8 +177,10 @@ export function compileDiagram(doc: DiagramDocument): CompileResult {
     if (props.resistanceBasis === 'table' && (props.material !== 'copper' || tableResistance_ohm_per_m(props.conductor, temp_C) === null)) {
       notes.push({ code: 'no_table_value', message: `Cable ${c.label || c.id}: no published table value for this conductor; computed resistance used`, parts: [c.id] });
     }
-    let fromNode = terminalNode(c.from.part, c.from.terminal);
-    let toNode = terminalNode(c.to.part, c.to.terminal);
+    const fromTerminal = endNode(c.from);
+    const toTerminal = endNode(c.to);
+    let fromNode = fromTerminal;
+    let toNode = toTerminal;
     const own = { kind: 'cable' as const, id: c.id };
     let r_total = conductor_ohm;
     if (props.lugFrom_ohm !== undefined) {
@@ -185,7 +197,7 @@ export function compileDiagram(doc: DiagramDocument): CompileResult {
     }
     raw.push({ el: { id: c.id, kind: 'resistor', a: fromNode, b: toNode, r_ohm: conductor_ohm, role: props.role }, owner: own });
     map.cables[c.id] = {
-      elements: [], from_node: terminalNode(c.from.part, c.from.terminal), to_node: terminalNode(c.to.part, c.to.terminal),
+      elements: [], from_node: fromTerminal, to_node: toTerminal,
       conductor_ohm, r_ohm: r_total, temp_C,
     };
   }
