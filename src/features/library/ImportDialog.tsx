@@ -67,7 +67,7 @@ export function ImportDialog({ teamId, open, onClose }: { teamId: string; open: 
 
   return (
     <Dialog open={open} onClose={close} title="Import parts from CSV" width="max-w-2xl"
-      description="One file, a kind column (battery, cable, fuse, busbar) and the columns of docs/parts-library.md. Rows with an id of an item in this library update it; other rows add items.">
+      description="One file for every kind: a kind column (battery, cable, fuse or busbar), a name, and a column per rating. Export the library to get a file with every column. Rows carrying the id of an item here update it; other rows add items.">
       <div className="space-y-3 text-sm">
         <label className="block">
           <span className="mb-1 block text-[13px] font-medium text-graphite-800">CSV file</span>

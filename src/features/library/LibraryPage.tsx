@@ -31,26 +31,26 @@ function KindTable({ kind, items, mayEdit, onEdit, onDelete }: { kind: LibraryKi
         {KIND_PLURALS[kind]} <span className="font-normal text-graphite-400">({items.length})</span>
       </h2>
       <div className="overflow-x-auto rounded-lg border border-graphite-200 bg-white shadow-xs">
-        <table className="w-full text-left text-[13px]" aria-labelledby={headingId}>
+        <table className="w-full min-w-3xl table-fixed text-left text-[13px]" aria-labelledby={headingId}>
           <thead className="border-b border-graphite-200 bg-graphite-50 text-xs text-graphite-600">
             <tr>
-              <th scope="col" className="px-3 py-2 font-semibold">Name</th>
-              <th scope="col" className="px-3 py-2 font-semibold">Maker / part number</th>
+              <th scope="col" className="w-[22%] px-3 py-2 font-semibold">Name</th>
+              <th scope="col" className="w-[20%] px-3 py-2 font-semibold">Maker / part number</th>
               <th scope="col" className="px-3 py-2 font-semibold">Ratings</th>
-              <th scope="col" className="px-3 py-2 font-semibold">Updated</th>
-              {mayEdit ? <th scope="col" className="px-3 py-2"><span className="sr-only">Actions</span></th> : null}
+              <th scope="col" className="w-44 px-3 py-2 font-semibold">Updated</th>
+              {mayEdit ? <th scope="col" className="w-20 px-3 py-2"><span className="sr-only">Actions</span></th> : null}
             </tr>
           </thead>
           <tbody>
             {items.map((item) => (
               <tr key={item.id} className="border-t border-graphite-100 first:border-t-0">
-                <td className="px-3 py-2 font-medium text-graphite-900">{item.name}</td>
-                <td className="px-3 py-2 text-graphite-600">
+                <td className="truncate px-3 py-2 font-medium text-graphite-900" title={item.name}>{item.name}</td>
+                <td className="truncate px-3 py-2 text-graphite-600">
                   {item.manufacturer || '—'}
                   {item.partNumber ? <span className="ml-1 font-mono text-xs text-graphite-500">{item.partNumber}</span> : null}
                 </td>
                 <td className="px-3 py-2 font-mono text-xs text-graphite-700">{itemSummary(item)}</td>
-                <td className="px-3 py-2 whitespace-nowrap text-xs text-graphite-500">
+                <td className="truncate px-3 py-2 text-xs text-graphite-500">
                   {formatDate(item.updatedAt)}
                   {item.updatedBy ? `, ${item.updatedBy.name}` : ''}
                 </td>

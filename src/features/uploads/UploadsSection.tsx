@@ -19,7 +19,7 @@ import { useDeleteUpload, useUploadFile, useUploads } from './hooks';
 
 /** "1.2 MB", "340 KB". */
 export function formatBytes(n: number): string {
-  if (n >= 1024 * 1024) return `${(n / (1024 * 1024)).toFixed(1)} MB`;
+  if (n >= 1024 * 1024) return `${Math.round((n / (1024 * 1024)) * 10) / 10} MB`;
   if (n >= 1024) return `${Math.round(n / 1024)} KB`;
   return `${n} B`;
 }
@@ -68,8 +68,11 @@ function UploadCard({ upload, mayDelete, onDelete }: { upload: UploadRecord; may
             {image && upload.width && upload.height ? `${upload.width} × ${upload.height} · ` : 'PDF · '}
             {formatBytes(upload.size)}
           </p>
+          <p className="truncate text-xs text-graphite-500" title={`Attached by ${who}`}>
+            {who}
+          </p>
           <p className="truncate text-xs text-graphite-500">
-            {who}, {formatDateTime(upload.createdAt)}
+            <time dateTime={upload.createdAt}>{formatDateTime(upload.createdAt)}</time>
           </p>
         </div>
         {mayDelete ? (
