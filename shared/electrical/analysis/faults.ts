@@ -164,7 +164,8 @@ export function faultSweep(ctx: AnalysisContext, prepared: PreparedFaults, fault
   // Watched: each fuse's element and each cable's conductor.
   const watch: string[] = [];
   const owners: { kind: 'fuse' | 'cable'; id: string }[] = [];
-  const inNetwork = new Set(prepared.net.elements.map((e) => e.id));
+  const inNetwork = new Set<string>();
+  for (const e of prepared.net.elements) inNetwork.add(e.id);
   for (const f of ctx.topo.fuses) {
     const el = ctx.map.parts[f.id]?.elements[0];
     if (el !== undefined && inNetwork.has(el)) {
@@ -182,10 +183,15 @@ export function faultSweep(ctx: AnalysisContext, prepared: PreparedFaults, fault
   const arg = new Int32Array(watch.length).fill(-1);
   const faultCurrents = new Float64Array(specs.length);
   // Cases whose two ends are one node move nothing: no fault current, left out of the maxima.
-  const live = specs.filter((s) => s.a !== s.b);
-  const caseOf = specs.flatMap((s, i) => (s.a !== s.b ? [i] : []));
+  const live: NetworkChange[] = [];
+  const caseOf: number[] = [];
+  for (let i = 0; i < specs.length; i++) {
+    if (specs[i].a === specs[i].b) continue;
+    live.push(specs[i].change);
+    caseOf.push(i);
+  }
   const err = fn.run(
-    live.map((s) => s.change),
+    live,
     watch,
     (v, currents, changeCurrent) => {
       const s = caseOf[v];

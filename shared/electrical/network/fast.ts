@@ -738,9 +738,31 @@ export function linearSweep(prep: PreparedNetwork, options: { omit?: (el: Networ
         } else return solveError('invalid_value', `element '${el.id}' (an ideal source) cannot be watched in a linear sweep`, { elements: [el.id] });
       }
       const currents = new Float64Array(w);
-      // Voltage across each watched element in the unchanged network.
+      // Voltage across each watched element in the unchanged network; its current is linear in that
+      // voltage: i = i0 + slope (v − v0).
       const v0 = new Float64Array(w);
-      for (let j = 0; j < w; j++) v0[j] = y0p[wa[j]] - y0p[wb[j]] + wc[j];
+      const i0 = new Float64Array(w);
+      const slope = new Float64Array(w);
+      const firstWatch = new Int32Array(els.length).fill(-1);
+      const nextWatch = new Int32Array(w).fill(-1);
+      for (let j = w - 1; j >= 0; j--) {
+        v0[j] = y0p[wa[j]] - y0p[wb[j]] + wc[j];
+        switch (wkind[j]) {
+          case KIND_BATTERY:
+            i0[j] = (wemf[j] - v0[j]) * wg[j];
+            slope[j] = -wg[j];
+            break;
+          case KIND_RESISTOR:
+            i0[j] = v0[j] * wg[j];
+            slope[j] = wg[j];
+            break;
+          case KIND_FIXED:
+            i0[j] = wemf[j];
+            break;
+        }
+        nextWatch[j] = firstWatch[wel[j]];
+        firstWatch[wel[j]] = j;
+      }
       // Each variant as a rank-one change: its two nodes, its pivot slots, Δg, ΔJ and the new conductance.
       const nv = variants.length;
       const vna = new Int32Array(nv);
@@ -815,23 +837,11 @@ export function linearSweep(prep: PreparedNetwork, options: { omit?: (el: Networ
             if (!(Math.abs(den) > 1e-300) || !Number.isFinite(den)) return solveError('singular_network', `the network with change ${s + 1} is singular`);
             alpha = dJ - (dg * (y0p[pa] - y0p[pb] + dJ * uz)) / den;
           }
-          for (let j = 0; j < w; j++) {
+          for (let j = 0; j < w; j++) currents[j] = i0[j] + alpha * slope[j] * (Z[4 * wa[j] + r] - Z[4 * wb[j] + r]);
+          // The changed element itself: its new conductance (a shorted battery has lost its EMF).
+          for (let j = changed >= 0 ? firstWatch[changed] : -1; j >= 0; j = nextWatch[j]) {
             const v = v0[j] + alpha * (Z[4 * wa[j] + r] - Z[4 * wb[j] + r]);
-            let i: number;
-            switch (wkind[j]) {
-              case KIND_BATTERY:
-                i = (wemf[j] - v) * wg[j];
-                break;
-              case KIND_RESISTOR:
-                i = v * wg[j];
-                break;
-              case KIND_FIXED:
-                i = wemf[j];
-                break;
-              default:
-                i = 0;
-            }
-            currents[j] = wel[j] === changed ? (els[changed].kind === 'battery' ? -v : v) * gNew : i;
+            currents[j] = (els[changed].kind === 'battery' ? -v : v) * gNew;
           }
           const na = vna[s];
           const nb = vnb[s];
