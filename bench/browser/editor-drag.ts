@@ -164,18 +164,17 @@ async function editBench(page: Page, fieldLabel: string, values: string[], watch
   await field.waitFor();
   const out: EditSample[] = [];
   for (const v of values) {
-    const done = field.evaluate(
-      (input, sel) =>
-        new Promise<EditSample>((resolve, reject) => {
+    // Arm the watchers first (and wait for that), then type: otherwise the input could come first.
+    await field.evaluate(
+      (input, sel) => {
+        const w = window as unknown as { __bwEdit: Promise<EditSample> };
+        w.__bwEdit = new Promise<EditSample>((resolve, reject) => {
           const target = document.querySelector(sel);
           if (!target) return reject(new Error(`no ${sel}`));
           const before = target.textContent;
           let t0 = 0;
           const marksBefore = performance.getEntriesByType('mark').length;
-          const onInput = (e: Event) => {
-            t0 = e.timeStamp;
-          };
-          input.addEventListener('input', onInput, { capture: true, once: true });
+          input.addEventListener('input', (e) => (t0 = e.timeStamp), { capture: true, once: true });
           const obs = new MutationObserver(() => {
             if (!t0 || target.textContent === before) return;
             const t1 = performance.now();
@@ -196,11 +195,12 @@ async function editBench(page: Page, fieldLabel: string, values: string[], watch
           });
           obs.observe(target, { subtree: true, childList: true, characterData: true });
           setTimeout(() => reject(new Error('no update within 10 s')), 10_000);
-        }),
+        });
+      },
       watch,
     );
     await field.fill(v);
-    out.push(await done);
+    out.push(await page.evaluate(() => (window as unknown as { __bwEdit: Promise<EditSample> }).__bwEdit));
   }
   return out;
 }
@@ -303,13 +303,15 @@ async function main() {
     await page.screenshot({ path: screenshotPath('bench-editor-200-zoomed') });
 
     // Property edits: one battery's internal resistance (its own figure changes), then the inverter's power (every figure changes).
-    await page.locator('.react-flow__node[data-id="bat32"]').click({ position: { x: 12, y: 12 } });
+    await page.locator('.react-flow__node[data-id="bat32"]').focus();
+    await page.keyboard.press('Enter');
     const vals = (a: string, b: string) => Array.from({ length: EDITS }, (_, i) => (i % 2 ? a : b));
     const battery = await editBench(page, 'Internal resistance', vals('2', '30'), '[data-testid="share-bat32"]');
     log('battery edit', summarise(battery));
-    await page.getByRole('button', { name: 'Fit' }).click();
+    await page.getByRole('button', { name: 'Fit', exact: true }).click();
     await page.waitForTimeout(600);
-    await page.locator('.react-flow__node[data-id="inverter"]').click({ position: { x: 4, y: 4 } });
+    await page.locator('.react-flow__node[data-id="inverter"]').focus();
+    await page.keyboard.press('Enter');
     const inverter = await editBench(page, 'AC output power', vals('2000', '2600'), '[data-testid="share-bat1"]');
     log('inverter edit', summarise(inverter));
 

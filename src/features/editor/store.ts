@@ -457,7 +457,12 @@ export const useEditorStore = create<EditorState>()((set, get) => {
 
     requestFit: () => set((s) => ({ focusRequest: { ids: [], seq: (s.focusRequest?.seq ?? 0) + 1 } })),
 
-    setAnalysis: (options) => set({ analysis: { ...options } }),
+    // Results of another mode are not shown under the new one (nor handed to the panels as if they were).
+    setAnalysis: (options) =>
+      set((s) => {
+        const same = s.analysis.mode === options.mode && s.analysis.fault?.kind === options.fault?.kind && s.analysis.fault?.id === options.fault?.id;
+        return same ? { analysis: { ...options } } : { analysis: { ...options }, results: null, resultsStatus: 'computing' };
+      }),
     setResults: (results, status) => set({ results, resultsStatus: status }),
     setResultsStatus: (status) => set({ resultsStatus: status }),
   };
