@@ -36,7 +36,7 @@ export function bank200(): DiagramDocument {
   const inv = parts.find((p) => p.id === 'inverter')!;
   for (let k = 1; k <= 5; k++) {
     const id = `load${k}`;
-    parts.push({ id, type: 'dc_load', label: `DC load ${k}`, position: { x: inv.position.x + 200 * k, y: 0 }, rotation: 0, props: { ...dcLoadDefaults(), current_A: 5 } });
+    parts.push({ id, type: 'dc_load', label: `DC load ${k}`, position: { x: inv.position.x + 200 * k, y: 0 }, rotation: 0, props: { ...dcLoadDefaults(), mode: 'current' as const, current_A: 5 } });
     cables.push({ id: `c-load${k}p`, from: { part: 'inverter', terminal: 'pos' }, to: { part: id, terminal: 'pos' }, props: run(1 + k * 0.5) });
     cables.push({ id: `c-load${k}n`, from: { part: 'inverter', terminal: 'neg' }, to: { part: id, terminal: 'neg' }, props: run(1 + k * 0.5) });
   }

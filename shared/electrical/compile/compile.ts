@@ -115,7 +115,7 @@ export function compileDiagram(doc: DiagramDocument): CompileResult {
 
   // --- Connections: floating parts and unconnected terminals -----------------------------------------
   // Each terminal's node name is built once; the same string then keys every map below.
-  const partTerminals = new Map<string, { terminals: string[]; nodes: Record<string, string>; nodeOf: Map<string, string> }>();
+  const partTerminals = new Map<string, { terminals: readonly string[]; nodes: Record<string, string>; nodeOf: Map<string, string> }>();
   for (const p of electrical) {
     const terminals = definitionOf(p).terminals(p.props);
     const nodes: Record<string, string> = {};
