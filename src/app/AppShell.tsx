@@ -4,7 +4,7 @@ import { FolderIcon, InboxIcon, LogoMark, SignOutIcon, UserIcon, UsersIcon } fro
 import { Menu, MenuSeparator, menuItemClass } from '@/components/Menu';
 import { SafetyCaution } from '@/components/SafetyCaution';
 import { ErrorState, PageLoading } from '@/components/States';
-import { useMe, useSignOut, useSignedInMe } from '@/features/auth/hooks';
+import { SignedInMeContext, useMe, useSignOut, useSignedInMe } from '@/features/auth/hooks';
 import { useCurrentTeam } from '@/features/teams/hooks';
 import { TeamSwitcher } from '@/features/teams/TeamSwitcher';
 import { CreateTeamForm } from '@/features/teams/CreateTeamForm';
@@ -43,7 +43,11 @@ export function RequireAuth() {
     const next = location.pathname + location.search;
     return <Navigate to={next === '/' ? '/sign-in' : `/sign-in?next=${encodeURIComponent(next)}`} replace />;
   }
-  return <Outlet />;
+  return (
+    <SignedInMeContext.Provider value={me.data}>
+      <Outlet />
+    </SignedInMeContext.Provider>
+  );
 }
 
 const navClass = ({ isActive }: { isActive: boolean }) =>

@@ -14,6 +14,9 @@ describe('config from env', () => {
       appOrigin: 'http://localhost:3000',
       demo: true,
       demoPassword: 'bankwright-demo',
+      // Uploads: 20 MB per file on local disk under DATA_DIR unless S3_BUCKET is set (README).
+      uploadMaxBytes: 20 * 1024 * 1024,
+      storage: { kind: 'local' },
     });
   });
 
