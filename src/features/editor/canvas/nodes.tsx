@@ -49,6 +49,7 @@ function TerminalHandle({ nodeId, placement, readOnly, label }: { nodeId: string
       style={style}
       isConnectable={!readOnly}
       className={`bw-terminal bw-terminal-${kind}${allowed ? (crossesPolarity ? ' bw-target-caution' : ' bw-target') : ''}${isSource ? ' bw-terminal-from' : ''}`}
+      role="img"
       title={`${label} terminal ${placement.terminal}${placement.polarity ? ` (${placement.polarity === '+' ? 'positive' : 'negative'})` : ''}${hint}`}
       aria-label={`${label} ${placement.polarity === '+' ? 'positive' : placement.polarity === '−' ? 'negative' : `terminal ${placement.terminal}`}`}
     >
@@ -83,6 +84,7 @@ function PartShell({ id, data, selected, caption, inside, children }: { id: stri
       className={`bw-part bw-part-${part.type}${selected ? ' bw-selected' : ''}`}
       style={{ width: box.w, height: box.h }}
       data-part-id={id}
+      role="group"
       aria-label={`${PART_TYPES[part.type].name}: ${label}`}
     >
       <svg width={box.w} height={box.h} viewBox={`0 0 ${box.w} ${box.h}`} className="bw-symbol" aria-hidden="true" focusable="false">
