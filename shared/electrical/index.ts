@@ -5,9 +5,9 @@
  */
 export * from './network/types';
 export {
-  solveNetwork, solveNetworkReference, prepareNetwork, solvePrepared, solveVariants, applyChanges,
+  solveNetwork, solveNetworkReference, prepareNetwork, solvePrepared, solvePreparedEmf, solveVariants, linearSweep, applyChanges,
   batteryShortVariants, cableLoadEndShortVariants, internalShort, withShunt, parseNetwork, parseNetworkJson,
-  validateNetwork, type PreparedNetwork, type NetworkChange,
+  validateNetwork, type PreparedNetwork, type NetworkChange, type LinearSweep,
 } from './network/solve';
 export * from './parts';
 export * from './tables';

@@ -3,7 +3,7 @@
  * fault sweep and the rule checks, as one JSON-serialisable result keyed by diagram ids. Never throws
  * on a valid document; compiler and solver errors come back as structured errors and findings.
  *
- * Modes (docs/check-command.md):
+ * Modes (docs/cli.md, "check"):
  * - load: loads as drawn, chargers off.
  * - charge: chargers on, loads off — how the charger current splits between batteries and strings.
  * - equalize: loads and chargers off; batteries at their own states of charge joined: the initial
