@@ -35,17 +35,7 @@ function expectStructured(e: SolveError) {
   }
 }
 
-type Stage = 'refused' | 'solve_error' | 'solved' | 'overflow';
-
-/**
- * KNOWN DEFECT (reported, see the `it.fails` below): validateNetwork only checks that values are finite,
- * so a finite but absurd value (an EMF of 1e301 V) solves into Infinity watts. Until the solver refuses
- * values beyond physical ranges, a network holding a number over 1e150 in magnitude that solves into
- * non-finite figures is counted as 'overflow' instead of failing the property. Every other input must
- * give finite figures.
- */
-const EXTREME = 1e150;
-const hasExtreme = (net: unknown) => numbersIn(net).some((n) => Math.abs(n.value) > EXTREME);
+type Stage = 'refused' | 'solve_error' | 'solved';
 
 function checkParsed(parsed: ReturnType<typeof parseNetwork>): Stage {
   if (!parsed.ok) {
@@ -58,17 +48,15 @@ function checkParsed(parsed: ReturnType<typeof parseNetwork>): Stage {
     return 'solve_error';
   }
   const bad = numbersIn(r).filter((n) => !Number.isFinite(n.value));
-  if (bad.length > 0 && hasExtreme(parsed.network)) return 'overflow';
   expect(bad.map((n) => `${n.path} = ${n.value}`)).toEqual([]);
   return 'solved';
 }
 
-const tally = (): Record<Stage, number> => ({ refused: 0, solve_error: 0, solved: 0, overflow: 0 });
+const tally = (): Record<Stage, number> => ({ refused: 0, solve_error: 0, solved: 0 });
 
 describe('fuzz: network files', () => {
-  // Fails today: the solver answers Infinity W instead of refusing a 1e301 V battery with invalid_value.
-  // When this starts passing, remove `.fails` and the 'overflow' exemption above.
-  it.fails('refuses absurd finite values (a 1e301 V battery) instead of answering Infinity', () => {
+  // Found by this fuzzing: a 1e301 V battery used to solve into Infinity W. validateNetwork now bounds values.
+  it('refuses absurd finite values (a 1e301 V battery) instead of answering Infinity', () => {
     const net = {
       ground: 'n0',
       elements: [
@@ -78,8 +66,12 @@ describe('fuzz: network files', () => {
     };
     const parsed = parseNetwork(net);
     const r = parsed.ok ? solveNetwork(parsed.network) : parsed;
-    if (r.ok) expect(numbersIn(r).filter((n) => !Number.isFinite(n.value))).toEqual([]);
-    else expect(r.error.code).toBe('invalid_value');
+    expect(r.ok).toBe(false);
+    if (!r.ok) {
+      expect(r.error.code).toBe('invalid_value');
+      expect(r.error.elements).toEqual(['b1']);
+      expect(r.error.message).toContain('ocv_V');
+    }
   });
 
   it(`${NETWORK_RUNS.valueMutations} structurally mutated networks: structured errors or finite results`, () => {

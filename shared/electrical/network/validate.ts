@@ -71,31 +71,56 @@ class UnionFind {
 
 const finite = (v: number) => typeof v === 'number' && Number.isFinite(v);
 
+/**
+ * Physical bounds on element values. Engineering limits set far beyond any battery bank or DC plant
+ * (the largest are grid-scale: hundreds of kV, megawatts), so a value outside them is a typing or file
+ * error, not a design: without them a finite but absurd value (an EMF of 1e301 V) solves into Infinity.
+ * Resistances from 1 pΩ (below any bolted joint) to 1 TΩ (an open switch is 10 MΩ). Chosen here, not
+ * taken from a standard.
+ */
+export const VALUE_BOUNDS = {
+  /** |ocv_V|, |volts|, v_min_V: 100 kV. */
+  maxVolts: 1e5,
+  /** r_ohm of every element. */
+  minOhm: 1e-12,
+  maxOhm: 1e12,
+  /** |amps| of a current source, i_max_A of a charger: 10 MA. */
+  maxAmps: 1e7,
+  /** |watts| of a constant-power load: 1 GW. */
+  maxWatts: 1e9,
+} as const;
+
 function badValue(el: NetworkElement, field: string, rule: string): SolveError {
   return solveError('invalid_value', `element '${el.id}': ${field} must be ${rule} (got ${String((el as Record<string, unknown>)[field])})`, {
     elements: [el.id],
   });
 }
-const positive = (v: number | undefined) => v === undefined || (finite(v) && v > 0);
-const POSITIVE = 'a finite number > 0';
+const B = VALUE_BOUNDS;
+const inMagnitude = (v: number, max: number) => finite(v) && Math.abs(v) <= max;
+const positiveUpTo = (v: number | undefined, max: number) => v === undefined || (finite(v) && v > 0 && v <= max);
+const resistance = (v: number | undefined) => v === undefined || (finite(v) && v >= B.minOhm && v <= B.maxOhm);
+const VOLTS = `a finite number of at most ${B.maxVolts} V in magnitude`;
+const OHMS = `a finite number from ${B.minOhm} to ${B.maxOhm} Ω`;
+const POSITIVE_VOLTS = `a finite number > 0 and at most ${B.maxVolts} V`;
+const POSITIVE_AMPS = `a finite number > 0 and at most ${B.maxAmps} A`;
 
 function checkValues(el: NetworkElement): SolveError | null {
   switch (el.kind) {
     case 'battery':
-      if (!finite(el.ocv_V)) return badValue(el, 'ocv_V', 'a finite number');
-      return el.r_ohm !== undefined && positive(el.r_ohm) ? null : badValue(el, 'r_ohm', POSITIVE);
+      if (!inMagnitude(el.ocv_V, B.maxVolts)) return badValue(el, 'ocv_V', VOLTS);
+      return el.r_ohm !== undefined && resistance(el.r_ohm) ? null : badValue(el, 'r_ohm', OHMS);
     case 'resistor':
     case 'load_resistor':
-      return el.r_ohm !== undefined && positive(el.r_ohm) ? null : badValue(el, 'r_ohm', POSITIVE);
+      return el.r_ohm !== undefined && resistance(el.r_ohm) ? null : badValue(el, 'r_ohm', OHMS);
     case 'current_source':
-      return finite(el.amps) ? null : badValue(el, 'amps', 'a finite number');
+      return inMagnitude(el.amps, B.maxAmps) ? null : badValue(el, 'amps', `a finite number of at most ${B.maxAmps} A in magnitude`);
     case 'constant_power':
-      if (!finite(el.watts)) return badValue(el, 'watts', 'a finite number');
-      return positive(el.v_min_V) ? null : badValue(el, 'v_min_V', POSITIVE);
+      if (!inMagnitude(el.watts, B.maxWatts)) return badValue(el, 'watts', `a finite number of at most ${B.maxWatts} W in magnitude`);
+      return positiveUpTo(el.v_min_V, B.maxVolts) ? null : badValue(el, 'v_min_V', POSITIVE_VOLTS);
     case 'voltage_source':
-      if (!finite(el.volts)) return badValue(el, 'volts', 'a finite number');
-      if (!positive(el.r_ohm)) return badValue(el, 'r_ohm', POSITIVE);
-      return positive(el.i_max_A) ? null : badValue(el, 'i_max_A', POSITIVE);
+      if (!inMagnitude(el.volts, B.maxVolts)) return badValue(el, 'volts', VOLTS);
+      if (!resistance(el.r_ohm)) return badValue(el, 'r_ohm', OHMS);
+      return positiveUpTo(el.i_max_A, B.maxAmps) ? null : badValue(el, 'i_max_A', POSITIVE_AMPS);
   }
 }
 
