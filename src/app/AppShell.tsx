@@ -72,8 +72,13 @@ function AccountMenu() {
       buttonClassName="flex h-8 items-center gap-2 rounded-md pr-2 pl-1 text-[13px] text-graphite-200 hover:bg-graphite-800 aria-expanded:bg-graphite-800"
       button={
         <>
-          <span className="flex size-6 items-center justify-center rounded bg-graphite-700 text-[11px] font-semibold text-copper-200">
-            {initials || <UserIcon size={14} />}
+          {/* Initials drawn by CSS, so the button's visible text is the name its label carries. */}
+          <span
+            aria-hidden="true"
+            data-initials={initials}
+            className="flex size-6 items-center justify-center rounded bg-graphite-700 text-[11px] font-semibold text-copper-200 before:content-[attr(data-initials)]"
+          >
+            {initials ? null : <UserIcon size={14} />}
           </span>
           <span className="hidden max-w-40 truncate sm:inline">{me.user.name}</span>
         </>

@@ -109,7 +109,7 @@ describe('editor accessibility', () => {
     const before = await nodes.count();
 
     // Palette: focus a part and press Enter to place it.
-    await page.getByRole('button', { name: /^Battery:/ }).focus();
+    await page.getByRole('button', { name: /^Battery / }).focus();
     await page.keyboard.press('Enter');
     await expect.poll(() => nodes.count()).toBe(before + 1);
 

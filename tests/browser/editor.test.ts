@@ -69,7 +69,7 @@ describe('diagram editor', () => {
     const canvas = (await page.locator('.bw-canvas').boundingBox())!;
     const y = canvas.y + canvas.height / 2;
     for (let i = 0; i < 4; i++) {
-      await page.getByRole('button', { name: /^Battery:/ }).dragTo(page.locator('.bw-canvas'), {
+      await page.getByRole('button', { name: /^Battery / }).dragTo(page.locator('.bw-canvas'), {
         targetPosition: { x: 120 + i * 170, y: y - canvas.y },
       });
     }

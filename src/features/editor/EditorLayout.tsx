@@ -18,6 +18,7 @@ import type { DiagramRecord } from './api';
 import { Canvas } from './canvas/Canvas';
 import { Palette } from './Palette';
 import { PropertiesPanel } from './properties/PropertiesPanel';
+import { ModeStatus } from './results/ModeStatus';
 import { useLiveResults } from './results/useLiveResults';
 import { SHORTCUTS, useEditorShortcuts } from './shortcuts';
 import { selectCanRedo, selectCanUndo, useEditorStore } from './store';
@@ -161,6 +162,7 @@ function StatusBar() {
   const counts = c ? { error: c.findings.filter((f) => f.severity === 'error').length, warning: c.findings.filter((f) => f.severity === 'warning').length } : null;
   return (
     <div className="bw-statusbar" aria-label="Results summary">
+      <ModeStatus />
       <span>
         {nParts} parts · {nCables} cables
       </span>

@@ -23,7 +23,7 @@ export const PALETTE: { type: PartType; hint: string }[] = [
   { type: 'battery', hint: '12 V-class battery' },
   { type: 'series_string', hint: 'N batteries in series' },
   { type: 'busbar', hint: 'Bar with taps' },
-  { type: 'fuse', hint: 'Fuse or breaker' },
+  { type: 'fuse', hint: 'Overcurrent protection' },
   { type: 'switch', hint: 'Battery disconnect' },
   { type: 'shunt', hint: 'Current shunt' },
   { type: 'lug', hint: 'Bolted joint' },
@@ -64,12 +64,12 @@ const PaletteItem = memo(function PaletteItem({ type, hint, onPlace }: { type: P
         onKeyDown={onKeyDown}
         onDoubleClick={() => onPlace(type)}
         className="bw-palette-item"
-        aria-label={`${PART_TYPES[type].name}: ${hint}. Press Enter to place at the centre of the view, or drag onto the canvas.`}
+        aria-describedby="palette-how-to-place"
         title={`${hint}: drag onto the canvas, or press Enter`}
       >
         <PaletteGlyph type={type} />
         <span className="min-w-0">
-          <span className="block truncate text-[13px] font-medium text-graphite-800">{PART_TYPES[type].name}</span>
+          <span className="block truncate text-[13px] font-medium text-graphite-800">{PART_TYPES[type].name}</span>{' '}
           <span className="block truncate text-[11px] text-graphite-500">{hint}</span>
         </span>
       </button>
@@ -164,12 +164,12 @@ function TeamLibrary({ centre }: { centre: () => { x: number; y: number } }) {
                   className="bw-palette-item cursor-pointer disabled:cursor-not-allowed disabled:opacity-50"
                   disabled={disabled}
                   onClick={() => (cable ? applyCablePreset(item) : placePreset(item, centre()))}
-                  aria-label={`${item.name} (${itemSummary(item)}): ${action}`}
+                  aria-describedby="palette-how-to-place"
                   title={`${itemSummary(item)}. ${action}.`}
                 >
                   {glyph ? <PaletteGlyph type={glyph} /> : <CableGlyph />}
                   <span className="min-w-0">
-                    <span className="block truncate text-[13px] font-medium text-graphite-800">{item.name}</span>
+                    <span className="block truncate text-[13px] font-medium text-graphite-800">{item.name}</span>{' '}
                     <span className="block truncate text-[11px] text-graphite-500">{cable ? (disabled ? 'Cable: select cables' : 'Cable: apply to selection') : itemSummary(item)}</span>
                   </span>
                 </button>
@@ -193,6 +193,9 @@ export function Palette() {
   if (readOnly) return null;
   return (
     <nav aria-label="Parts palette" className="bw-palette">
+      <p id="palette-how-to-place" className="sr-only">
+        Press Enter to place the part at the centre of the view, or drag it onto the canvas. A cable preset applies to the selected cables.
+      </p>
       <h2 className="px-2 pt-2 pb-1 text-[11px] font-semibold tracking-wide text-graphite-500 uppercase">Parts</h2>
       <ul className="space-y-0.5 px-1 pb-2">
         {PALETTE.map((p) => (

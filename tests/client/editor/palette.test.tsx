@@ -18,7 +18,7 @@ describe('parts palette', () => {
     resetEditor();
     renderPalette();
     const user = userEvent.setup();
-    const item = screen.getByRole('button', { name: /^Battery:/ });
+    const item = screen.getByRole('button', { name: /^Battery / });
     item.focus();
     await user.keyboard('{Enter}');
     const parts = editor().doc.parts;
@@ -32,7 +32,7 @@ describe('parts palette', () => {
     resetEditor();
     renderPalette();
     const user = userEvent.setup();
-    const item = screen.getByRole('button', { name: /^Fuse:/ });
+    const item = screen.getByRole('button', { name: /^Fuse / });
     item.focus();
     await user.keyboard('{Enter}');
     await user.keyboard('{Enter}');
@@ -44,7 +44,7 @@ describe('parts palette', () => {
   it('lists every part type of the issue, reachable with Tab', async () => {
     resetEditor();
     renderPalette();
-    const names = screen.getAllByRole('button').map((b) => b.getAttribute('aria-label')!.split(':')[0]);
+    const names = screen.getAllByRole('button').map((b) => b.querySelector('.font-medium')!.textContent);
     expect(names).toEqual([
       'Battery', 'Series string', 'Busbar', 'Fuse', 'Switch / disconnect', 'Shunt', 'Lug / terminal joint', 'Inverter', 'DC load', 'Charger', 'Note',
     ]);

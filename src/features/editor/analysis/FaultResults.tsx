@@ -9,7 +9,9 @@ import { CheckIcon, ErrorIcon } from '@/components/icons';
 import type { LabelOf } from './labels';
 import { Figures, PartLink, fmtKA, tableClass } from './ui';
 
-export function faultCaseLabel(c: Pick<FaultCase, 'kind' | 'id'>, labelOf: LabelOf): string {
+export function faultCaseLabel(c: Pick<FaultCase, 'kind' | 'id'> | undefined, labelOf: LabelOf): string {
+  // A cable no fault case drives current through has no worst case.
+  if (!c) return '—';
   return c.kind === 'battery' ? `${labelOf(c.id)} internally shorted` : `${labelOf(c.id)} shorted at its load end`;
 }
 
