@@ -170,7 +170,7 @@ function TeamLibrary({ centre }: { centre: () => { x: number; y: number } }) {
                   {glyph ? <PaletteGlyph type={glyph} /> : <CableGlyph />}
                   <span className="min-w-0">
                     <span className="block truncate text-[13px] font-medium text-graphite-800">{item.name}</span>{' '}
-                    <span className="block truncate text-[11px] text-graphite-500">{cable ? (disabled ? 'Cable: select cables' : 'Cable: apply to selection') : itemSummary(item)}</span>
+                    <span className="block truncate text-[11px] text-graphite-500">{cable ? action : itemSummary(item)}</span>
                   </span>
                 </button>
               </li>
