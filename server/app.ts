@@ -25,11 +25,12 @@ import { uploadRoutes } from './routes/uploads';
 import { libraryRoutes } from './routes/library';
 import { createStorage } from './storage';
 import type { UploadStorage } from './storage/types';
+import { analysisPool, type AnalysisPool } from './services/analysis-pool';
 
 export const JSON_BODY_LIMIT = '1mb';
 /** Routes that carry a whole diagram document (up to 2,000 parts and 5,000 cables) take larger bodies. */
 export const DIAGRAM_BODY_LIMIT = '5mb';
-const DIAGRAM_BODY_ROUTES = [/^\/projects\/[^/]+\/diagrams\/?$/, /^\/diagrams\/[^/]+\/(working-copy|revisions)\/?$/];
+const DIAGRAM_BODY_ROUTES = [/^\/projects\/[^/]+\/diagrams\/?$/, /^\/diagrams\/[^/]+\/(working-copy|revisions|check)\/?$/];
 
 /** JSON body parser: DIAGRAM_BODY_LIMIT on the diagram document routes, JSON_BODY_LIMIT everywhere else. */
 function jsonBodies(): RequestHandler {
@@ -51,6 +52,8 @@ export interface CreateAppOptions {
   limiter?: Partial<LimiterOptions>;
   /** Storage for uploads; by default the one the config names (DATA_DIR/uploads, or S3_BUCKET). */
   storage?: UploadStorage;
+  /** Worker threads for analyses; by default the process's pool, configured from `config.analysis`. */
+  analysis?: AnalysisPool;
 }
 
 function securityHeaders(config: Config, dev: boolean): RequestHandler {
@@ -85,7 +88,8 @@ export function createApp(options: CreateAppOptions): Express {
   const sessions = createSessions(db);
   const limiter = createSignInLimiter(options.limiter);
   const storage = options.storage ?? createStorage(config);
-  const deps: AppDeps = { db, mailer, config, sessions, limiter, storage };
+  const analysis = options.analysis ?? analysisPool(config.analysis);
+  const deps: AppDeps = { db, mailer, config, sessions, limiter, storage, analysis };
 
   const app = express();
   app.disable('x-powered-by');

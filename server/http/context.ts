@@ -6,6 +6,7 @@ import type { Mailer } from '../mail/mailer';
 import type { SignInLimiter } from '../auth/rate-limit';
 import type { ActiveSession, Sessions, SessionUser } from '../auth/sessions';
 import type { UploadStorage } from '../storage/types';
+import type { AnalysisPool } from '../services/analysis-pool';
 import { unauthenticated } from './errors';
 
 export interface AppDeps {
@@ -16,6 +17,8 @@ export interface AppDeps {
   limiter: SignInLimiter;
   /** Where uploaded files' bytes live (server/storage). */
   storage: UploadStorage;
+  /** Worker threads for the electrical analyses (server/services/analysis-pool.ts). */
+  analysis: AnalysisPool;
 }
 
 export interface Auth {

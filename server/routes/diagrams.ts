@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { duplicateDiagramSchema, restoreRevisionSchema, saveRevisionSchema, updateDiagramSchema, workingCopySchema } from '../../shared/schemas/diagrams';
+import { checkOptionsSchema, duplicateDiagramSchema, restoreRevisionSchema, saveRevisionSchema, updateDiagramSchema, workingCopySchema } from '../../shared/schemas/diagrams';
 import { requireAuth, type AppDeps } from '../http/context';
 import { notFound } from '../http/errors';
 import { parse } from '../http/validate';
@@ -10,6 +10,7 @@ import { addComment, decide, listComments, requestReview, setCommentResolved } f
 import { requireDiagramRole } from '../services/access';
 import { deleteDiagram, saveAnnotations, saveWorkingCopy, updateDiagram } from '../services/diagrams';
 import { annotationsBodySchema } from '../../shared/diagram/annotations';
+import { checkDiagram } from '../services/checks';
 import { duplicateDiagram, findRevision, getDiagramWithLatest, getRevision, listRevisions, restoreRevision, saveRevision } from '../services/revisions';
 
 /** A revision number from the URL: 1, 2, … (anything else names no revision). */
@@ -26,7 +27,7 @@ async function revisionAccess(db: Db, userId: string, diagramId: string, n: stri
 }
 
 export function diagramRoutes(deps: AppDeps): Router {
-  const { db, mailer, config } = deps;
+  const { db, mailer, config, analysis } = deps;
   const r = Router();
 
   r.get('/:id', async (req, res) => {
@@ -71,6 +72,24 @@ export function diagramRoutes(deps: AppDeps): Router {
     res.status(201).json({ diagram: await duplicateDiagram(db, user.id, req.params.id, input) });
   });
 
+  // The analysis of sent content (unsaved edits) or of the working copy, in a worker thread; nothing is stored.
+  r.post('/:id/check', async (req, res) => {
+    const { user } = requireAuth(res);
+    const { diagram } = await requireDiagramRole(db, user.id, req.params.id, 'project.read');
+    const input = parse(checkOptionsSchema, req.body);
+    const fromRequest = input.content !== undefined;
+    const checked = await checkDiagram(analysis, {
+      content: fromRequest ? input.content : diagram.content,
+      source: fromRequest ? 'request' : 'working_copy',
+      mode: input.mode,
+      fault: input.fault,
+    });
+    // The result is already JSON (serialised in the worker): sent as is, not parsed and re-serialised here.
+    res
+      .type('json')
+      .send(`{"analysis":${checked.analysisJson},"source":"${fromRequest ? 'request' : 'working_copy'}","elements":${checked.elements}}`);
+  });
+
   r.get('/:id/revisions', async (req, res) => {
     const { user } = requireAuth(res);
     await requireDiagramRole(db, user.id, req.params.id, 'project.read');
@@ -81,7 +100,7 @@ export function diagramRoutes(deps: AppDeps): Router {
     const { user } = requireAuth(res);
     await requireDiagramRole(db, user.id, req.params.id, 'diagram.edit');
     const input = parse(saveRevisionSchema, req.body);
-    res.status(201).json({ revision: await saveRevision(db, user.id, req.params.id, input) });
+    res.status(201).json({ revision: await saveRevision(db, user.id, req.params.id, input, analysis) });
   });
 
   r.get('/:id/revisions/:n', async (req, res) => {
@@ -95,7 +114,7 @@ export function diagramRoutes(deps: AppDeps): Router {
     await requireDiagramRole(db, user.id, req.params.id, 'diagram.edit');
     const n = revisionNumber(req.params.n);
     const input = parse(restoreRevisionSchema, req.body);
-    res.status(201).json({ revision: await restoreRevision(db, user.id, req.params.id, n, input.message) });
+    res.status(201).json({ revision: await restoreRevision(db, user.id, req.params.id, n, input.message, analysis) });
   });
 
   r.post('/:id/revisions/:n/review-requests', async (req, res) => {

@@ -15,6 +15,7 @@ import { newId } from '../ids';
 import { contentHash } from './content-hash';
 import { createDiagram, getDiagram } from './diagrams';
 import { computeResultsSummary } from './summaries';
+import type { AnalysisPool } from './analysis-pool';
 import type { RevisionResultsSummary } from './results-summary';
 
 const author = alias(users, 'author');
@@ -131,9 +132,10 @@ export async function saveRevision(
   userId: string,
   diagramId: string,
   input: { baseRevision: number | null | 'latest'; message: string; content: DiagramDocument; restoredFrom?: number },
+  pool?: AnalysisPool,
 ) {
   // The analysis runs before the transaction (in a worker): no lock is held while it solves.
-  const resultsSummary = await computeResultsSummary(input.content);
+  const resultsSummary = await computeResultsSummary(input.content, pool);
   const hash = contentHash(input.content);
   const number = await db.transaction(async (tx) => {
     const [diagram] = await tx.select({ projectId: diagrams.projectId, name: diagrams.name }).from(diagrams).where(eq(diagrams.id, diagramId)).for('update');
@@ -173,7 +175,7 @@ export async function saveRevision(
   return getRevision(db, diagramId, number);
 }
 
-export async function restoreRevision(db: Db, userId: string, diagramId: string, number: number, message: string | undefined) {
+export async function restoreRevision(db: Db, userId: string, diagramId: string, number: number, message: string | undefined, pool?: AnalysisPool) {
   const [source] = await db
     .select({ content: diagramRevisions.content })
     .from(diagramRevisions)
@@ -184,7 +186,7 @@ export async function restoreRevision(db: Db, userId: string, diagramId: string,
     message: message || `Restored revision ${number}`,
     content: source.content as DiagramDocument,
     restoredFrom: number,
-  });
+  }, pool);
 }
 
 /** A new diagram in the same project from a revision's content (default the latest; the working copy when there is none). */

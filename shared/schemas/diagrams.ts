@@ -55,3 +55,29 @@ export const REVISION_STATE_LABELS: Record<RevisionState, string> = {
   changes_requested: 'Changes requested',
   approved: 'Approved',
 };
+
+export const CHECK_MODES = ['load', 'charge', 'equalize', 'fault', 'discharge'] as const;
+export type CheckMode = (typeof CHECK_MODES)[number];
+
+const checkFields = {
+  mode: z.enum(CHECK_MODES, { error: `mode must be one of ${CHECK_MODES.join(', ')}` }).default('load'),
+  fault: z
+    .object({
+      kind: z.enum(['battery', 'cable'], { error: 'fault.kind must be battery or cable' }),
+      // A part or cable id, or a series-string member "<stringId>/b<k>".
+      id: z.string().min(1, 'fault.id is required').max(140, 'fault.id is too long').regex(/^[A-Za-z0-9_/-]+$/, 'fault.id names a battery, string member or cable'),
+    })
+    .optional(),
+};
+const faultNeedsFaultMode = (v: { mode: CheckMode; fault?: unknown }) => v.fault === undefined || v.mode === 'fault';
+const FAULT_MODE_ONLY = { message: 'fault is only allowed with mode "fault"', path: ['fault'] };
+
+/**
+ * POST /api/diagrams/:id/check: analyse `content` (a designer checking unsaved content), or without it
+ * the diagram's working copy. In fault mode, `fault` picks one case to solve in full.
+ */
+export const checkDiagramSchema = z.object({ ...checkFields, content: diagramSchema.optional() }).refine(faultNeedsFaultMode, FAULT_MODE_ONLY);
+export type CheckDiagramInput = z.input<typeof checkDiagramSchema>;
+
+/** The same body with `content` left unparsed: the server validates it with the diagram schema in a worker thread. */
+export const checkOptionsSchema = z.object({ ...checkFields, content: z.unknown().optional() }).refine(faultNeedsFaultMode, FAULT_MODE_ONLY);

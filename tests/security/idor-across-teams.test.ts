@@ -9,14 +9,19 @@
  * missing route cannot pass as "404 for the attacker". A route that does not exist yet is skipped with
  * its name in the reason.
  */
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { count, eq } from 'drizzle-orm';
 import { sql } from 'drizzle-orm';
 import { busbarBankTemplate } from '../../shared/diagram/templates';
 import { makeTestApp, type Agent, type TestApp } from '../helpers/app';
 import { diagrams, invites } from '../../server/db/schema';
+import { multipart, png } from '../integration/upload-fixtures';
 
 let t: TestApp;
+let uploadDir: string;
 let victim: Agent; // the demo team's designer
 let victimOwner: Agent;
 let attacker: Agent; // owner of a team of their own
@@ -40,7 +45,8 @@ async function tableFingerprint(): Promise<string> {
 }
 
 beforeAll(async () => {
-  t = await makeTestApp();
+  uploadDir = fs.mkdtempSync(path.join(os.tmpdir(), 'bw-idor-'));
+  t = await makeTestApp({ config: { dataDir: uploadDir } });
   victim = await t.agentFor('designer');
   victimOwner = await t.agentFor('owner');
   demoTeamId = (await victim.get('/api/teams')).body.teams[0].id;
@@ -60,6 +66,7 @@ beforeAll(async () => {
 });
 afterAll(async () => {
   await t?.close();
+  fs.rmSync(uploadDir, { recursive: true, force: true });
 });
 
 interface Probe {
@@ -156,5 +163,30 @@ describe('IDOR: another team\'s invites and members through one\'s own team path
     expect(after.find((m) => m.userId === target.userId)?.role).toBe('viewer');
   });
 
-  it.todo('uploads: another team\'s upload by id answers 404 (no upload route exists yet)');
+  it("uploads: another team's upload by id answers 404 to download and delete, and their upload list too; the file stays", async () => {
+    const bytes = png(4, 4);
+    const { body, type } = multipart('victim site photo.png', bytes, 'image/png');
+    const up = await victim.post(`/api/projects/${projectId}/uploads`).set('Content-Type', type).send(body);
+    expect(up.status).toBe(201);
+    const uploadId = up.body.upload.id;
+    // The same calls work for the victim.
+    expect((await victim.get(`/api/uploads/${uploadId}/content`)).status).toBe(200);
+    const before = await tableFingerprint();
+    const download = await attacker.get(`/api/uploads/${uploadId}/content`);
+    expect(download.status).toBe(404);
+    expect(download.body.error.code).toBe('not_found');
+    expect(JSON.stringify(download.body)).not.toContain('victim site photo');
+    const list = await attacker.get(`/api/projects/${projectId}/uploads`);
+    expect(list.status).toBe(404);
+    expect(JSON.stringify(list.body)).not.toContain('victim site photo');
+    expect((await attacker.delete(`/api/uploads/${uploadId}`)).status).toBe(404);
+    expect(await tableFingerprint()).toBe(before);
+    const again = await victim.get(`/api/uploads/${uploadId}/content`).buffer(true).parse((res, cb) => {
+      const chunks: Buffer[] = [];
+      res.on('data', (c: Buffer) => chunks.push(c));
+      res.on('end', () => cb(null, Buffer.concat(chunks)));
+    });
+    expect(again.status).toBe(200);
+    expect(Buffer.compare(again.body as Buffer, bytes)).toBe(0);
+  });
 });
