@@ -1,9 +1,9 @@
 import { Router } from 'express';
-import { changePasswordSchema, updateAccountSchema } from '../../shared/schemas/auth';
+import { changeEmailSchema, changePasswordSchema, updateAccountSchema } from '../../shared/schemas/auth';
 import { requireAuth, secureCookies, type AppDeps } from '../http/context';
 import { notFound } from '../http/errors';
 import { parse } from '../http/validate';
-import { checkCredentials, publicUser, setPassword, updateName } from '../services/accounts';
+import { changeEmail, checkCredentials, publicUser, setPassword, updateName } from '../services/accounts';
 import { clientIp } from './auth';
 
 export function accountRoutes(deps: AppDeps): Router {
@@ -14,6 +14,14 @@ export function accountRoutes(deps: AppDeps): Router {
     const { user } = requireAuth(res);
     const input = parse(updateAccountSchema, req.body);
     res.json({ user: publicUser(await updateName(db, user.id, input.name)) });
+  });
+
+  // A changed e-mail is a changed sign-in: it asks for the current password, under the sign-in limiter.
+  r.patch('/email', async (req, res) => {
+    const { user } = requireAuth(res);
+    const input = parse(changeEmailSchema, req.body);
+    await checkCredentials(db, limiter, { email: user.email, password: input.currentPassword }, clientIp(req));
+    res.json({ user: publicUser(await changeEmail(db, user.id, input.email)) });
   });
 
   r.post('/password', async (req, res) => {

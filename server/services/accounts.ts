@@ -77,6 +77,23 @@ export async function updateName(db: Db, userId: string, name: string | undefine
   return row;
 }
 
+const EMAIL_TAKEN = () => conflict('email_taken', 'An account with this e-mail already exists.', { fields: { email: ['An account with this e-mail already exists'] } });
+
+/** Changes the account's e-mail (the caller has checked the current password). 409 email_taken when another account has it. */
+export async function changeEmail(db: Db, userId: string, email: string): Promise<SessionUser> {
+  const [other] = await db.select({ id: users.id }).from(users).where(eq(users.email, email));
+  if (other && other.id !== userId) throw EMAIL_TAKEN();
+  if (!other) {
+    try {
+      await db.update(users).set({ email }).where(eq(users.id, userId));
+    } catch (err) {
+      if (isUniqueViolation(err)) throw EMAIL_TAKEN();
+      throw err;
+    }
+  }
+  return updateName(db, userId, undefined);
+}
+
 export async function setPassword(db: Db, userId: string, password: string): Promise<void> {
   const passwordHash = await hashPassword(password);
   await db.update(users).set({ passwordHash }).where(eq(users.id, userId));

@@ -39,3 +39,10 @@ export const changePasswordSchema = z.object({
   newPassword: passwordSchema,
   endOtherSessions: z.boolean().default(true),
 });
+
+/** PATCH /api/account/email: a new e-mail address, confirmed with the current password. */
+export const changeEmailSchema = z.object({
+  email: emailSchema,
+  currentPassword: z.string({ error: 'Current password is required' }).min(1, 'Current password is required').max(200, 'Password is too long'),
+});
+export type ChangeEmailInput = z.infer<typeof changeEmailSchema>;

@@ -98,5 +98,46 @@ describe('account takeover through the e-mail address', () => {
     expect((await a.get('/api/auth/me')).body.user.email).toBe('keeps.email@example.test');
   });
 
-  it.todo('changing the e-mail asks for the current password (no e-mail change route exists yet)');
+  it('changing the e-mail asks for the current password: without it 400, with a wrong one 401, and the address stays', async () => {
+    const a = t.agent();
+    expect((await a.post('/api/auth/sign-up').send({ email: 'owns.email@example.test', password: 'owns password 1', name: 'Owns' })).status).toBe(201);
+    const without = await a.patch('/api/account/email').send({ email: 'attacker@evil.example' });
+    expect(without.status).toBe(400);
+    expect(Object.keys(without.body.error.details.fields)).toEqual(['currentPassword']);
+    const wrong = await a.patch('/api/account/email').send({ email: 'attacker@evil.example', currentPassword: 'guessed password' });
+    expect(wrong.status).toBe(401);
+    expect(wrong.body.error.code).toBe('invalid_credentials');
+    expect(await t.db.select().from(users).where(eq(users.email, 'attacker@evil.example'))).toHaveLength(0);
+    expect((await a.get('/api/auth/me')).body.user.email).toBe('owns.email@example.test');
+    // The right password changes it, and sign-in then works with the new address only.
+    const ok = await a.patch('/api/account/email').send({ email: 'Owns.New@Example.test', currentPassword: 'owns password 1' });
+    expect(ok.status).toBe(200);
+    expect(ok.body.user.email).toBe('owns.new@example.test');
+    expect((await request(t.server).post('/api/auth/sign-in').set('Origin', TEST_ORIGIN).send({ email: 'owns.email@example.test', password: 'owns password 1' })).status).toBe(401);
+    expect((await request(t.server).post('/api/auth/sign-in').set('Origin', TEST_ORIGIN).send({ email: 'owns.new@example.test', password: 'owns password 1' })).status).toBe(200);
+  });
+
+  it('e-mail change guesses count against the sign-in limiter (a stolen session is no password oracle)', async () => {
+    const a = t.agent();
+    expect((await a.post('/api/auth/sign-up').send({ email: 'guessed.email@example.test', password: 'guessed right 1', name: 'G' })).status).toBe(201);
+    let last: request.Response | undefined;
+    for (let i = 0; i < 12; i++) {
+      last = await a.patch('/api/account/email').send({ email: 'mallory@evil.example', currentPassword: `wrong guess ${i}` });
+      if (last.status === 429) break;
+    }
+    expect(last!.status).toBe(429);
+    expect(last!.body.error.code).toBe('too_many_attempts');
+    // Even the right password is refused while locked.
+    expect((await a.patch('/api/account/email').send({ email: 'mallory@evil.example', currentPassword: 'guessed right 1' })).status).toBe(429);
+    expect(await t.db.select().from(users).where(eq(users.email, 'mallory@evil.example'))).toHaveLength(0);
+  });
+
+  it("the e-mail cannot be changed to another account's address (409 email_taken), in any spelling", async () => {
+    const a = t.agent();
+    expect((await a.post('/api/auth/sign-up').send({ email: 'wants.owner@example.test', password: 'wants password 1', name: 'W' })).status).toBe(201);
+    const res = await a.patch('/api/account/email').send({ email: ' OWNER@demo.test ', currentPassword: 'wants password 1' });
+    expect(res.status).toBe(409);
+    expect(res.body.error.code).toBe('email_taken');
+    expect((await a.get('/api/auth/me')).body.user.email).toBe('wants.owner@example.test');
+  });
 });

@@ -1,9 +1,9 @@
 import { useState, type FormEvent } from 'react';
-import { changePasswordSchema, updateAccountSchema } from '@shared/schemas/auth';
+import { changeEmailSchema, changePasswordSchema, updateAccountSchema } from '@shared/schemas/auth';
 import type { FieldErrors } from '@shared/schemas/errors';
 import { Button } from '@/components/Button';
 import { CheckboxField, TextField } from '@/components/Field';
-import { KeyIcon, MonitorIcon, UserIcon } from '@/components/icons';
+import { KeyIcon, MailIcon, MonitorIcon, UserIcon } from '@/components/icons';
 import { Notice } from '@/components/Notice';
 import { PageHeader } from '@/components/PageHeader';
 import { ErrorState, LoadingRegion, Skeleton } from '@/components/States';
@@ -11,7 +11,7 @@ import { errorMessage, isApiError } from '@/lib/api';
 import { formatDate, formatDateTime } from '@/lib/format';
 import { parseForm, serverFormErrors } from '@/lib/forms';
 import { useSignedInMe } from '../auth/hooks';
-import { useChangePassword, useRevokeSession, useSessions, useUpdateAccount } from './hooks';
+import { useChangeEmail, useChangePassword, useRevokeSession, useSessions, useUpdateAccount } from './hooks';
 
 export function AccountPage() {
   const me = useSignedInMe();
@@ -21,6 +21,9 @@ export function AccountPage() {
       <div className="space-y-6">
         <Card icon={<UserIcon size={16} />} title="Profile">
           <ProfileForm name={me.user.name} />
+        </Card>
+        <Card icon={<MailIcon size={16} />} title="Change e-mail">
+          <EmailForm email={me.user.email} />
         </Card>
         <Card icon={<KeyIcon size={16} />} title="Change password">
           <PasswordForm />
@@ -72,6 +75,58 @@ function ProfileForm({ name }: { name: string }) {
         {server.formError ? <Notice signal="error">{server.formError}</Notice> : null}
         {update.isSuccess ? <Notice signal="success">Name saved.</Notice> : null}
       </div>
+    </form>
+  );
+}
+
+function EmailForm({ email }: { email: string }) {
+  const change = useChangeEmail();
+  const [values, setValues] = useState({ email: '', currentPassword: '' });
+  const [clientErrors, setClientErrors] = useState<FieldErrors>({});
+  const server = serverFormErrors(change.error);
+  const fieldErrors = { ...server.fieldErrors, ...clientErrors };
+  let formError = server.formError;
+  if (isApiError(change.error) && change.error.code === 'invalid_credentials') {
+    fieldErrors.currentPassword ??= ['Current password is incorrect.'];
+    formError = null;
+  }
+
+  function onSubmit(e: FormEvent) {
+    e.preventDefault();
+    const parsed = parseForm(changeEmailSchema, values);
+    if (!parsed.ok) return setClientErrors(parsed.fieldErrors);
+    setClientErrors({});
+    change.mutate(parsed.data, { onSuccess: () => setValues({ email: '', currentPassword: '' }) });
+  }
+
+  return (
+    <form noValidate onSubmit={onSubmit} className="max-w-sm space-y-4" aria-label="Change e-mail">
+      <div aria-live="polite" className="empty:hidden">
+        {formError ? <Notice signal="error">{formError}</Notice> : null}
+        {change.isSuccess ? <Notice signal="success">E-mail changed to {email}. Sign in with it from now on.</Notice> : null}
+      </div>
+      <TextField
+        label="New e-mail"
+        name="email"
+        type="email"
+        autoComplete="email"
+        value={values.email}
+        onChange={(e) => { setValues((v) => ({ ...v, email: e.target.value })); change.reset(); }}
+        errors={fieldErrors.email}
+      />
+      <TextField
+        label="Current password"
+        name="currentPassword"
+        type="password"
+        autoComplete="current-password"
+        hint="Changing the e-mail you sign in with asks for your password."
+        value={values.currentPassword}
+        onChange={(e) => setValues((v) => ({ ...v, currentPassword: e.target.value }))}
+        errors={fieldErrors.currentPassword}
+      />
+      <Button type="submit" variant="primary" pending={change.isPending}>
+        Change e-mail
+      </Button>
     </form>
   );
 }

@@ -11,6 +11,8 @@ export interface SessionInfo {
 
 export const updateAccount = (body: { name: string }) =>
   api<{ user: User }>('/api/account', { method: 'PATCH', body }).then((r) => r.user);
+export const changeEmail = (body: { email: string; currentPassword: string }) =>
+  api<{ user: User }>('/api/account/email', { method: 'PATCH', body }).then((r) => r.user);
 export const changePassword = (body: { currentPassword: string; newPassword: string; endOtherSessions: boolean }) =>
   api<void>('/api/account/password', { method: 'POST', body });
 export const fetchSessions = (signal?: AbortSignal) =>

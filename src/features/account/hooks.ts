@@ -1,7 +1,7 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { Me } from '../auth/api';
 import { authKeys } from '../auth/hooks';
-import { changePassword, fetchSessions, revokeSession, updateAccount } from './api';
+import { changeEmail, changePassword, fetchSessions, revokeSession, updateAccount } from './api';
 
 export const accountKeys = {
   sessions: ['account', 'sessions'] as const,
@@ -11,6 +11,14 @@ export function useUpdateAccount() {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: updateAccount,
+    onSuccess: (user) => queryClient.setQueryData<Me | null>(authKeys.me, (me) => (me ? { ...me, user } : me)),
+  });
+}
+
+export function useChangeEmail() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: changeEmail,
     onSuccess: (user) => queryClient.setQueryData<Me | null>(authKeys.me, (me) => (me ? { ...me, user } : me)),
   });
 }
