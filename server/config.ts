@@ -31,6 +31,29 @@ const envSchema = z
     S3_REGION: z.string().min(1).default('us-east-1'),
     S3_PREFIX: z.string().regex(/^[A-Za-z0-9/_-]{0,100}$/, 'S3_PREFIX may hold letters, digits, /, _ and -').default(''),
     S3_FORCE_PATH_STYLE: z.enum(['0', '1'], { error: 'S3_FORCE_PATH_STYLE must be 0 or 1' }).optional(),
+    /** Scheduled backups of the embedded database (PGlite only): minutes between backups, 0 = off. */
+    BACKUP_INTERVAL_MINUTES: z.coerce
+      .number('BACKUP_INTERVAL_MINUTES must be a number of minutes')
+      .int('BACKUP_INTERVAL_MINUTES must be a whole number of minutes')
+      .min(0, 'BACKUP_INTERVAL_MINUTES must be from 1 to 10080 (or 0 for off)')
+      .max(7 * 24 * 60, 'BACKUP_INTERVAL_MINUTES must be from 1 to 10080 (or 0 for off)')
+      .default(0),
+    BACKUP_DIR: z.string().min(1).optional(),
+    BACKUP_KEEP: z.coerce.number('BACKUP_KEEP must be a number').int('BACKUP_KEEP must be a whole number').min(1, 'BACKUP_KEEP must be at least 1').max(10_000, 'BACKUP_KEEP must be at most 10000').default(14),
+    /** Analysis worker threads (default: one per core, at most 4), jobs allowed to wait, and a job's time limit. */
+    ANALYSIS_WORKERS: z.coerce.number('ANALYSIS_WORKERS must be a number').int('ANALYSIS_WORKERS must be a whole number').min(1, 'ANALYSIS_WORKERS must be 1–16').max(16, 'ANALYSIS_WORKERS must be 1–16').optional(),
+    ANALYSIS_QUEUE: z.coerce.number('ANALYSIS_QUEUE must be a number').int('ANALYSIS_QUEUE must be a whole number').min(0, 'ANALYSIS_QUEUE must be 0–10000').max(10_000, 'ANALYSIS_QUEUE must be 0–10000').default(100),
+    ANALYSIS_TIMEOUT_SECONDS: z.coerce
+      .number('ANALYSIS_TIMEOUT_SECONDS must be a number')
+      .min(1, 'ANALYSIS_TIMEOUT_SECONDS must be 1–3600')
+      .max(3600, 'ANALYSIS_TIMEOUT_SECONDS must be 1–3600')
+      .default(60),
+  })
+  .superRefine((e, ctx) => {
+    if (!e.BACKUP_DIR) return;
+    const pglite = path.resolve(e.DATA_DIR, 'pglite');
+    const dir = path.resolve(e.BACKUP_DIR);
+    if (dir === pglite || dir.startsWith(pglite + path.sep)) ctx.addIssue({ code: 'custom', path: ['BACKUP_DIR'], message: 'BACKUP_DIR must not be inside DATA_DIR/pglite' });
   })
   .transform((e) => ({
     nodeEnv: e.NODE_ENV,
@@ -54,6 +77,13 @@ const envSchema = z
           forcePathStyle: e.S3_FORCE_PATH_STYLE ? e.S3_FORCE_PATH_STYLE === '1' : e.S3_ENDPOINT !== undefined,
         }
       : { kind: 'local' as const },
+    /** Scheduled backups (PGlite only; ignored with DATABASE_URL); null when off. BACKUP_DIR defaults to DATA_DIR/backups. */
+    backups:
+      e.BACKUP_INTERVAL_MINUTES > 0
+        ? { intervalMinutes: e.BACKUP_INTERVAL_MINUTES, dir: e.BACKUP_DIR ? path.resolve(e.BACKUP_DIR) : path.join(path.resolve(e.DATA_DIR), 'backups'), keep: e.BACKUP_KEEP }
+        : null,
+    /** The analysis worker pool (server/services/analysis-pool.ts); workers undefined = one per core, at most 4. */
+    analysis: { workers: e.ANALYSIS_WORKERS, maxQueued: e.ANALYSIS_QUEUE, timeoutMs: Math.round(e.ANALYSIS_TIMEOUT_SECONDS * 1000) },
   }));
 
 export type Config = z.output<typeof envSchema>;

@@ -15,7 +15,8 @@ import { acquireDataDirLock, DataDirLockedError, type DataDirLock } from './db/l
 import { DEMO_ACCOUNTS, seedDemo } from './db/seed';
 import { createMailer } from './mail/mailer';
 import { createSessions } from './auth/sessions';
-import { warmResultsSummaries } from './services/summaries';
+import { analysisPool } from './services/analysis-pool';
+import { scheduleBackups, type RunningBackups } from './db/backups';
 
 export const ROOT_DIR = fileURLToPath(new URL('..', import.meta.url));
 export const CLIENT_DIST_DIR = path.join(ROOT_DIR, 'dist', 'client');
@@ -60,16 +61,18 @@ export async function runServer(options: RunOptions = {}) {
     fail(`Could not open the database: ${(err as Error).message}`);
   }
   const { db } = database;
+  // The analysis workers load the electrical core while the database seeds and the listener starts.
+  const analysis = analysisPool(config.analysis);
+  analysis.warm();
 
   const seeded = config.demo ? await seedDemo(db, config.demoPassword) : false;
   if (seeded) console.log('Seeded the demo team "Kestrel Bay Energy Works".');
 
   const mailer = createMailer({ db, smtpUrl: config.smtpUrl });
   const client = await options.client?.(config);
-  const app = createApp({ db, mailer, config, client });
+  const app = createApp({ db, mailer, config, client, analysis });
 
   const server = app.listen(config.port);
-  warmResultsSummaries();
   await new Promise<void>((resolve) => {
     server.once('listening', resolve);
     server.once('error', async (err: NodeJS.ErrnoException) => {
@@ -84,18 +87,29 @@ export async function runServer(options: RunOptions = {}) {
   const sweep = setInterval(() => sessions.deleteExpiredSessions().catch(() => {}), 60 * 60 * 1000);
   sweep.unref();
 
+  // Scheduled backups of the embedded database (BACKUP_INTERVAL_MINUTES); PostgreSQL has its own tools.
+  let backups: RunningBackups | undefined;
+  if (config.backups && database.pglite) {
+    backups = scheduleBackups(database.pglite, config.backups);
+    console.log(`  backups: every ${config.backups.intervalMinutes} min into ${config.backups.dir}, keeping ${config.backups.keep}`);
+  }
+
   let stopping = false;
   async function shutdown(signal: string) {
     if (stopping) return;
     stopping = true;
     console.log(`\n${signal}: stopping…`);
     clearInterval(sweep);
+    const backupsStopped = backups?.stop();
     const forced = setTimeout(() => server.closeAllConnections(), 5000);
     forced.unref();
     await new Promise<void>((resolve) => server.close(() => resolve()));
     try {
       await options.onShutdown?.();
       await mailer.close();
+      await analysis.close();
+      // A backup in progress finishes before the database closes under it.
+      await backupsStopped;
       await database.close();
     } finally {
       lock?.release();
@@ -114,7 +128,7 @@ export async function runServer(options: RunOptions = {}) {
     console.log(`  demo accounts (password "${config.demoPassword}"):`);
     for (const a of DEMO_ACCOUNTS) console.log(`    ${a.email.padEnd(22)} ${a.role}`);
   }
-  return { server, config, database };
+  return { server, config, database, backups };
 }
 
 const isMain = process.argv[1] && import.meta.url === pathToFileURL(path.resolve(process.argv[1])).href;

@@ -28,6 +28,8 @@ export interface Database {
   kind: 'pglite' | 'postgres';
   /** Where the data lives, for log lines (a directory, or the URL without its password). */
   location: string;
+  /** The embedded instance (kind 'pglite'), for backups taken by the owning process. */
+  pglite?: PGlite;
   close(): Promise<void>;
 }
 
@@ -46,6 +48,7 @@ export async function openPglite(dataDir: string): Promise<Database> {
     db: db as unknown as Db,
     kind: 'pglite',
     location: dir,
+    pglite: client,
     async close() {
       if (closed) return;
       closed = true;
