@@ -73,7 +73,7 @@ describe('diagram editor', () => {
         targetPosition: { x: 120 + i * 170, y: y - canvas.y },
       });
     }
-    await page.getByRole('button', { name: /^Inverter:/ }).dragTo(page.locator('.bw-canvas'), {
+    await page.getByRole('button', { name: /^Inverter / }).dragTo(page.locator('.bw-canvas'), {
       targetPosition: { x: 120 + 4 * 170 + 60, y: y - canvas.y - 160 },
     });
     await expect.poll(() => page.locator('.react-flow__node').count()).toBe(5);
