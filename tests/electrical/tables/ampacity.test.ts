@@ -58,3 +58,100 @@ describe('ampacity tables', () => {
     expect(r.ok && r.amps).toBeCloseTo(195 * 0.8, 9);
   });
 });
+
+describe('the insulation rating limits the column read', () => {
+  // NEC Table 310.16, copper, 60 °C column, 30 °C ambient (2014+ editions) — from memory.
+  const NEC_60C = [15, 20, 30, 40, 55, 70, 95, 110, 125, 145, 165, 195];
+  // 33 CFR 183.425 Table 5, outside engine spaces, by insulation rating (read from the regulation's table).
+  const CFR_60C = [20, 25, 40, 55, 80, 105, 140, 165, 195, 225, 260, 300];
+  const CFR_75C = [20, 25, 40, 65, 95, 125, 170, 195, 230, 265, 310, 360];
+  const CFR_90C = [30, 40, 55, 70, 100, 135, 180, 210, 245, 285, 330, 385];
+  const awg = (size: (typeof SIZES)[number]) => ({ system: 'awg', size }) as const;
+
+  it.each(SIZES.map((s, i) => [s, i] as const))('%s AWG, 60 °C insulation on either NEC table reads the 60 °C column', (size, i) => {
+    for (const table of ['nec-310.16-75C', 'nec-310.16-90C'] as const) {
+      const r = ampacity({ size: awg(size), table, insulation_C: 60 });
+      expect(r.ok && r.amps).toBe(NEC_60C[i]); // NEC Table 310.16, 60 °C — from memory
+      expect(r.ok && r.limitedBy).toBe('insulation');
+      expect(r.ok && r.column_C).toBe(60);
+    }
+  });
+
+  it('4 AWG, 60 °C insulation on the 75 °C table: 70 A, and the result says the insulation set it', () => {
+    const r = ampacity({ size: awg('4'), table: 'nec-310.16-75C', insulation_C: 60 });
+    if (!r.ok) throw new Error('not in table');
+    expect(r.amps).toBe(70); // NEC Table 310.16, 60 °C, 4 AWG — from memory
+    expect(r.baseAmps).toBe(70);
+    expect(r.limitedBy).toBe('insulation');
+    expect(r.note).toBe('60 °C insulation: read from the 60 °C column');
+  });
+
+  it('75 °C insulation on the 90 °C table reads the 75 °C column (4 AWG: 85 A, NEC Table 310.16)', () => {
+    const r = ampacity({ size: awg('4'), table: 'nec-310.16-90C', insulation_C: 75 });
+    expect(r.ok && r.amps).toBe(85);
+    expect(r.ok && r.column_C).toBe(75);
+  });
+
+  it('insulation rated above the table is not credited: 90 °C 4 AWG on the 75 °C table stays 85 A (NEC Table 310.16, 75 °C)', () => {
+    const r = ampacity({ size: awg('4'), table: 'nec-310.16-75C', insulation_C: 90 });
+    if (!r.ok) throw new Error('not in table');
+    expect(r.amps).toBe(85);
+    expect(r.limitedBy).toBe('table');
+    expect(r.column_C).toBe(75);
+    expect(r.note).toMatch(/not credited/);
+    const same = ampacity({ size: awg('4'), table: 'nec-310.16-75C', insulation_C: 75 });
+    expect(same.ok && same.limitedBy).toBe('table');
+    expect(same.ok && same.note).toBeUndefined();
+  });
+
+  it('the ambient correction is taken for the column read (NEC 310.15(B) equation, from memory)', () => {
+    // 60 °C conductor at 40 °C ambient: sqrt((60 − 40)/(60 − 30)) = 0.816; NEC 310.15(B)(1) table, 60 °C
+    // column, 36–40 °C: 0.82 (from memory).
+    const r = ampacity({ size: awg('4'), table: 'nec-310.16-75C', insulation_C: 60, ambient_C: 40 });
+    expect(r.ok && r.ambientFactor).toBeCloseTo(0.82, 2);
+    expect(r.ok && r.amps).toBeCloseTo(70 * Math.sqrt(20 / 30), 9);
+    // At or above the insulation rating the conductor carries nothing.
+    const hot = ampacity({ size: awg('4'), table: 'nec-310.16-75C', insulation_C: 60, ambient_C: 65 });
+    expect(hot.ok && hot.amps).toBe(0);
+  });
+
+  it.each(SIZES.map((s, i) => [s, i] as const))('%s AWG on the marine table reads the 33 CFR 183.425 Table 5 column of its insulation', (size, i) => {
+    const read = (insulation_C: number) => ampacity({ size: awg(size), table: 'cfr-183.425-105C-outside', insulation_C });
+    const r60 = read(60), r75 = read(75), r90 = read(90), r105 = read(105);
+    expect(r60.ok && r60.amps).toBe(CFR_60C[i]); // 33 CFR 183.425 Table 5, 60 °C
+    expect(r75.ok && r75.amps).toBe(CFR_75C[i]); // 33 CFR 183.425 Table 5, 75 °C
+    expect(r90.ok && r90.amps).toBe(CFR_90C[i]); // 33 CFR 183.425 Table 5, 90 °C
+    expect(r105.ok && r105.amps).toBe(CFR_OUTSIDE[i]); // 33 CFR 183.425 Table 5, 105 °C
+    expect(r105.ok && r105.limitedBy).toBe('table');
+  });
+
+  it('in engine spaces a lower-rated insulation takes its own factor (33 CFR 183.425 note 1 to Table 5, from memory)', () => {
+    // 2 AWG, 60 °C insulation: 140 A outside × 0.58 = 81.2 A; 90 °C: 180 A × 0.82 = 147.6 A.
+    const r60 = ampacity({ size: awg('2'), table: 'cfr-183.425-105C-outside', engineSpace: true, insulation_C: 60 });
+    expect(r60.ok && r60.amps).toBeCloseTo(81.2, 9);
+    expect(r60.ok && r60.table).toBe('cfr-183.425-105C-engine');
+    expect(r60.ok && r60.limitedBy).toBe('insulation');
+    const r90 = ampacity({ size: awg('2'), table: 'cfr-183.425-105C-engine', insulation_C: 90 });
+    expect(r90.ok && r90.amps).toBeCloseTo(147.6, 9);
+    // 105 °C insulation keeps the printed engine-space column: 2 AWG 178 A (33 CFR 183.425 Table 5).
+    const r105 = ampacity({ size: awg('2'), table: 'cfr-183.425-105C-engine', insulation_C: 105 });
+    expect(r105.ok && r105.amps).toBe(178);
+  });
+
+  it('3 AWG rows: NEC 310.16 60 °C 85 A (from memory); 33 CFR 183.425 Table 5: 120 A at 60 °C, 180 A and 153 A at 105 °C', () => {
+    const read = (table: Parameters<typeof ampacity>[0]['table'], insulation_C?: number) => {
+      const r = ampacity({ size: { system: 'awg', size: '3' }, table, insulation_C });
+      return r.ok ? r.amps : null;
+    };
+    expect(read('nec-310.16-75C', 60)).toBe(85);
+    expect(read('cfr-183.425-105C-outside', 60)).toBe(120);
+    expect(read('cfr-183.425-105C-outside')).toBe(180);
+    expect(read('cfr-183.425-105C-engine')).toBe(153);
+  });
+
+  it('insulation rated below every column is an error, not a number', () => {
+    const r = ampacity({ size: awg('4'), table: 'nec-310.16-75C', insulation_C: 50 });
+    expect(r.ok).toBe(false);
+    expect(!r.ok && r.error.code).toBe('insulation_below_table');
+  });
+});
