@@ -69,7 +69,7 @@ function equalizeFindings(ctx: AnalysisContext, op: OperatingPoint): Finding[] {
     if (c.ampacity_A !== null && Math.abs(c.current_A) > c.ampacity_A) {
       out.push({
         id: 'equalization-current-over-ampacity', severity: 'warning', parts: [id],
-        message: `When the batteries are joined, ${id} carries ${amps(Math.abs(c.current_A))}, above its ampacity of ${amps(c.ampacity_A)}.`,
+        message: `When the batteries are joined, ${id} carries ${amps(Math.abs(c.current_A))}, above its ampacity of ${amps(c.ampacity_A)}${c.ampacityLimitedBy === 'insulation' ? ` (${c.ampacityNote})` : ''}.`,
         basis: 'first principles; ampacity from the selected table',
         suggestion: 'Equalise the states of charge before connecting.',
       });

@@ -45,6 +45,8 @@ export interface AnalysisContext {
   bankNominal_V: number;
   /** Corrected ampacity of each cable, A (null: zero-length joint or size not in the table). */
   ampacity_A: Map<string, number | null>;
+  /** How each cable's ampacity was read (column, and whether its insulation limited it). */
+  ampacity: Map<string, CableAmpacity | null>;
   /** Elements owned by loads / chargers. */
   loadElements: Set<string>;
   chargerElements: Set<string>;
@@ -52,24 +54,40 @@ export interface AnalysisContext {
 
 export type ContextResult = { ok: true; ctx: AnalysisContext } | { ok: false; errors: AnalysisIssue[] };
 
+/** A cable run's corrected ampacity and how it was read. */
+export interface CableAmpacity {
+  amps: number;
+  /** Temperature column read, °C. */
+  column_C: number;
+  /** 'insulation' when the run's insulation is rated below the selected table, so its own column was read. */
+  limitedBy: 'table' | 'insulation';
+  /** Plain-language note when the insulation rating changed the column or was not credited. */
+  note?: string;
+}
+
 /**
- * Corrected ampacity of a cable run, A: settings.ampacityTable read at the run's ambient (or the bank's),
- * with the bundling adjustment and the engine-space column where the run is in one. A NEC 90 °C table is
- * read at its 75 °C column for insulation rated below 90 °C (NEC 110.14(C), from memory). Null for a
- * zero-length bolted joint or a size the table does not list.
+ * Corrected ampacity of a cable run: settings.ampacityTable read at the column of the run's insulation
+ * rating when that is below the table's temperature (never credited above it), at the run's ambient (or
+ * the bank's), with the bundling adjustment and the engine-space column where the run is in one. Null for
+ * a zero-length bolted joint or a size (or insulation rating) the table does not list.
  */
-export function cableAmpacity_A(props: CableRunProps, settings: DiagramSettings): number | null {
+export function cableAmpacity(props: CableRunProps, settings: DiagramSettings): CableAmpacity | null {
   if (props.length_m === 0) return null;
-  let table = settings.ampacityTable;
-  if (table === 'nec-310.16-90C' && props.insulation_C < 90) table = 'nec-310.16-75C';
   const r = ampacity({
     size: props.conductor,
-    table,
+    table: settings.ampacityTable,
+    insulation_C: props.insulation_C,
     ambient_C: props.ambient_C ?? settings.ambient_C,
     bundledConductors: props.installation === 'bundled' ? props.bundledConductors ?? 4 : 1,
     engineSpace: props.installation === 'engine_space',
   });
-  return r.ok ? r.amps : null;
+  if (!r.ok) return null;
+  return { amps: r.amps, column_C: r.column_C, limitedBy: r.limitedBy, ...(r.note ? { note: r.note } : {}) };
+}
+
+/** Corrected ampacity of a cable run, A (see `cableAmpacity`). */
+export function cableAmpacity_A(props: CableRunProps, settings: DiagramSettings): number | null {
+  return cableAmpacity(props, settings)?.amps ?? null;
 }
 
 function unitOf(p: SourcePart, map: CompileMap, topo: DiagramTopology, batteryIds: Set<string>): SourceUnit {
@@ -157,8 +175,13 @@ export function buildContext(doc: DiagramDocument): ContextResult {
   for (const p of topo.chargers) for (const e of map.parts[p.id]?.elements ?? []) chargerElements.add(e);
   const across = topo.loads[0] ?? topo.chargers.find((c) => c.props.enabled) ?? null;
   const terminals: [string, string] | null = across ? [map.parts[across.id].nodes.pos, map.parts[across.id].nodes.neg] : null;
+  const cableAmp = new Map<string, CableAmpacity | null>();
   const ampacity_A = new Map<string, number | null>();
-  for (const c of doc.cables) ampacity_A.set(c.id, cableAmpacity_A(c.props, doc.settings));
+  for (const c of doc.cables) {
+    const a = cableAmpacity(c.props, doc.settings);
+    cableAmp.set(c.id, a);
+    ampacity_A.set(c.id, a?.amps ?? null);
+  }
   return {
     ok: true,
     ctx: {
@@ -173,6 +196,7 @@ export function buildContext(doc: DiagramDocument): ContextResult {
       elementNominal_V,
       bankNominal_V: nominalAcross(network, elementNominal_V, terminals),
       ampacity_A,
+      ampacity: cableAmp,
       loadElements,
       chargerElements,
     },

@@ -128,6 +128,7 @@ export function operatingPoint(ctx: AnalysisContext, sol: SolveResult): Operatin
     if (!m) continue;
     const i = I[c.id] ?? 0; // the conductor element; 0 when a zero-length joint merged its ends
     const amp = ctx.ampacity_A.get(c.id) ?? null;
+    const basis = ctx.ampacity.get(c.id);
     cables[c.id] = {
       current_A: fin(i),
       drop_V: fin(V(m.from_node) - V(m.to_node)),
@@ -135,6 +136,8 @@ export function operatingPoint(ctx: AnalysisContext, sol: SolveResult): Operatin
       r_ohm: m.r_ohm,
       ampacity_A: amp,
       utilisation_pct: amp ? fin((Math.abs(i) / amp) * 100) : null,
+      ...(basis?.limitedBy === 'insulation' ? { ampacityLimitedBy: 'insulation' as const } : {}),
+      ...(basis?.note ? { ampacityColumn_C: basis.column_C, ampacityNote: basis.note } : {}),
     };
   }
 

@@ -85,6 +85,12 @@ export interface CableFigures {
   ampacity_A: number | null;
   /** |current| / ampacity, %. */
   utilisation_pct: number | null;
+  /** Set when the run's insulation is rated below the selected table: its own column was read. */
+  ampacityLimitedBy?: 'insulation';
+  /** Temperature column the ampacity was read from, °C (set with `ampacityLimitedBy` or `ampacityNote`). */
+  ampacityColumn_C?: number;
+  /** How the insulation rating affected the ampacity ("60 °C insulation: read from the 60 °C column"). */
+  ampacityNote?: string;
 }
 
 export interface PartFigures {

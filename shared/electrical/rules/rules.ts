@@ -3,7 +3,7 @@
  * see registry.ts for how to add one. Numbers in messages are rounded for reading; the figures keep full
  * precision.
  */
-import { cableAmpacity_A } from '../analysis/context';
+import { type CableAmpacity, cableAmpacity } from '../analysis/context';
 import { branchesToBusbar, postToPostChains } from '../analysis/topology';
 import type { Finding } from '../analysis/types';
 import { batteryCells, stringMembers, type BatteryProps } from '../parts/battery';
@@ -156,6 +156,15 @@ function protectedCables(input: RuleInput, fuseId: string): string[] {
   return distinct([...input.topo.branch(fuseId, 'a').cables, ...input.topo.branch(fuseId, 'b').cables]);
 }
 
+/**
+ * How a cable's ampacity was read, for messages: "nec-310.16-75C, corrected", or with the insulation
+ * limit named ("nec-310.16-75C, 60 °C insulation: read from the 60 °C column, corrected").
+ */
+function ampacityBasis(input: RuleInput, a: Pick<CableAmpacity, 'limitedBy' | 'note'>): string {
+  const table = input.doc.settings.ampacityTable;
+  return a.limitedBy === 'insulation' && a.note ? `${table}, ${a.note}, corrected` : `${table}, corrected`;
+}
+
 const fuseAboveAmpacity: Rule = {
   id: 'fuse-above-ampacity',
   title: 'Fuse rating above the ampacity of the cable it protects',
@@ -167,12 +176,15 @@ const fuseAboveAmpacity: Rule = {
     for (const f of input.topo.fuses) {
       for (const cid of protectedCables(input, f.id)) {
         const c = input.topo.cables.get(cid)!;
-        const amp = cableAmpacity_A(c.props, input.doc.settings);
-        if (amp === null || f.props.rating_A <= amp + 1e-9) continue;
+        const amp = cableAmpacity(c.props, input.doc.settings);
+        if (amp === null || f.props.rating_A <= amp.amps + 1e-9) continue;
         out.push({
           id: this.id, severity: this.severity, basis: this.basis, parts: [f.id, cid],
-          message: `${name(input, f.id)} is rated ${amps(f.props.rating_A)} but ${name(input, cid)} carries only ${amps(amp)} (${input.doc.settings.ampacityTable}, corrected).`,
-          suggestion: 'Use a larger cable or a smaller fuse.',
+          message: `${name(input, f.id)} is rated ${amps(f.props.rating_A)} but ${name(input, cid)} carries only ${amps(amp.amps)} (${ampacityBasis(input, amp)}).`,
+          suggestion:
+            amp.limitedBy === 'insulation'
+              ? 'Use a larger cable, cable with higher-rated insulation, or a smaller fuse.'
+              : 'Use a larger cable or a smaller fuse.',
         });
       }
     }
@@ -318,10 +330,12 @@ const cableOverAmpacity: Rule = {
     const out: Finding[] = [];
     for (const [id, c] of Object.entries(input.load!.cables)) {
       if (c.ampacity_A === null || Math.abs(c.current_A) <= c.ampacity_A) continue;
+      const limited = c.ampacityLimitedBy === 'insulation';
       out.push({
-        id: this.id, severity: this.severity, basis: `${input.doc.settings.ampacityTable}, corrected`, parts: [id],
-        message: `${name(input, id)} carries ${amps(Math.abs(c.current_A))}, above its ampacity of ${amps(c.ampacity_A)} (${pct(c.utilisation_pct ?? 0)}).`,
-        suggestion: 'Use a larger conductor.',
+        id: this.id, severity: this.severity, parts: [id],
+        basis: ampacityBasis(input, { limitedBy: limited ? 'insulation' : 'table', note: c.ampacityNote }),
+        message: `${name(input, id)} carries ${amps(Math.abs(c.current_A))}, above its ampacity of ${amps(c.ampacity_A)} (${pct(c.utilisation_pct ?? 0)}${limited && c.ampacityNote ? `; ${c.ampacityNote}` : ''}).`,
+        suggestion: limited ? 'Use a larger conductor, or cable with higher-rated insulation.' : 'Use a larger conductor.',
       });
     }
     return out;

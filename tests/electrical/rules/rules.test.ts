@@ -77,6 +77,22 @@ describe('each rule fires where it should and not elsewhere', () => {
     expect(ids(clean())).not.toContain('fuse-above-ampacity');
   });
 
+  it('fuse-above-ampacity names the insulation limit: 60 A fuse on 6 AWG with 60 °C insulation (55 A, NEC 310.16 60 °C column, from memory)', () => {
+    // 6 AWG: 65 A at 75 °C (NEC Table 310.16) carries the clean bank's 60 A fuse; 60 °C insulation reads
+    // the 60 °C column, 55 A, below it (NEC 240.4).
+    const d = clean();
+    for (const c of d.cables) if (['c-fuse1', 'c-pos1'].includes(c.id)) c.props.insulation_C = 60;
+    const f = findings(d, 'fuse-above-ampacity');
+    expect(f.map((x) => x.parts[1]).sort()).toEqual(['c-fuse1', 'c-pos1']);
+    expect(f[0].message).toContain('55.0 A');
+    expect(f[0].message).toContain('60 °C insulation: read from the 60 °C column');
+    expect(f[0].suggestion).toMatch(/higher-rated insulation/);
+    // 75 °C insulation on the 75 °C table: 65 A, no finding.
+    const d75 = clean();
+    for (const c of d75.cables) if (['c-fuse1', 'c-pos1'].includes(c.id)) c.props.insulation_C = 75;
+    expect(ids(d75)).not.toContain('fuse-above-ampacity');
+  });
+
   it('fuse-voltage-rating: a 32 V fuse on a 48 V system', () => {
     const d = clean();
     d.settings.systemVoltage_V = 48;
@@ -106,6 +122,37 @@ describe('each rule fires where it should and not elsewhere', () => {
     c.props.conductor = { system: 'awg', size: '12' }; // 25 A at 75 °C (NEC 310.16)
     expect(findings(d, 'cable-over-ampacity').map((f) => f.parts[0])).toContain('c-neg2');
     expect(ids(clean())).not.toContain('cable-over-ampacity');
+  });
+
+  it('cable-over-ampacity names the insulation limit: 8 AWG carries a battery share of 40–50 A at 75 °C but not at 60 °C', () => {
+    // 8 AWG copper: 50 A at 75 °C (NEC Table 310.16), 40 A at 60 °C (NEC Table 310.16, from memory).
+    // The inverter is raised to 2.2 kW so that battery 2's share through its 8 AWG lead lies between the two.
+    const with8 = (insulation_C: 60 | 75) => {
+      const d = clean();
+      Object.assign(part(d, 'inverter'), { power_W: 2200, rated_W: 2200 });
+      const c = d.cables.find((x) => x.id === 'c-neg2')!;
+      c.props.conductor = { system: 'awg', size: '8' };
+      c.props.insulation_C = insulation_C;
+      return d;
+    };
+    const r60 = analyzeDiagram(with8(60));
+    const fig = r60.operating!.cables['c-neg2'];
+    const i = Math.abs(fig.current_A);
+    expect(i).toBeGreaterThan(40);
+    expect(i).toBeLessThan(50);
+    expect(fig.ampacity_A).toBe(40);
+    expect(fig.ampacityLimitedBy).toBe('insulation');
+    expect(fig.ampacityColumn_C).toBe(60);
+    expect(fig.utilisation_pct).toBeCloseTo((i / 40) * 100, 9);
+    const f = r60.findings.filter((x) => x.id === 'cable-over-ampacity');
+    expect(f.map((x) => x.parts[0])).toEqual(['c-neg2']);
+    expect(f[0].message).toContain('ampacity of 40.0 A');
+    expect(f[0].message).toContain('60 °C insulation: read from the 60 °C column');
+    expect(f[0].basis).toContain('60 °C insulation');
+    const r75 = analyzeDiagram(with8(75));
+    expect(r75.operating!.cables['c-neg2'].ampacity_A).toBe(50);
+    expect(r75.operating!.cables['c-neg2'].ampacityLimitedBy).toBeUndefined();
+    expect(r75.findings.map((x) => x.id)).not.toContain('cable-over-ampacity');
   });
 
   it('voltage-drop above 3 % (NEC 210.19(A) note / ABYC E-11)', () => {
