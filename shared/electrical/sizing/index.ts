@@ -6,14 +6,15 @@
  * above max(share × design margin, share at full power) — the margin is settings.designMargin (common
  * practice 1.25–1.5; NEC 210.20(A) 125 % of continuous load). The conductor is the smallest size, in the
  * branch's own size system, whose corrected ampacity carries that rating (NEC 240.4, recalled) and keeps
- * the branch's own voltage drop (share × branch resistance) within settings.voltageDropLimit_pct.
+ * the branch's own voltage drop (share × branch resistance) within settings.voltageDropLimit_pct. Each run
+ * keeps its own insulation, so a run with insulation rated below the table is sized on its own column.
  * Suggestions are a starting point for the designer, not an approval to install.
  */
 import { type DiagramCable, type DiagramDocument, type DiagramPart, diagramSchema } from '../../diagram/schema';
 import { type ConductorSize, MM2_SIZES, usStandardSizes } from '../../units/conductor';
 import { sizeLabel } from '../../units/format';
 import { inverterDcPowers_W } from '../analysis/bank';
-import { type AnalysisContext, buildContext, cableAmpacity_A } from '../analysis/context';
+import { type AnalysisContext, type CableAmpacity, buildContext, cableAmpacity } from '../analysis/context';
 import { solveLoadCase } from '../analysis/analyze';
 import { faultSweep, prepareFaults } from '../analysis/faults';
 import type { AnalysisIssue } from '../analysis/types';
@@ -42,6 +43,8 @@ export interface BranchSizing {
   cables: { id: string; conductor: ConductorSize; present: ConductorSize }[];
   /** Corrected ampacity of the suggested conductor (shortest-rated run of the branch), A. */
   ampacity_A: number;
+  /** Set when that run's insulation is rated below the table, so its own column was read. */
+  ampacityLimitedBy?: 'insulation';
   /** share × branch resistance with the suggested conductor, % of the system voltage. */
   branchDrop_pct: number;
   reasoning: string;
@@ -102,10 +105,13 @@ export function suggestSizing(doc: DiagramDocument): SizingResult {
     const present = (sized[0] ?? cables[0])?.props.conductor ?? { system: 'awg', size: '2/0' };
     let pick: ConductorSize | null = null;
     let pickAmp = 0;
+    let pickBasis: CableAmpacity | null = null;
     let pickDrop = 0;
     let limitedBy: 'ampacity' | 'drop' = 'ampacity';
     for (const size of candidates(present)) {
-      const amps = Math.min(...sized.map((c) => cableAmpacity_A({ ...c.props, conductor: size }, s) ?? 0));
+      // The shortest-rated run of the branch with this conductor, each run at its own insulation rating.
+      const reads = sized.map((c) => cableAmpacity({ ...c.props, conductor: size }, s));
+      const amps = Math.min(...reads.map((a) => a?.amps ?? 0));
       if (sized.length && !(amps >= rating)) continue;
       const r = sized.reduce((sum, c) => sum + cableRunConductorResistance_ohm({ ...c.props, conductor: size }, cableTemperature_C(c.props, s.ambient_C)) + (c.props.lugFrom_ohm ?? 0) + (c.props.lugTo_ohm ?? 0), 0);
       const drop = ((share * r) / s.systemVoltage_V) * 100;
@@ -115,18 +121,20 @@ export function suggestSizing(doc: DiagramDocument): SizingResult {
       }
       pick = size;
       pickAmp = sized.length ? amps : Infinity;
+      pickBasis = reads.find((a) => a !== null && a.amps === amps) ?? null;
       pickDrop = drop;
       break;
     }
     const conductor = pick ?? candidates(present).at(-1)!;
     const label = ctx.topo.parts.get(u.id)?.label || u.id;
+    const insulationNote = pickBasis?.limitedBy === 'insulation' && pickBasis.note ? `, ${pickBasis.note}` : '';
     const reasoning = [
       `${label} carries ${fmt(share)} A in the load case${fullScale > 1.0001 ? ` (${fmt(full)} A at the inverters' rated power)` : ''}.`,
       `${fmt(share)} A × ${s.designMargin} = ${fmt(share * s.designMargin)} A${fullScale > 1.0001 ? `; the larger of that and ${fmt(full)} A is ${fmt(required)} A` : ''}, so the next standard rating is ${rating} A (NEC 240.6(A)).`,
       !sized.length
         ? `The branch has no cable run of its own (its connections are bolted directly), so no conductor is sized for it.`
         : pick
-        ? `${sizeLabel(conductor)} is the smallest conductor whose corrected ampacity (${fmt(pickAmp)} A, ${s.ampacityTable}) carries ${rating} A (NEC 240.4)${limitedBy === 'drop' ? ` and keeps the branch drop within ${s.voltageDropLimit_pct} %` : ''}; branch drop ${pickDrop.toFixed(2)} %.`
+        ? `${sizeLabel(conductor)} is the smallest conductor whose corrected ampacity (${fmt(pickAmp)} A, ${s.ampacityTable}${insulationNote}) carries ${rating} A (NEC 240.4)${limitedBy === 'drop' ? ` and keeps the branch drop within ${s.voltageDropLimit_pct} %` : ''}; branch drop ${pickDrop.toFixed(2)} %.`
         : `No listed conductor carries ${rating} A within a ${s.voltageDropLimit_pct} % drop; the largest listed size is suggested — split the load over more batteries or shorten the runs.`,
       existing ? '' : `There is no fuse in this branch: a ${FUSE_CLASSES[fuseClass].name} fuse is added at the positive post.`,
     ].filter(Boolean).join(' ');
@@ -138,6 +146,7 @@ export function suggestSizing(doc: DiagramDocument): SizingResult {
       fuse: { part: existing?.id ?? null, rating_A: rating, fuseClass, ...(existing ? { present_A: existing.props.rating_A } : {}) },
       cables: cables.map((c) => ({ id: c.id, conductor, present: c.props.conductor })),
       ampacity_A: Number.isFinite(pickAmp) ? pickAmp : 0,
+      ...(pickBasis?.limitedBy === 'insulation' ? { ampacityLimitedBy: 'insulation' as const } : {}),
       branchDrop_pct: pickDrop,
       reasoning,
     });

@@ -6,8 +6,8 @@ import { applySizing, suggestSizing } from '../../../shared/electrical/sizing';
 import { battery, currentLoad, diagram, end } from '../analysis/helpers';
 
 /** One battery through a fuse to a busbar, feeding a constant-current load of `amps`. */
-function branch(amps: number, length_m = 1) {
-  const cable = (len: number) => ({ conductor: { system: 'awg', size: '4/0' }, length_m: len }) as const;
+function branch(amps: number, length_m = 1, insulation_C: 60 | 75 | 90 | 105 = 90) {
+  const cable = (len: number) => ({ conductor: { system: 'awg', size: '4/0' }, length_m: len, insulation_C }) as const;
   return diagram(
     [
       battery('b1', 0, { max_continuous_A: 500 }),
@@ -39,6 +39,41 @@ describe('fuse and cable sizing', () => {
     expect(b.ampacity_A).toBe(115);
     expect(b.reasoning).toMatch(/80\.0 A × 1\.25 = 100(\.0)? A/);
     expect(b.reasoning).toMatch(/100 A \(NEC 240\.6\(A\)\)/);
+  });
+
+  it('the branch insulation sets the column: at a 100 A fuse, 75 °C insulation gives 2 AWG, 60 °C insulation 1 AWG', () => {
+    // Hand-worked, NEC Table 310.16 copper on the 75 °C table, 80 A × 1.25 = 100 A fuse (NEC 240.6(A)):
+    //  75 °C insulation, 75 °C column: 4 AWG 85 A < 100, 2 AWG 115 A ≥ 100 → 2 AWG (3 AWG is not offered).
+    //  60 °C insulation, 60 °C column (from memory): 2 AWG 95 A < 100, 1 AWG 110 A ≥ 100 → 1 AWG.
+    //  90 °C insulation is not credited above the 75 °C table: 2 AWG, 115 A, as for 75 °C.
+    const pick = (insulation_C: 60 | 75 | 90) => {
+      const r = suggestSizing(branch(80, 1, insulation_C));
+      if (!r.ok) throw new Error('sizing failed');
+      return r.branches[0];
+    };
+    const b75 = pick(75);
+    const b60 = pick(60);
+    const b90 = pick(90);
+    for (const b of [b75, b60, b90]) expect(b.fuse.rating_A).toBe(100);
+    expect(b75.cables.every((c) => c.conductor.system === 'awg' && c.conductor.size === '2')).toBe(true);
+    expect(b75.ampacity_A).toBe(115);
+    expect(b75.ampacityLimitedBy).toBeUndefined();
+    expect(b60.cables.every((c) => c.conductor.system === 'awg' && c.conductor.size === '1')).toBe(true);
+    expect(b60.ampacity_A).toBe(110);
+    expect(b60.ampacityLimitedBy).toBe('insulation');
+    expect(b60.reasoning).toContain('60 °C insulation: read from the 60 °C column');
+    expect(b90.cables[0].conductor).toEqual({ system: 'awg', size: '2' });
+    expect(b90.ampacity_A).toBe(115);
+  });
+
+  it('one 60 °C run in the branch sizes the whole branch on the 60 °C column (1 AWG at a 100 A fuse)', () => {
+    const doc = branch(80, 1, 75);
+    doc.cables.find((c) => c.id === 'c3')!.props.insulation_C = 60;
+    const r = suggestSizing(doc);
+    if (!r.ok) throw new Error('sizing failed');
+    // NEC Table 310.16: 1 AWG 110 A at 60 °C (from memory) is the shortest-rated run; 130 A at 75 °C.
+    expect(r.branches[0].cables[0].conductor).toEqual({ system: 'awg', size: '1' });
+    expect(r.branches[0].ampacity_A).toBe(110);
   });
 
   it('81 A × 1.25 = 101.25 A → the next standard rating, 110 A; 2 AWG still carries it', () => {
