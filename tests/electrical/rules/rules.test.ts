@@ -136,6 +136,7 @@ describe('each rule fires where it should and not elsewhere', () => {
       return d;
     };
     const r60 = analyzeDiagram(with8(60));
+    if (!r60.ok) throw new Error('analysis failed');
     const fig = r60.operating!.cables['c-neg2'];
     const i = Math.abs(fig.current_A);
     expect(i).toBeGreaterThan(40);
@@ -150,6 +151,7 @@ describe('each rule fires where it should and not elsewhere', () => {
     expect(f[0].message).toContain('60 °C insulation: read from the 60 °C column');
     expect(f[0].basis).toContain('60 °C insulation');
     const r75 = analyzeDiagram(with8(75));
+    if (!r75.ok) throw new Error('analysis failed');
     expect(r75.operating!.cables['c-neg2'].ampacity_A).toBe(50);
     expect(r75.operating!.cables['c-neg2'].ampacityLimitedBy).toBeUndefined();
     expect(r75.findings.map((x) => x.id)).not.toContain('cable-over-ampacity');
