@@ -215,7 +215,8 @@ export function AnnotationsPanel() {
         <p className="text-[11px] leading-4 text-graphite-500">
           Marks for the crew briefing. They never change the electrical model; select parts on the canvas first for a callout, step or highlight.
         </p>
-        {annotateOnly && saveStatus !== 'saved' ? (
+        {/* The trainer's only save indicator (the toolbar says "Read only"): shown in every state, "saved" included. */}
+        {annotateOnly ? (
           saveStatus === 'error' || saveStatus === 'conflict' ? (
             <Notice signal="error">
               {SAVE_WORDS[saveStatus]}. {saveError}{' '}
