@@ -13,6 +13,7 @@ import { cableRunDefaults, defaultPartProps, PART_TYPES, type CableRunProps, typ
 import {
   emptyDiagram, terminalsOf, type DiagramCable, type DiagramDocument, type DiagramPart, type DiagramSettings, type TerminalRef,
 } from '@shared/diagram';
+import { pruneDanglingReferences } from '@shared/diagram/annotations';
 import type { UnitSystem } from '@shared/units';
 import type { AnalysisMode, FaultSelection } from '@shared/electrical/analysis';
 import type { EditorResults } from './results/types';
@@ -409,6 +410,9 @@ export const useEditorStore = create<EditorState>()((set, get) => {
         d.parts = d.parts.filter((p) => !del.has(p.id));
         const partIds = new Set(d.parts.map((p) => p.id));
         d.cables = d.cables.filter((c) => !del.has(c.id) && partIds.has(c.from.part) && partIds.has(c.to.part));
+        // Annotations on the deleted parts go (or lose those parts) in the same step, so undo restores them too.
+        const annotations = pruneDanglingReferences(d);
+        if (annotations !== d.annotations) d.annotations = annotations;
       });
       set({ selection: [] });
     },

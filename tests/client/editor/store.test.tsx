@@ -78,6 +78,32 @@ describe('editor store: history', () => {
     expect(editor().doc.cables.map((x) => x.id)).toEqual([c]);
   });
 
+  it('drops annotations on deleted parts (and deleted parts from steps and highlights) in the same undo step', () => {
+    resetEditor();
+    const a = editor().addPart('battery', { x: 0, y: 0 })!;
+    const b = editor().addPart('battery', { x: 200, y: 0 })!;
+    const annotations = [
+      { id: 'n1', kind: 'callout', partId: a, text: 'Check torque' },
+      { id: 'n2', kind: 'callout', partId: b, text: 'Label this one' },
+      { id: 'n3', kind: 'step', number: 1, text: 'Fit the posts', partIds: [a, b] },
+      { id: 'n4', kind: 'highlight', partIds: [a] },
+    ];
+    editor().edit('Annotate', (d) => {
+      d.annotations = structuredClone(annotations) as typeof d.annotations;
+    });
+    const stepsBefore = editor().past.length;
+    editor().deleteIds([a]);
+    expect(editor().past.length).toBe(stepsBefore + 1);
+    // The callout on the deleted battery and the highlight around it alone go; the step keeps the other battery.
+    expect(editor().doc.annotations).toEqual([
+      { id: 'n2', kind: 'callout', partId: b, text: 'Label this one' },
+      { id: 'n3', kind: 'step', number: 1, text: 'Fit the posts', partIds: [b] },
+    ]);
+    editor().undo();
+    expect(editor().doc.parts.map((p) => p.id).sort()).toEqual([a, b].sort());
+    expect(editor().doc.annotations).toEqual(annotations);
+  });
+
   it('makes a new edit clear the redo stack', () => {
     resetEditor();
     editor().addPart('battery', { x: 0, y: 0 });
