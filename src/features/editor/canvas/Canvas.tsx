@@ -1,7 +1,8 @@
 /**
  * The drawing surface. Nodes and edges are derived from the document (memoised, with unchanged parts
  * keeping their node objects so memoised nodes skip rendering); React Flow's changes are turned into
- * store edits (moves, selection) rather than stored.
+ * store edits (moves, selection) rather than stored. A drag's positions stay local to the canvas until
+ * the drop, which commits them to the store as one step.
  */
 import { useCallback, useEffect, useMemo, useRef, useState, type DragEvent } from 'react';
 import {
@@ -46,9 +47,9 @@ function busbarTapSides(parts: DiagramPart[], cables: DiagramCable[]): Map<strin
 
 function useDerivedNodes(parts: DiagramPart[], cables: DiagramCable[], selection: Set<string>, readOnly: boolean, measured: Map<string, Measured>, measureTick: number) {
   const cache = useRef(new Map<string, { part: DiagramPart; selected: boolean; side: string; readOnly: boolean; m?: Measured; node: PartNode }>());
+  const sides = useMemo(() => busbarTapSides(parts, cables), [parts, cables]);
   return useMemo(() => {
     void measureTick;
-    const sides = busbarTapSides(parts, cables);
     const next = new Map<string, { part: DiagramPart; selected: boolean; side: string; readOnly: boolean; m?: Measured; node: PartNode }>();
     const nodes = parts.map((part) => {
       const selected = selection.has(part.id);
@@ -74,7 +75,20 @@ function useDerivedNodes(parts: DiagramPart[], cables: DiagramCable[], selection
     });
     cache.current = next;
     return nodes;
-  }, [parts, cables, selection, readOnly, measured, measureTick]);
+  }, [parts, sides, selection, readOnly, measured, measureTick]);
+}
+
+type Positions = ReadonlyMap<string, { x: number; y: number }>;
+
+/** The derived nodes with the positions of a drag in progress (only the dragged nodes are new objects). */
+function useDraggedNodes(nodes: PartNode[], dragged: Positions | null): PartNode[] {
+  return useMemo(() => {
+    if (!dragged || dragged.size === 0) return nodes;
+    return nodes.map((n) => {
+      const at = dragged.get(n.id);
+      return at && (at.x !== n.position.x || at.y !== n.position.y) ? { ...n, position: at, dragging: true } : n;
+    });
+  }, [nodes, dragged]);
 }
 
 function useDerivedEdges(cables: DiagramCable[], selection: Set<string>) {
@@ -121,19 +135,42 @@ export function Canvas() {
   const [measureTick, setMeasureTick] = useState(0);
   const dragKey = useRef<string | undefined>(undefined);
   const dragCount = useRef(0);
+  // Positions of a drag in progress, kept here (not in the store) until the drop commits them as one
+  // step: a drag frame then re-renders the canvas only, not every document subscriber.
+  const [dragged, setDragged] = useState<Positions | null>(null);
+  const draggedRef = useRef<Positions | null>(null);
   const rf = useReactFlow();
 
-  const nodes = useDerivedNodes(parts, cables, selection, readOnly, measured, measureTick);
+  const derived = useDerivedNodes(parts, cables, selection, readOnly, measured, measureTick);
+  const nodes = useDraggedNodes(derived, dragged);
   const edges = useDerivedEdges(cables, selection);
+
+  /** Commit the drag's positions to the store (one history step) and drop the local copy. */
+  const commitDrag = useCallback(() => {
+    const live = draggedRef.current;
+    draggedRef.current = null;
+    setDragged(null);
+    if (!live || live.size === 0) return;
+    const store = useEditorStore.getState();
+    if (!store.readOnly) store.moveParts([...live].map(([id, position]) => ({ id, position })), dragKey.current);
+  }, []);
 
   const onNodesChange = useCallback((changes: NodeChange<PartNode>[]) => {
     const store = useEditorStore.getState();
     const moves: { id: string; position: { x: number; y: number } }[] = [];
+    const live: { id: string; position: { x: number; y: number } }[] = [];
+    let dropped = false;
     const sel: { id: string; selected: boolean }[] = [];
     let dims = false;
     for (const c of changes) {
-      if (c.type === 'position' && c.position) moves.push({ id: c.id, position: c.position });
-      else if (c.type === 'dimensions' && c.dimensions) {
+      if (c.type === 'position' && c.position) {
+        if (c.dragging) live.push({ id: c.id, position: c.position });
+        else if (draggedRef.current) {
+          // The drop: the drag's last positions, committed with the rest below.
+          live.push({ id: c.id, position: c.position });
+          dropped = true;
+        } else moves.push({ id: c.id, position: c.position });
+      } else if (c.type === 'dimensions' && c.dimensions) {
         const prev = measured.get(c.id);
         if (!prev || prev.width !== c.dimensions.width || prev.height !== c.dimensions.height) {
           measured.set(c.id, { width: c.dimensions.width, height: c.dimensions.height });
@@ -141,10 +178,17 @@ export function Canvas() {
         }
       } else if (c.type === 'select') sel.push({ id: c.id, selected: c.selected });
     }
+    if (live.length && !store.readOnly) {
+      const next = new Map(draggedRef.current ?? []);
+      for (const m of live) next.set(m.id, m.position);
+      draggedRef.current = next;
+      if (dropped) commitDrag();
+      else setDragged(next);
+    }
     if (moves.length && !store.readOnly) store.moveParts(moves, dragKey.current);
     if (sel.length) store.setSelectedMany(sel);
     if (dims) setMeasureTick((t) => t + 1);
-  }, [measured]);
+  }, [measured, commitDrag]);
 
   const onEdgesChange = useCallback((changes: EdgeChange<CableFlowEdge>[]) => {
     const sel = changes.flatMap((c) => (c.type === 'select' ? [{ id: c.id, selected: c.selected }] : []));
@@ -156,8 +200,10 @@ export function Canvas() {
     dragKey.current = String(dragCount.current);
   }, []);
   const onDragStop = useCallback(() => {
+    // React Flow reports the drop as a position change first; commit here too in case it did not.
+    commitDrag();
     dragKey.current = undefined;
-  }, []);
+  }, [commitDrag]);
 
   const isValidConnection = useCallback<IsValidConnection<Edge>>((c) => {
     // Never a terminal to itself, nor to the same part's other terminal.
