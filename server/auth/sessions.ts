@@ -6,6 +6,10 @@
  * - Absolute expiry: ABSOLUTE_DAYS after the session was created, however active it is.
  * - A new session on every sign-in; sign-out deletes the row, so a copied cookie stops working too.
  * - Sessions are listed to their user under a public id (a hash of the session id), never the id itself.
+ * - A validated session is remembered for SESSION_CACHE_MS, so a burst of requests costs one database
+ *   lookup, not one each. Everything that ends a session or changes its user goes through this module
+ *   and forgets the entries at once; only a change made by another server process on a shared
+ *   PostgreSQL (or by hand in the database) waits out the SESSION_CACHE_MS (docs/decisions/009).
  */
 import { DrizzlePostgreSQLAdapter } from '@lucia-auth/adapter-drizzle';
 import { Lucia, TimeSpan, type Session } from 'lucia';
@@ -18,6 +22,9 @@ export const SESSION_COOKIE = 'bw_session';
 export const IDLE_DAYS = 7;
 export const ABSOLUTE_DAYS = 30;
 const DAY_MS = 24 * 60 * 60 * 1000;
+/** How long a validated session is reused without asking the database. */
+export const SESSION_CACHE_MS = 2000;
+const SESSION_CACHE_MAX = 10_000;
 
 export interface SessionUser {
   id: string;
@@ -81,8 +88,13 @@ declare module 'lucia' {
   }
 }
 
-export function createSessions(db: Db) {
+export function createSessions(db: Db, options: { cacheMs?: number } = {}) {
   const lucia = makeLucia(db);
+  const cacheMs = options.cacheMs ?? SESSION_CACHE_MS;
+  const cache = new Map<string, { at: number; value: { session: ActiveSession; user: SessionUser } }>();
+  const forgetUser = (userId: string) => {
+    for (const [id, e] of cache) if (e.value.user.id === userId) cache.delete(id);
+  };
 
   function toActive(s: Session): ActiveSession {
     return {
@@ -103,6 +115,13 @@ export function createSessions(db: Db) {
 
     /** The session and its user, or null when unknown or expired (idle or absolute). */
     async validateSession(sessionId: string): Promise<{ session: ActiveSession; user: SessionUser } | null> {
+      const now = Date.now();
+      const hit = cache.get(sessionId);
+      if (hit && now - hit.at < cacheMs && hit.value.session.expiresAt.getTime() > now) {
+        return { session: { ...hit.value.session, refreshed: false }, user: hit.value.user };
+      }
+      cache.delete(sessionId);
+      // lucia writes the extended idle expiry only once half of it has passed, not on every request.
       const { session, user } = await lucia.validateSession(sessionId);
       if (!session || !user) return null;
       const active = toActive(session);
@@ -110,20 +129,33 @@ export function createSessions(db: Db) {
         await lucia.invalidateSession(session.id);
         return null;
       }
-      return { session: active, user: { id: user.id, email: user.email, name: user.name, createdAt: user.createdAt } };
+      const value = { session: active, user: { id: user.id, email: user.email, name: user.name, createdAt: user.createdAt } };
+      if (cacheMs > 0) {
+        if (cache.size >= SESSION_CACHE_MAX) cache.delete(cache.keys().next().value!);
+        cache.set(sessionId, { at: now, value });
+      }
+      return value;
     },
 
-    invalidateSession(sessionId: string): Promise<void> {
-      return lucia.invalidateSession(sessionId);
+    async invalidateSession(sessionId: string): Promise<void> {
+      cache.delete(sessionId);
+      await lucia.invalidateSession(sessionId);
     },
 
-    invalidateUserSessions(userId: string): Promise<void> {
-      return lucia.invalidateUserSessions(userId);
+    async invalidateUserSessions(userId: string): Promise<void> {
+      forgetUser(userId);
+      await lucia.invalidateUserSessions(userId);
     },
 
     /** Ends every session of the user except `keepSessionId`. */
     async invalidateOtherSessions(userId: string, keepSessionId: string): Promise<void> {
+      forgetUser(userId);
       await db.delete(sessions).where(and(eq(sessions.userId, userId), ne(sessions.id, keepSessionId)));
+    },
+
+    /** The user's name, e-mail or password changed: validate their sessions afresh. */
+    userChanged(userId: string): void {
+      forgetUser(userId);
     },
 
     async listUserSessions(userId: string, currentSessionId?: string): Promise<PublicSession[]> {
@@ -146,6 +178,7 @@ export function createSessions(db: Db) {
       const list = await lucia.getUserSessions(userId);
       const match = list.find((s) => publicSessionId(s.id) === publicId);
       if (!match) return { found: false, wasCurrent: false };
+      cache.delete(match.id);
       await lucia.invalidateSession(match.id);
       return { found: true, wasCurrent: match.id === currentSessionId };
     },

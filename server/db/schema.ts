@@ -123,6 +123,10 @@ export const diagrams = pgTable(
     description: text('description').notNull().default(''),
     /** Working copy of the diagram document (shared/diagram). */
     content: jsonb('content').notNull().default(sql`'{}'::jsonb`),
+    /** Parts in the working copy, kept by the database (the diagram list shows it without reading every document). */
+    partCount: integer('part_count')
+      .notNull()
+      .generatedAlwaysAs(sql`coalesce(jsonb_array_length(case when jsonb_typeof(content -> 'parts') = 'array' then content -> 'parts' end), 0)`),
     /** Optimistic concurrency of the working copy: +1 on every save (PUT …/working-copy). */
     workingCopyVersion: integer('working_copy_version').notNull().default(1),
     /** Who last changed the working copy or the diagram's name and description. */

@@ -13,7 +13,9 @@ export function accountRoutes(deps: AppDeps): Router {
   r.patch('/', async (req, res) => {
     const { user } = requireAuth(res);
     const input = parse(updateAccountSchema, req.body);
-    res.json({ user: publicUser(await updateName(db, user.id, input.name)) });
+    const updated = await updateName(db, user.id, input.name);
+    sessions.userChanged(user.id);
+    res.json({ user: publicUser(updated) });
   });
 
   // A changed e-mail is a changed sign-in: it asks for the current password, under the sign-in limiter.
@@ -21,7 +23,9 @@ export function accountRoutes(deps: AppDeps): Router {
     const { user } = requireAuth(res);
     const input = parse(changeEmailSchema, req.body);
     await checkCredentials(db, limiter, { email: user.email, password: input.currentPassword }, clientIp(req));
-    res.json({ user: publicUser(await changeEmail(db, user.id, input.email)) });
+    const updated = await changeEmail(db, user.id, input.email);
+    sessions.userChanged(user.id);
+    res.json({ user: publicUser(updated) });
   });
 
   r.post('/password', async (req, res) => {
@@ -30,6 +34,7 @@ export function accountRoutes(deps: AppDeps): Router {
     // Same limiter as sign-in: a stolen session must not become a password-guessing oracle.
     await checkCredentials(db, limiter, { email: user.email, password: input.currentPassword }, clientIp(req));
     await setPassword(db, user.id, input.newPassword);
+    sessions.userChanged(user.id);
     if (input.endOtherSessions) await sessions.invalidateOtherSessions(user.id, session.id);
     res.status(204).end();
   });

@@ -8,7 +8,7 @@ import type { Db } from '../db/client';
 import { commentSchema, decisionSchema, resolveCommentSchema, reviewRequestSchema } from '../../shared/schemas/reviews';
 import { addComment, decide, listComments, requestReview, setCommentResolved } from '../services/reviews';
 import { requireDiagramRole } from '../services/access';
-import { deleteDiagram, saveAnnotations, saveWorkingCopy, updateDiagram } from '../services/diagrams';
+import { deleteDiagram, saveAnnotations, saveWorkingCopy, updateDiagram, workingCopyContent } from '../services/diagrams';
 import { annotationsBodySchema } from '../../shared/diagram/annotations';
 import { checkDiagram } from '../services/checks';
 import { duplicateDiagram, findRevision, getDiagramWithLatest, getRevision, listRevisions, restoreRevision, saveRevision } from '../services/revisions';
@@ -75,11 +75,11 @@ export function diagramRoutes(deps: AppDeps): Router {
   // The analysis of sent content (unsaved edits) or of the working copy, in a worker thread; nothing is stored.
   r.post('/:id/check', async (req, res) => {
     const { user } = requireAuth(res);
-    const { diagram } = await requireDiagramRole(db, user.id, req.params.id, 'project.read');
+    await requireDiagramRole(db, user.id, req.params.id, 'project.read');
     const input = parse(checkOptionsSchema, req.body);
     const fromRequest = input.content !== undefined;
     const checked = await checkDiagram(analysis, {
-      content: fromRequest ? input.content : diagram.content,
+      content: fromRequest ? input.content : await workingCopyContent(db, req.params.id),
       source: fromRequest ? 'request' : 'working_copy',
       mode: input.mode,
       fault: input.fault,

@@ -47,6 +47,13 @@ function publicDiagram(row: DiagramSelect) {
 
 export type DiagramRecord = ReturnType<typeof publicDiagram>;
 
+/** The working copy's document as stored (unvalidated); 404 when there is no such diagram. */
+export async function workingCopyContent(db: DbOrTx, diagramId: string): Promise<unknown> {
+  const [row] = await db.select({ content: diagrams.content }).from(diagrams).where(eq(diagrams.id, diagramId));
+  if (!row) throw notFound('No such diagram.');
+  return row.content;
+}
+
 export async function getDiagram(db: DbOrTx, diagramId: string) {
   const [row] = await selectDiagrams(db).where(eq(diagrams.id, diagramId));
   if (!row) throw notFound('No such diagram.');

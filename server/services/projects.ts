@@ -2,7 +2,7 @@ import { asc, desc, eq, sql } from 'drizzle-orm';
 import type { Db } from '../db/client';
 import { activity, diagrams, projects, uploads } from '../db/schema';
 import { newId } from '../ids';
-import { latestRevisionStates } from './revisions';
+import { latestRevisionStatesInProject } from './revisions';
 
 // Table-qualified by hand: drizzle leaves columns unqualified in single-table selects, which would bind to d.
 const diagramCount = sql<number>`(select count(*)::int from "diagrams" d where d.project_id = "projects"."id")`;
@@ -69,22 +69,15 @@ export async function deleteProject(db: Db, projectId: string): Promise<string[]
   });
 }
 
-/** Number of parts in a diagram document; 0 when `parts` is missing or not an array. */
-const partCount = sql<number>`coalesce(jsonb_array_length(case when jsonb_typeof(${diagrams.content}->'parts') = 'array' then ${diagrams.content}->'parts' end), 0)::int`;
-
 export async function listDiagrams(db: Db, projectId: string) {
-  const rows = await db
-    .select({
-      id: diagrams.id,
-      projectId: diagrams.projectId,
-      name: diagrams.name,
-      description: diagrams.description,
-      updatedAt: diagrams.updatedAt,
-      partCount,
-    })
-    .from(diagrams)
-    .where(eq(diagrams.projectId, projectId))
-    .orderBy(asc(diagrams.createdAt), asc(diagrams.id));
-  const latest = await latestRevisionStates(db, rows.map((r) => r.id));
+  // Two independent reads (in parallel on a PostgreSQL pool).
+  const [rows, latest] = await Promise.all([
+    db
+      .select({ id: diagrams.id, projectId: diagrams.projectId, name: diagrams.name, description: diagrams.description, updatedAt: diagrams.updatedAt, partCount: diagrams.partCount })
+      .from(diagrams)
+      .where(eq(diagrams.projectId, projectId))
+      .orderBy(asc(diagrams.createdAt), asc(diagrams.id)),
+    latestRevisionStatesInProject(db, projectId),
+  ]);
   return rows.map((r) => ({ ...r, latestRevision: latest.get(r.id) ?? null }));
 }

@@ -4,7 +4,7 @@
  * when that is no longer the latest, the save is refused with 409 revision_conflict and the latest
  * revision's details, and nothing is stored. docs/decisions/005-revisions.md.
  */
-import { and, desc, eq, inArray, sql } from 'drizzle-orm';
+import { and, desc, eq, sql } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import type { DiagramDocument } from '../../shared/diagram/schema';
 import type { RevisionState } from '../../shared/schemas/diagrams';
@@ -87,25 +87,36 @@ export async function findRevision(db: DbOrTx, diagramId: string, number: number
 /** One revision with its content, results summary and review (requested reviewers, decisions). */
 export async function getRevision(db: DbOrTx, diagramId: string, number: number) {
   const [row] = await db
-    .select({ meta: revisionMetaColumns, content: diagramRevisions.content, resultsSummary: diagramRevisions.resultsSummary })
+    .select({
+      meta: revisionMetaColumns,
+      content: diagramRevisions.content,
+      resultsSummary: diagramRevisions.resultsSummary,
+      // Most revisions never see a review: look for its rows only when there are any.
+      hasRequests: sql<boolean>`exists (select 1 from "review_requests" rr where rr.revision_id = ${diagramRevisions.id})`,
+      hasDecisions: sql<boolean>`exists (select 1 from "review_decisions" rd where rd.revision_id = ${diagramRevisions.id})`,
+    })
     .from(diagramRevisions)
     .leftJoin(author, eq(author.id, diagramRevisions.authorId))
     .leftJoin(approver, eq(approver.id, diagramRevisions.approvedBy))
     .where(and(eq(diagramRevisions.diagramId, diagramId), eq(diagramRevisions.number, number)));
   if (!row) throw notFound('No such revision.');
   const reviewer = alias(users, 'reviewer');
-  const requested = await db
-    .select({ id: reviewer.id, name: reviewer.name, requestedAt: reviewRequests.createdAt })
-    .from(reviewRequests)
-    .innerJoin(reviewer, eq(reviewer.id, reviewRequests.reviewerId))
-    .where(eq(reviewRequests.revisionId, row.meta.id))
-    .orderBy(reviewRequests.createdAt, reviewer.name);
-  const decisions = await db
-    .select({ reviewerId: reviewer.id, reviewerName: reviewer.name, decision: reviewDecisions.decision, note: reviewDecisions.note, createdAt: reviewDecisions.createdAt })
-    .from(reviewDecisions)
-    .leftJoin(reviewer, eq(reviewer.id, reviewDecisions.reviewerId))
-    .where(eq(reviewDecisions.revisionId, row.meta.id))
-    .orderBy(reviewDecisions.createdAt, reviewDecisions.id);
+  const requestedQuery = () =>
+    db
+      .select({ id: reviewer.id, name: reviewer.name, requestedAt: reviewRequests.createdAt })
+      .from(reviewRequests)
+      .innerJoin(reviewer, eq(reviewer.id, reviewRequests.reviewerId))
+      .where(eq(reviewRequests.revisionId, row.meta.id))
+      .orderBy(reviewRequests.createdAt, reviewer.name);
+  const decisionsQuery = () =>
+    db
+      .select({ reviewerId: reviewer.id, reviewerName: reviewer.name, decision: reviewDecisions.decision, note: reviewDecisions.note, createdAt: reviewDecisions.createdAt })
+      .from(reviewDecisions)
+      .leftJoin(reviewer, eq(reviewer.id, reviewDecisions.reviewerId))
+      .where(eq(reviewDecisions.revisionId, row.meta.id))
+      .orderBy(reviewDecisions.createdAt, reviewDecisions.id);
+  // Independent reads: in parallel on a PostgreSQL pool (PGlite runs them one after the other anyway).
+  const [requested, decisions] = await Promise.all([row.hasRequests ? requestedQuery() : [], row.hasDecisions ? decisionsQuery() : []]);
   return {
     ...publicMeta(row.meta),
     content: row.content as DiagramDocument,
@@ -220,19 +231,19 @@ export async function duplicateDiagram(
   );
 }
 
-/** Latest revision number and state of each diagram in a project (for the diagram list). */
-export async function latestRevisionStates(db: DbOrTx, diagramIds: string[]) {
-  if (diagramIds.length === 0) return new Map<string, { number: number; state: RevisionState }>();
+/** Latest revision number and state of every diagram in a project (for the diagram list). */
+export async function latestRevisionStatesInProject(db: DbOrTx, projectId: string) {
   const rows = await db
     .selectDistinctOn([diagramRevisions.diagramId], { diagramId: diagramRevisions.diagramId, number: diagramRevisions.number, state: diagramRevisions.state })
     .from(diagramRevisions)
-    .where(inArray(diagramRevisions.diagramId, diagramIds))
+    .innerJoin(diagrams, eq(diagrams.id, diagramRevisions.diagramId))
+    .where(eq(diagrams.projectId, projectId))
     .orderBy(diagramRevisions.diagramId, desc(diagramRevisions.number));
   return new Map(rows.map((r) => [r.diagramId, { number: r.number, state: r.state }]));
 }
 
 /** GET /api/diagrams/:id: the working copy, the hash of its content and the latest revision's details. */
 export async function getDiagramWithLatest(db: DbOrTx, diagramId: string) {
-  const diagram = await getDiagram(db, diagramId);
-  return { ...diagram, workingCopyHash: contentHash(diagram.content), latestRevision: await latestRevision(db, diagramId) };
+  const [diagram, latest] = await Promise.all([getDiagram(db, diagramId), latestRevision(db, diagramId)]);
+  return { ...diagram, workingCopyHash: contentHash(diagram.content), latestRevision: latest };
 }

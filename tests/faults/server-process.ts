@@ -45,7 +45,9 @@ export interface ServerProcess {
 /** Starts the server and waits until /api/health answers (or the process exits, or timeoutMs passes). */
 export async function startServer(o: ServerOptions, timeoutMs = 90_000): Promise<ServerProcess> {
   const log = fs.openSync(o.logFile, 'a');
-  const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+  // BW_SERVER_NODE_ARGS: extra node flags for the server, e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof" to profile a run.
+  const nodeArgs = (process.env.BW_SERVER_NODE_ARGS ?? '').split(' ').filter(Boolean);
+  const child = spawn(process.execPath, [...nodeArgs, '--import', 'tsx', 'server/index.ts'], {
     cwd: ROOT,
     env: {
       ...process.env,

@@ -1,0 +1,1 @@
+ALTER TABLE "diagrams" ADD COLUMN "part_count" integer GENERATED ALWAYS AS (coalesce(jsonb_array_length(case when jsonb_typeof(content -> 'parts') = 'array' then content -> 'parts' end), 0)) STORED NOT NULL;
