@@ -87,6 +87,50 @@ describe('ended sessions cannot be replayed', () => {
   });
 });
 
+// Validated sessions are reused for a moment (server/auth/sessions.ts SESSION_CACHE_MS): each case
+// uses the session just before ending it, so a stale reuse would let the next request through.
+describe('a session used a moment ago ends at once', () => {
+  async function pair(email: string, password: string) {
+    const a = t.agent();
+    expect((await a.post('/api/auth/sign-up').send({ email, password, name: 'P' })).status).toBe(201);
+    const other = await t.signIn(email, password);
+    expect((await other.get('/api/auth/me')).status).toBe(200);
+    expect((await a.get('/api/auth/me')).status).toBe(200);
+    return { a, other };
+  }
+
+  it('on sign-out', async () => {
+    await pair('warm.signout@example.test', 'warm password 1');
+    const id = sessionIdOf(await request(t.server).post('/api/auth/sign-in').set('Origin', TEST_ORIGIN).send({ email: 'warm.signout@example.test', password: 'warm password 1' }))!;
+    expect((await me(id)).status).toBe(200);
+    expect((await request(t.server).post('/api/auth/sign-out').set('Origin', TEST_ORIGIN).set('Cookie', `bw_session=${id}`)).status).toBe(204);
+    expect((await me(id)).status).toBe(401);
+  });
+
+  it('when revoked from the sessions list', async () => {
+    const { a, other } = await pair('warm.revoke@example.test', 'warm password 1');
+    const list = (await a.get('/api/account/sessions')).body.sessions as { id: string; current: boolean }[];
+    const target = list.find((s) => !s.current)!;
+    expect((await a.delete(`/api/account/sessions/${target.id}`)).status).toBe(204);
+    expect((await other.get('/api/auth/me')).status).toBe(401);
+  });
+
+  it('when the password changes (other sessions end)', async () => {
+    const { a, other } = await pair('warm.password@example.test', 'warm password 1');
+    expect((await a.post('/api/account/password').send({ currentPassword: 'warm password 1', newPassword: 'warm password 2' })).status).toBe(204);
+    expect((await other.get('/api/auth/me')).status).toBe(401);
+    expect((await a.get('/api/auth/me')).status).toBe(200);
+  });
+
+  it('and a changed e-mail or name shows in the next answer', async () => {
+    const { a, other } = await pair('warm.rename@example.test', 'warm password 1');
+    expect((await a.patch('/api/account').send({ name: 'Renamed' })).status).toBe(200);
+    expect((await other.get('/api/auth/me')).body.user.name).toBe('Renamed');
+    expect((await a.patch('/api/account/email').send({ email: 'warm.renamed@example.test', currentPassword: 'warm password 1' })).status).toBe(200);
+    expect((await other.get('/api/auth/me')).body.user.email).toBe('warm.renamed@example.test');
+  });
+});
+
 describe('account takeover through the e-mail address', () => {
   it('PATCH /api/account cannot change the e-mail (it is not an accepted field)', async () => {
     const a = t.agent();
