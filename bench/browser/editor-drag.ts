@@ -13,7 +13,8 @@
  *   worker's own time and when the full analysis (findings) landed;
  * - the JavaScript the editor route loads (files, raw and gzipped from dist/client).
  *
- * Options: --moves N (default 150), --edits N (default 10), --json (machine-readable output only).
+ * Options: --moves N (default 150), --edits N (default 10), --json (machine-readable output only),
+ * --profile (CPU profile of the fitted-view drag), --fit-only (no zoomed drag, no edits), --edit-only (edits only).
  * A benchmark, not a test: it asserts nothing and is not part of npm test.
  */
 import { readFileSync, writeFileSync, mkdirSync } from 'node:fs';
@@ -32,9 +33,13 @@ const opt = (name: string, dflt: number) => {
 const MOVES = opt('--moves', 150);
 const EDITS = opt('--edits', 10);
 const SKIP_ZOOMED = args.includes('--fit-only');
+/** Only the property edits (no drags): for quick rounds on the edit path. */
+const EDIT_ONLY = args.includes('--edit-only');
 const JSON_ONLY = args.includes('--json');
 /** Write a CPU profile of the fitted-view drag to test-results/bench-editor-drag.cpuprofile. */
 const PROFILE = args.includes('--profile');
+/** Trace the battery edits and list the page's main-thread time by trace event name. */
+const TRACE = args.includes('--trace');
 const log = (...xs: unknown[]) => {
   if (!JSON_ONLY) console.error(...xs);
 };
@@ -151,11 +156,71 @@ async function dragBench(page: Page, id: string, moves: number, radius: number):
   return { ...stats, moved: before !== after, zoom: Math.round(zoom * 100) / 100, mainThread: main, wall_ms };
 }
 
+/** Where an edit's time went, ms: input → store change → posted → worker took it → answered → back on the page → applied → DOM. */
+interface EditSteps {
+  inputToChange: number;
+  changeToPost: number;
+  postCall: number;
+  toWorker: number;
+  inWorker: number;
+  fromWorker: number;
+  apply: number;
+  render: number;
+}
+interface TraceEvent { name: string; ph: string; ts: number; dur?: number; pid: number; tid: number; cat?: string; args?: { name?: string } }
+
+const TIMELINE_EVENTS = new Set(['EventDispatch', 'FunctionCall', 'HandlePostMessage', 'TimerFire', 'FireAnimationFrame', 'RunMicrotasks', 'UpdateLayoutTree', 'Layout', 'PrePaint', 'Paint', 'Layerize', 'Commit', 'MajorGC', 'MinorGC']);
+
+/** The main thread's events from each `bw-change` mark to the next `bw-dom` mark (the edit's figure in the DOM): "start+duration name", ms. */
+function editTimelines(events: TraceEvent[], main: TraceEvent): string[][] {
+  const marks = events.filter((e) => e.cat?.includes('blink.user_timing') && (e.name === 'bw-change' || e.name === 'bw-dom') && e.ph !== 'e').sort((a, b) => a.ts - b.ts);
+  const out: string[][] = [];
+  for (let i = 0; i < marks.length; i++) {
+    if (marks[i].name !== 'bw-change') continue;
+    const end = marks.slice(i + 1).find((m) => m.name === 'bw-dom');
+    if (!end) continue;
+    const t0 = marks[i].ts;
+    out.push(
+      events
+        .filter((e) => e.pid === main.pid && e.tid === main.tid && e.ph === 'X' && TIMELINE_EVENTS.has(e.name) && e.ts + (e.dur ?? 0) >= t0 && e.ts <= end.ts && (e.dur ?? 0) >= 300)
+        .sort((a, b) => a.ts - b.ts)
+        .map((e) => `${r1((e.ts - t0) / 1000)}+${r1((e.dur ?? 0) / 1000)} ${e.name}`)
+        .concat([`${r1((end.ts - t0) / 1000)} DOM`]),
+    );
+  }
+  return out;
+}
+
+/** Start a DevTools trace; the returned function stops it and sums the renderer main thread's complete events by name, ms. */
+async function startTrace(page: Page) {
+  const cdp = await page.context().newCDPSession(page);
+  const events: TraceEvent[] = [];
+  cdp.on('Tracing.dataCollected', (e: { value: TraceEvent[] }) => events.push(...e.value));
+  await cdp.send('Tracing.start', { categories: 'devtools.timeline,disabled-by-default-devtools.timeline,blink.user_timing', transferMode: 'ReportEvents' });
+  return async () => {
+    const done = new Promise<void>((resolve) => cdp.once('Tracing.tracingComplete', () => resolve()));
+    await cdp.send('Tracing.end');
+    await done;
+    await cdp.detach();
+    const main = events.find((e) => e.ph === 'M' && e.name === 'thread_name' && e.args?.name === 'CrRendererMain');
+    const byName = new Map<string, number>();
+    for (const e of events) {
+      if (!main || e.pid !== main.pid || e.tid !== main.tid || e.ph !== 'X' || !e.dur) continue;
+      byName.set(e.name, (byName.get(e.name) ?? 0) + e.dur / 1000);
+    }
+    const totals = Object.fromEntries([...byName].sort((a, b) => b[1] - a[1]).slice(0, 20).map(([k, v]) => [k, r1(v)]));
+    return { totals, editTimelines: main ? editTimelines(events, main).slice(0, 3) : [] };
+  };
+}
+
 interface EditSample {
   toDom_ms: number;
   figuresMark_ms: number | null;
   worker_ms: number | null;
   full_ms: number | null;
+  steps: EditSteps | null;
+  /** Long animation frames (over 50 ms) between the input and the figure in the DOM. */
+  longFrames?: unknown[];
 }
 
 /** Type values into a field one edit at a time; time input event → the watched figure's text changes. */
@@ -175,17 +240,47 @@ async function editBench(page: Page, fieldLabel: string, values: string[], watch
           let t0 = 0;
           const marksBefore = performance.getEntriesByType('mark').length;
           input.addEventListener('input', (e) => (t0 = e.timeStamp), { capture: true, once: true });
+          // Long animation frames (over 50 ms) in the edit: where the main thread's time went.
+          type Loaf = PerformanceEntry & { renderStart: number; styleAndLayoutStart: number; blockingDuration: number; scripts: (PerformanceEntry & { invoker: string; forcedStyleAndLayoutDuration: number })[] };
+          const loafs: Loaf[] = [];
+          const loafObs = new PerformanceObserver((l) => loafs.push(...(l.getEntries() as Loaf[])));
+          try {
+            loafObs.observe({ type: 'long-animation-frame', buffered: false });
+          } catch {
+            /* not supported */
+          }
           const obs = new MutationObserver(() => {
             if (!t0 || target.textContent === before) return;
             const t1 = performance.now();
+            performance.mark('bw-dom');
             obs.disconnect();
+            const r = (x: number) => Math.round(x * 10) / 10;
+            const frames = () =>
+              loafs
+                .filter((f) => f.startTime + f.duration >= t0 && f.startTime <= t1)
+                .map((f) => ({
+                  at: r(f.startTime - t0), ms: r(f.duration), render: r(f.startTime + f.duration - f.renderStart), styleLayout: r(f.startTime + f.duration - f.styleAndLayoutStart),
+                  scripts: f.scripts.map((x) => `${x.invoker} ${r(x.duration)}${x.forcedStyleAndLayoutDuration ? ` (forced layout ${r(x.forcedStyleAndLayoutDuration)})` : ''}`),
+                }));
             // Let the full analysis land too, then read the marks of this edit.
             setTimeout(() => {
               const marks = performance.getEntriesByType('mark').slice(marksBefore) as PerformanceMark[];
               const change = marks.find((m) => m.name === 'bw-change');
               const figures = marks.find((m) => m.name === 'bw-figures');
               const full = marks.filter((m) => m.name === 'bw-full').pop();
+              const d = figures?.detail as Record<string, number> | undefined;
+              const steps =
+                d && change && d.posted !== undefined
+                  ? {
+                      inputToChange: change.startTime - t0, changeToPost: d.posted - change.startTime, postCall: d.postReturned - d.posted,
+                      toWorker: d.received - d.postReturned, inWorker: d.answered - d.received, fromWorker: d.arrived - d.answered,
+                      apply: d.applied - d.arrived, render: t1 - d.applied,
+                    }
+                  : null;
+              loafObs.disconnect();
               resolve({
+                longFrames: frames(),
+                steps,
                 toDom_ms: t1 - t0,
                 figuresMark_ms: figures && change ? figures.startTime - change.startTime : null,
                 worker_ms: figures ? (figures.detail as { worker_ms: number }).worker_ms : null,
@@ -208,7 +303,15 @@ async function editBench(page: Page, fieldLabel: string, values: string[], watch
 function summarise(samples: EditSample[]) {
   const pick = (f: (s: EditSample) => number | null) => samples.map(f).filter((x): x is number => x !== null);
   const q = (xs: number[]) => (xs.length ? { median: r1(quantile(xs, 0.5)), p90: r1(quantile(xs, 0.9)), max: r1(Math.max(...xs)) } : null);
-  return { n: samples.length, toDom_ms: q(pick((s) => s.toDom_ms)), figuresMark_ms: q(pick((s) => s.figuresMark_ms)), worker_ms: q(pick((s) => s.worker_ms)), full_ms: q(pick((s) => s.full_ms)) };
+  const withSteps = samples.filter((s) => s.steps);
+  const steps = withSteps.length
+    ? Object.fromEntries((Object.keys(withSteps[0].steps!) as (keyof EditSteps)[]).map((k) => [k, r1(quantile(withSteps.map((s) => s.steps![k]), 0.5))]))
+    : null;
+  return {
+    n: samples.length, toDom_ms: q(pick((s) => s.toDom_ms)), figuresMark_ms: q(pick((s) => s.figuresMark_ms)), worker_ms: q(pick((s) => s.worker_ms)), full_ms: q(pick((s) => s.full_ms)),
+    /** Median of each step (medians do not add up to the total's median). */
+    steps_median_ms: steps,
+  };
 }
 
 /** The scripts the editor route loaded on open (not the workers), with sizes from dist/client. */
@@ -273,13 +376,18 @@ async function main() {
     const idle = await stopFrames(page);
     log('idle', idle);
 
-    const cdp = PROFILE ? await page.context().newCDPSession(page) : null;
-    if (cdp) {
-      await cdp.send('Profiler.enable');
-      await cdp.send('Profiler.setSamplingInterval', { interval: 200 });
-      await cdp.send('Profiler.start');
+    let dragFit: Awaited<ReturnType<typeof dragBench>> | null = null;
+    let dragZoomed: Awaited<ReturnType<typeof dragBench>> | null = null;
+    if (!EDIT_ONLY) {
+      const cdp = PROFILE ? await page.context().newCDPSession(page) : null;
+      if (cdp) {
+        await cdp.send('Profiler.enable');
+        await cdp.send('Profiler.setSamplingInterval', { interval: 200 });
+        await cdp.send('Profiler.start');
     }
-    const dragFit = await dragBench(page, 'bat30', MOVES, 40);
+    const stopDragTrace = TRACE ? await startTrace(page) : null;
+    dragFit = await dragBench(page, 'bat30', MOVES, 40);
+    if (stopDragTrace) log('main thread over the fitted-view drag (trace)', await stopDragTrace());
     if (cdp) {
       const { profile } = (await cdp.send('Profiler.stop')) as { profile: unknown };
       mkdirSync('test-results', { recursive: true });
@@ -298,15 +406,32 @@ async function main() {
       await page.waitForTimeout(60);
     }
     await page.waitForTimeout(500);
-    const dragZoomed = await dragBench(page, 'bat32', MOVES, 120);
+    dragZoomed = await dragBench(page, 'bat32', MOVES, 120);
     log('drag zoomed in', dragZoomed);
     await page.screenshot({ path: screenshotPath('bench-editor-200-zoomed') });
+    }
 
     // Property edits: one battery's internal resistance (its own figure changes), then the inverter's power (every figure changes).
     await page.locator('.react-flow__node[data-id="bat32"]').focus();
     await page.keyboard.press('Enter');
     const vals = (a: string, b: string) => Array.from({ length: EDITS }, (_, i) => (i % 2 ? a : b));
+    // With --profile --edit-only: a CPU profile of the battery edits instead of the drag; with --trace, the
+    // main thread's time by trace event (script, style, layout, paint …) over the battery edits.
+    const editCdp = PROFILE && EDIT_ONLY ? await page.context().newCDPSession(page) : null;
+    if (editCdp) {
+      await editCdp.send('Profiler.enable');
+      await editCdp.send('Profiler.setSamplingInterval', { interval: 200 });
+      await editCdp.send('Profiler.start');
+    }
+    const stopTrace = TRACE ? await startTrace(page) : null;
     const battery = await editBench(page, 'Internal resistance', vals('2', '30'), '[data-testid="share-bat32"]');
+    if (stopTrace) log('main thread over the battery edits (trace)', JSON.stringify(await stopTrace(), null, 1));
+    if (editCdp) {
+      const { profile } = (await editCdp.send('Profiler.stop')) as { profile: unknown };
+      mkdirSync('test-results', { recursive: true });
+      writeFileSync('test-results/bench-editor-edit.cpuprofile', JSON.stringify(profile));
+      await editCdp.detach();
+    }
     log('battery edit', summarise(battery));
     await page.getByRole('button', { name: 'Fit', exact: true }).click();
     await page.waitForTimeout(600);

@@ -334,9 +334,9 @@ export const useEditorStore = create<EditorState>()((set, get) => {
           p.props = structuredClone(patch.props) as never;
           // A busbar that lost taps drops the cables on the taps that no longer exist.
           const terminals = new Set(terminalsOf(p));
-          d.cables = d.cables.filter(
-            (c) => !((c.from.part === id && !terminals.has(c.from.terminal)) || (c.to.part === id && !terminals.has(c.to.terminal))),
-          );
+          const lost = (c: DiagramCable) => (c.from.part === id && !terminals.has(c.from.terminal)) || (c.to.part === id && !terminals.has(c.to.terminal));
+          // Only when some are lost: a new cables array re-derives every edge on the canvas.
+          if (d.cables.some(lost)) d.cables = d.cables.filter((c) => !lost(c));
         }
       }, { coalesce });
     },

@@ -104,6 +104,21 @@ describe('editor store: history', () => {
     expect(editor().doc.annotations).toEqual(annotations);
   });
 
+  it('a busbar with fewer taps drops the cables on the lost taps; other prop edits leave the cables untouched', () => {
+    resetEditor();
+    const bar = editor().addPart('busbar', { x: 0, y: 0 }, { props: { material: 'copper', width_mm: 25, thickness_mm: 6, tapCount: 6, tapSpacing_m: 0.04, rating_A: 300 } })!;
+    const bat = editor().addPart('battery', { x: 0, y: 200 })!;
+    const keep = editor().addCable({ part: bat, terminal: 'pos' }, { part: bar, terminal: 't2' })!;
+    const lost = editor().addCable({ part: bat, terminal: 'neg' }, { part: bar, terminal: 't6' })!;
+    const cables = editor().doc.cables;
+    editor().updatePart(bar, { props: { ...(editor().doc.parts[0].props as object), rating_A: 400 } });
+    expect(editor().doc.cables).toBe(cables);
+    editor().updatePart(bar, { props: { ...(editor().doc.parts[0].props as object), tapCount: 4 } });
+    expect(editor().doc.cables.map((c) => c.id)).toEqual([keep]);
+    editor().undo();
+    expect(editor().doc.cables.map((c) => c.id)).toEqual([keep, lost]);
+  });
+
   it('makes a new edit clear the redo stack', () => {
     resetEditor();
     editor().addPart('battery', { x: 0, y: 0 });

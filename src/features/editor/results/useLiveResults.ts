@@ -10,6 +10,7 @@
  * "bw-full") let the browser benchmark time an edit.
  */
 import { useEffect } from 'react';
+import { flushSync } from 'react-dom';
 import type { DiagramDocument } from '@shared/diagram';
 import { useEditorStore } from '../store';
 import type { ComputeRequest, ComputeResponse } from '../compute.worker';
@@ -60,12 +61,17 @@ const mark = (name: string, detail?: unknown) => {
   }
 };
 
+/** Now in ms since the epoch, comparable with the worker's timing. */
+const epochNow = () => performance.timeOrigin + performance.now();
+
 interface Lane {
   stage: ComputeStage;
   worker: Worker;
   busy: boolean;
   pending: boolean;
   timer?: ReturnType<typeof setTimeout>;
+  /** When the last request was posted and when postMessage returned (epoch ms), for the marks. */
+  posted: [number, number];
 }
 
 export function useLiveResults(enabled = true) {
@@ -73,7 +79,7 @@ export function useLiveResults(enabled = true) {
     if (!enabled || typeof Worker === 'undefined') return;
     let seq = 0;
     const lanes: Lane[] = (['figures', 'full'] as const).map((stage) => ({
-      stage, worker: new Worker(new URL('../compute.worker.ts', import.meta.url), { type: 'module', name: `bankwright-${stage}` }), busy: false, pending: false,
+      stage, worker: new Worker(new URL('../compute.worker.ts', import.meta.url), { type: 'module', name: `bankwright-${stage}` }), busy: false, pending: false, posted: [0, 0],
     }));
 
     const post = (lane: Lane) => {
@@ -81,7 +87,9 @@ export function useLiveResults(enabled = true) {
       const { doc, analysis } = useEditorStore.getState();
       lane.busy = true;
       lane.pending = false;
+      const t0 = epochNow();
       lane.worker.postMessage({ seq, stage: lane.stage, doc, options: analysis } satisfies ComputeRequest);
+      lane.posted = [t0, epochNow()];
     };
     const request = (lane: Lane) => {
       if (lane.busy) lane.pending = true;
@@ -94,6 +102,7 @@ export function useLiveResults(enabled = true) {
 
     for (const lane of lanes) {
       lane.worker.onmessage = (e: MessageEvent<ComputeResponse>) => {
+        const arrived = epochNow();
         const data = e.data;
         lane.busy = false;
         const answerSeq = data.ok ? data.results.seq : data.seq;
@@ -112,8 +121,15 @@ export function useLiveResults(enabled = true) {
         if (store.results?.seq === seq) return; // the full answer came first
         const merged = mergeFigures(store.results, data.results);
         if (!merged) return; // first results, or a new mode: wait for the full analysis
-        store.setResults(merged, 'computing');
-        mark('bw-figures', { seq, worker_ms: data.results.elapsed_ms });
+        // Rendered at once, in this task: the new figures reach the DOM without waiting for React's
+        // scheduler (and a frame of the old figures) in between.
+        flushSync(() => store.setResults(merged, 'computing'));
+        // Where the time went, ms on this page's clock: post, worker in/out, arrival here, applied.
+        const o = performance.timeOrigin;
+        mark('bw-figures', {
+          seq, worker_ms: data.results.elapsed_ms, posted: lane.posted[0] - o, postReturned: lane.posted[1] - o,
+          received: data.timing.received - o, answered: data.timing.answered - o, arrived: arrived - o, applied: epochNow() - o,
+        });
       };
       lane.worker.onerror = () => useEditorStore.getState().setResultsStatus('error');
     }
