@@ -195,7 +195,9 @@ function editTimelines(events: TraceEvent[], main: TraceEvent): string[][] {
 async function startTrace(page: Page) {
   const cdp = await page.context().newCDPSession(page);
   const events: TraceEvent[] = [];
-  cdp.on('Tracing.dataCollected', (e: { value: TraceEvent[] }) => events.push(...e.value));
+  cdp.on('Tracing.dataCollected', (e) => {
+    events.push(...(e.value as unknown as TraceEvent[]));
+  });
   await cdp.send('Tracing.start', { categories: 'devtools.timeline,disabled-by-default-devtools.timeline,blink.user_timing', transferMode: 'ReportEvents' });
   return async () => {
     const done = new Promise<void>((resolve) => cdp.once('Tracing.tracingComplete', () => resolve()));
