@@ -107,7 +107,7 @@ export function applyCablePreset(item: LibraryRecord): number {
 }
 
 /** The team of the open diagram (from the editor's diagram query) and its parts library. */
-function useTeamLibrary() {
+export function useTeamLibrary() {
   const { diagramId = '' } = useParams();
   const diagram = useQuery({
     queryKey: diagramKeys.detail(diagramId),

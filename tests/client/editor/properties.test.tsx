@@ -1,9 +1,14 @@
-import { act, render, screen } from '@testing-library/react';
+import { act, render as renderDom, screen } from '@testing-library/react';
+import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import type { ReactElement } from 'react';
 import userEvent from '@testing-library/user-event';
 import { describe, expect, it } from 'vitest';
 import { postToPostTemplate, type DiagramPart } from '@shared/diagram';
 import { PropertiesPanel } from '@/features/editor/properties/PropertiesPanel';
 import { editor, resetEditor } from './flow-mocks';
+
+// The panel reads the team parts library (server state); no diagram route here, so it offers none.
+const render = (ui: ReactElement) => renderDom(<QueryClientProvider client={new QueryClient({ defaultOptions: { queries: { retry: false } } })}>{ui}</QueryClientProvider>);
 
 const battery = (id = 'bat1') => editor().doc.parts.find((p) => p.id === id) as Extract<DiagramPart, { type: 'battery' }>;
 const cable = (id: string) => editor().doc.cables.find((c) => c.id === id)!;

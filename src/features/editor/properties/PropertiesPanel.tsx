@@ -14,6 +14,7 @@ import { AMPACITY_TABLES, AMPACITY_TABLE_IDS } from '@shared/electrical/tables/a
 import type { UnitSystem } from '@shared/units';
 import { Button } from '@/components/Button';
 import { TrashIcon } from '@/components/icons';
+import { useTeamLibrary } from '../Palette';
 import { useEditorStore } from '../store';
 import { DraftField, PresetSelect, SpecForm, type FieldSpec } from './fields';
 
@@ -154,6 +155,7 @@ const PartProperties = memo(function PartProperties({ part, unitSystem, readOnly
           return null;
         }}
       />
+      {!readOnly ? <TeamLibraryPresets kind={part.type} onPick={(props) => updatePart(part.id, { props: part.type === 'battery' ? { ...props, soc: part.props.soc } : props } as Partial<DiagramPart>)} /> : null}
       {part.type === 'battery' ? (
         <PresetSelect
           label="Battery presets"
@@ -254,8 +256,26 @@ function CableProperties({ cable, unitSystem, readOnly }: { cable: DiagramCable;
       />
       <TerminalSelect label="From" value={`${cable.from.part}\u0000${cable.from.terminal}`} options={terminalOptions} onChange={pick('from')} disabled={readOnly} />
       <TerminalSelect label="To" value={`${cable.to.part}\u0000${cable.to.terminal}`} options={terminalOptions} onChange={pick('to')} disabled={readOnly} />
+      {!readOnly ? <TeamLibraryPresets kind="cable" onPick={(props) => updateCable(cable.id, { props: { ...cable.props, ...props } as DiagramCable['props'] })} /> : null}
       <SpecForm key={cable.id} specs={CABLE_FIELDS} value={cable.props} schema={cableRunPropsSchema} unitSystem={unitSystem} disabled={readOnly} onCommit={onCommit} />
     </div>
+  );
+}
+
+/** The team parts library's presets of one kind (battery, fuse, busbar or cable), when the team has any. */
+function TeamLibraryPresets({ kind, onPick }: { kind: string; onPick: (props: Record<string, unknown>) => void }) {
+  const library = useTeamLibrary();
+  const items = (library.data ?? []).filter((i) => i.kind === kind);
+  if (!items.length) return null;
+  return (
+    <PresetSelect
+      label="Team library"
+      options={items.map((i) => ({ id: i.id, label: i.name }))}
+      onPick={(id) => {
+        const item = items.find((i) => i.id === id);
+        if (item) onPick(structuredClone(item.props) as Record<string, unknown>);
+      }}
+    />
   );
 }
 
