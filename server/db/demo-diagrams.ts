@@ -5,6 +5,7 @@
  */
 import { diagramSchema, type DiagramDocument } from '../../shared/diagram/schema';
 import { busbarBankTemplate, postToPostTemplate, seriesParallelTemplate } from '../../shared/diagram/templates';
+import { batteryDefaults } from '../../shared/electrical/parts/battery';
 
 export interface DemoDiagram {
   name: string;
@@ -62,4 +63,20 @@ export function demoRevisionContents(): { message: string; content: DiagramDocum
       content: postToPostTemplate({ count: 4, takeOff: 'diagonal', name, jumper: { length_m: 0.5 } }),
     },
   ];
+}
+
+/**
+ * The survey launch's house bank as found on board: two 12 V AGM batteries jumpered post to post with
+ * both main cables on battery 1 — the poor take-off the editor's take-off explorer is for. No revisions.
+ */
+export function demoHouseBankContent(): DemoDiagram {
+  const name = 'House bank as found, both leads on battery 1';
+  const doc = postToPostTemplate({ count: 2, takeOff: 'same-end', name });
+  const agm = batteryDefaults('agm', 110);
+  const parts = doc.parts.map((p) => (p.type === 'battery' ? { ...p, props: { ...agm } } : p));
+  return {
+    name,
+    description: 'Two 110 Ah AGM batteries, both main cables on battery 1, feeding the DC panel and a 2 kW inverter.',
+    content: diagramSchema.parse({ ...doc, parts }),
+  };
 }

@@ -6,7 +6,7 @@ import { count } from 'drizzle-orm';
 import type { Role } from '../../shared/roles';
 import { hashPassword } from '../auth/passwords';
 import type { Db, Tx } from './client';
-import { demoDiagramContents, demoRevisionContents } from './demo-diagrams';
+import { demoDiagramContents, demoHouseBankContent, demoRevisionContents } from './demo-diagrams';
 import { demoLibraryItems } from './demo-library';
 import { activity, diagramRevisions, diagrams, libraryItems, memberships, projects, reviewComments, reviewDecisions, reviewRequests, teams, users } from './schema';
 import { newId } from '../ids';
@@ -99,6 +99,18 @@ export async function seedDemo(db: Db, password: string): Promise<boolean> {
       updatedAt: at(i === 0 ? 50 : 31 + i),
     }));
     await tx.insert(diagrams).values(diagramRows);
+    const houseBank = demoHouseBankContent();
+    await tx.insert(diagrams).values({
+      id: newId(),
+      projectId: demoProjects[0].id,
+      name: houseBank.name,
+      description: houseBank.description,
+      content: houseBank.content,
+      createdBy: designer.id,
+      updatedBy: designer.id,
+      createdAt: at(12),
+      updatedAt: at(14),
+    });
     await seedDemoReview(tx, { diagram: diagramRows[0], projectId: station, designer: designer.id, reviewer: reviewer.id, revisionDocs, summaries, at });
     await tx.insert(activity).values(
       demoProjects.map((p) => ({ id: newId(), projectId: p.id, userId: designer.id, action: 'project.created', detail: { name: p.name }, createdAt: at(p.minute) })),
