@@ -30,7 +30,7 @@ export function demoDiagramContents(): DemoDiagram[] {
   return [
     {
       name: 'Post-to-post bank, end take-off',
-      description: 'Four 12 V batteries jumpered post to post, with both main cables taken off the end battery.',
+      description: 'Four 12 V batteries jumpered post to post. r1 took both main cables off the end battery; r2 moved the negative to battery 4 (diagonal take-off); r3 shortens the jumpers.',
       content: postToPostTemplate({ count: 4, takeOff: 'same-end', name: 'Post-to-post bank, end take-off' }),
     },
     {
