@@ -8,9 +8,9 @@ import {
   Background, BackgroundVariant, ConnectionMode, EdgeLabelRenderer, getSmoothStepPath, ReactFlow,
   type EdgeProps, type NodeChange, type NodeMouseHandler, type NodeProps, type Viewport,
 } from '@xyflow/react';
-import type { DiagramCable, DiagramDocument, DiagramPart } from '@shared/diagram';
+import type { DiagramDocument, DiagramPart } from '@shared/diagram';
 import { CableEdge, type CableFlowEdge } from '@/features/editor/canvas/CableEdge';
-import { GRID, partBox } from '@/features/editor/canvas/geometry';
+import { busbarTapSides, GRID, partBox } from '@/features/editor/canvas/geometry';
 import { nodeTypes as editorNodeTypes, type PartNode, type PartNodeData } from '@/features/editor/canvas/nodes';
 import { STATUS_TEXT, type DiffMark } from './marks';
 
@@ -85,27 +85,6 @@ const ViewCableEdge = memo(function ViewCableEdge(props: EdgeProps<ViewEdge>) {
   );
 });
 const viewEdgeTypes = { cable: ViewCableEdge };
-
-/** Which edge of each busbar its taps are drawn on: towards the side most of its cables go (the editor's rule). */
-export function busbarTapSides(parts: DiagramPart[], cables: DiagramCable[]): Map<string, 'top' | 'bottom'> {
-  const out = new Map<string, 'top' | 'bottom'>();
-  const byId = new Map(parts.map((p) => [p.id, p]));
-  for (const bar of parts) {
-    if (bar.type !== 'busbar') continue;
-    let above = 0;
-    let below = 0;
-    const cy = bar.position.y + partBox(bar).h / 2;
-    for (const c of cables) {
-      const other = c.from.part === bar.id ? c.to.part : c.to.part === bar.id ? c.from.part : null;
-      const p = other ? byId.get(other) : undefined;
-      if (!p || p.id === bar.id) continue;
-      if (p.position.y + partBox(p).h / 2 < cy) above++;
-      else below++;
-    }
-    out.set(bar.id, above > below ? 'top' : 'bottom');
-  }
-  return out;
-}
 
 /** Bounds of the named parts (all parts when `ids` is empty) in canvas units, or null. */
 export function partsBounds(doc: DiagramDocument, ids: readonly string[] = []) {

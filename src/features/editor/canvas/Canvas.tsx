@@ -16,34 +16,12 @@ import { AnnotationLayer } from '@/features/annotations/AnnotationLayer';
 import { useEditorStore } from '../store';
 import { toast } from '../toasts';
 import { edgeTypes, type CableFlowEdge } from './CableEdge';
-import { GRID, partBox } from './geometry';
+import { busbarTapSides, GRID, partBox } from './geometry';
 import { nodeTypes, terminalPolarity, type PartNode } from './nodes';
 
 export const PART_DRAG_MIME = 'application/x-bankwright-part';
 
 type Measured = { width: number; height: number };
-
-/** Which edge of each busbar its taps are drawn on: towards the side most of its cables go. */
-function busbarTapSides(parts: DiagramPart[], cables: DiagramCable[]): Map<string, 'top' | 'bottom'> {
-  const out = new Map<string, 'top' | 'bottom'>();
-  const busbars = parts.filter((p) => p.type === 'busbar');
-  if (busbars.length === 0) return out;
-  const byId = new Map(parts.map((p) => [p.id, p]));
-  for (const bar of busbars) {
-    let above = 0;
-    let below = 0;
-    const cy = bar.position.y + partBox(bar).h / 2;
-    for (const c of cables) {
-      const other = c.from.part === bar.id ? c.to.part : c.to.part === bar.id ? c.from.part : null;
-      const p = other ? byId.get(other) : undefined;
-      if (!p || p.id === bar.id) continue;
-      if (p.position.y + partBox(p).h / 2 < cy) above++;
-      else below++;
-    }
-    out.set(bar.id, above > below ? 'top' : 'bottom');
-  }
-  return out;
-}
 
 function useDerivedNodes(parts: DiagramPart[], cables: DiagramCable[], selection: Set<string>, readOnly: boolean, measured: Map<string, Measured>, measureTick: number) {
   const cache = useRef(new Map<string, { part: DiagramPart; selected: boolean; side: string; readOnly: boolean; m?: Measured; node: PartNode }>());

@@ -3,7 +3,7 @@
  * fraction along that side. Rotation (clockwise, in 90° steps) turns sides and swaps the box.
  */
 import { Position } from '@xyflow/react';
-import type { DiagramPart } from '@shared/diagram';
+import type { DiagramCable, DiagramPart } from '@shared/diagram';
 import type { PartType } from '@shared/electrical/parts';
 
 export type Side = 'top' | 'right' | 'bottom' | 'left';
@@ -95,3 +95,25 @@ export function rotatePlacement(p: TerminalPlacement, rotation: number): Termina
 }
 
 export const POSITION: Record<Side, Position> = { top: Position.Top, right: Position.Right, bottom: Position.Bottom, left: Position.Left };
+
+/** Which edge of each busbar its taps are drawn on: towards the side most of its cables go. */
+export function busbarTapSides(parts: DiagramPart[], cables: DiagramCable[]): Map<string, 'top' | 'bottom'> {
+  const out = new Map<string, 'top' | 'bottom'>();
+  const busbars = parts.filter((p) => p.type === 'busbar');
+  if (busbars.length === 0) return out;
+  const byId = new Map(parts.map((p) => [p.id, p]));
+  for (const bar of busbars) {
+    let above = 0;
+    let below = 0;
+    const cy = bar.position.y + partBox(bar).h / 2;
+    for (const c of cables) {
+      const other = c.from.part === bar.id ? c.to.part : c.to.part === bar.id ? c.from.part : null;
+      const p = other ? byId.get(other) : undefined;
+      if (!p || p.id === bar.id) continue;
+      if (p.position.y + partBox(p).h / 2 < cy) above++;
+      else below++;
+    }
+    out.set(bar.id, above > below ? 'top' : 'bottom');
+  }
+  return out;
+}
