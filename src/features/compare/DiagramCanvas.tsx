@@ -8,7 +8,7 @@ import {
   Background, BackgroundVariant, ConnectionMode, EdgeLabelRenderer, getSmoothStepPath, ReactFlow,
   type EdgeProps, type NodeChange, type NodeMouseHandler, type NodeProps, type Viewport,
 } from '@xyflow/react';
-import type { DiagramDocument, DiagramPart } from '@shared/diagram';
+import type { DiagramDocument } from '@shared/diagram';
 import { CableEdge, type CableFlowEdge } from '@/features/editor/canvas/CableEdge';
 import { busbarTapSides, GRID, partBox } from '@/features/editor/canvas/geometry';
 import { nodeTypes as editorNodeTypes, type PartNode, type PartNodeData } from '@/features/editor/canvas/nodes';
