@@ -12,7 +12,7 @@ import { createApp, type ClientServing } from './app';
 import { ConfigError, loadConfig, type Config } from './config';
 import { openDatabase, type Database } from './db/client';
 import { acquireDataDirLock, DataDirLockedError, type DataDirLock } from './db/lock';
-import { DEMO_ACCOUNTS, seedDemo } from './db/seed';
+import { DEMO_ACCOUNTS, seedDemo } from './db/demo-data';
 import { createMailer } from './mail/mailer';
 import { createSessions } from './auth/sessions';
 import { analysisPool } from './services/analysis-pool';

@@ -12,7 +12,7 @@ import { eq } from 'drizzle-orm';
 import type { PGlite } from '@electric-sql/pglite';
 import { openPglite } from '../../server/db/client';
 import { diagrams, projects, teams } from '../../server/db/schema';
-import { seedDemo } from '../../server/db/seed';
+import { seedDemo } from '../../server/db/demo-data';
 import { LOCK_FILE } from '../../server/db/lock';
 import {
   BackupError, backupDataDir, backupFileName, pruneBackups, restoreBackup, scheduledBackupConfig, startScheduledBackups,

@@ -10,7 +10,7 @@ import type { Role } from '../../shared/roles';
 import { createApp } from '../../server/app';
 import { testConfig, type Config } from '../../server/config';
 import type { Db } from '../../server/db/client';
-import { seedDemo, demoEmail } from '../../server/db/seed';
+import { seedDemo, demoEmail } from '../../server/db/demo-data';
 import { createOutboxMailer, type Mailer } from '../../server/mail/mailer';
 import type { LimiterOptions } from '../../server/auth/rate-limit';
 import { createTestDatabase } from './db';

@@ -14,7 +14,7 @@ import { compileDiagram } from '../../shared/electrical/compile';
 import { createApp } from '../../server/app';
 import { testConfig } from '../../server/config';
 import { diagramRevisions, diagrams } from '../../server/db/schema';
-import { seedDemo } from '../../server/db/seed';
+import { seedDemo } from '../../server/db/demo-data';
 import { createOutboxMailer } from '../../server/mail/mailer';
 import { analysisPool, createAnalysisPool, type AnalysisPool } from '../../server/services/analysis-pool';
 import { createTestDatabase, type TestDatabase } from '../helpers/db';

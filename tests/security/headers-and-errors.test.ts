@@ -14,7 +14,7 @@ import request from 'supertest';
 import { createApp } from '../../server/app';
 import { testConfig } from '../../server/config';
 import { createOutboxMailer } from '../../server/mail/mailer';
-import { seedDemo } from '../../server/db/seed';
+import { seedDemo } from '../../server/db/demo-data';
 import { createTestDatabase, type TestDatabase } from '../helpers/db';
 import { makeTestApp, DEMO_PASSWORD, TEST_ORIGIN, type TestApp } from '../helpers/app';
 
