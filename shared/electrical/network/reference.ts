@@ -163,27 +163,35 @@ export function solveNetworkReference(net: Network): SolveOutcome {
     const vAcross = (s: LinearSolution, el: NetworkElement & { pos: string; neg: string }) =>
       s.V[topo.index.get(el.pos)!] - s.V[topo.index.get(el.neg)!];
     if (cpLoads.length) {
-      let vCp = new Map(cpLoads.map((el) => [el.id, vAcross(sol as LinearSolution, el as never)]));
-      let converged = false;
-      for (; iterations <= MAX_NEWTON_ITERATIONS; iterations++) {
-        const collapsed = cpLoads.filter((el) => constantPowerCollapsed(el as never, vCp.get(el.id)!));
-        if (collapsed.length) return collapseError(collapsed.map((el) => el.id));
-        const next = solveLinear(net, topo, modes, vCp);
-        if (next === 'singular') return collapseError(cpLoads.map((el) => el.id));
-        let step = 0;
-        let scale = 1;
-        for (let i = 0; i < next.V.length; i++) {
-          step = Math.max(step, Math.abs(next.V[i] - sol.V[i]));
-          scale = Math.max(scale, Math.abs(next.V[i]));
+      // First from the voltages the network gives with the loads open (the upper operating point).
+      // Past the fold of P = v i there is none; a load with v_min_V then settles on its resistive
+      // branch, which Newton reaches from below v_min_V, so a second start is taken from there.
+      const open = sol;
+      const starts = [new Map(cpLoads.map((el) => [el.id, vAcross(open, el as never)]))];
+      if (cpLoads.some((el) => (el as { v_min_V?: number }).v_min_V !== undefined)) {
+        starts.push(
+          new Map(cpLoads.map((el) => {
+            const vMin = (el as { v_min_V?: number }).v_min_V;
+            return [el.id, vMin !== undefined ? vMin / 2 : vAcross(open, el as never)];
+          })),
+        );
+      }
+      let found: { sol: LinearSolution; iterations: number } | null = null;
+      for (const start of starts) {
+        const attempt = newtonFrom(net, topo, modes, cpLoads, open, start, vAcross);
+        if (attempt === 'singular') return singularError(net, topo, modes, 'LU factorization failed');
+        if (Array.isArray(attempt)) {
+          if (start === starts[0]) return collapseError(attempt);
+          continue;
         }
-        sol = next;
-        vCp = new Map(cpLoads.map((el) => [el.id, vAcross(next, el as never)]));
-        if (step <= 1e-10 * scale) {
-          converged = true;
+        if (attempt) {
+          found = attempt;
           break;
         }
       }
-      if (!converged) return collapseError(cpLoads.map((el) => el.id));
+      if (!found) return collapseError(cpLoads.map((el) => el.id));
+      sol = found.sol;
+      iterations = found.iterations;
     }
     const s = sol;
     const V = (node: string) => s.V[topo.index.get(node)!];
@@ -194,6 +202,49 @@ export function solveNetworkReference(net: Network): SolveOutcome {
   return solveError('no_convergence', 'chargers kept switching between voltage and current limit', {
     elements: [...modes.keys()],
   });
+}
+
+/**
+ * Newton on the full MNA system from a starting guess of the loads' voltages: each pass re-stamps the
+ * loads' companion models and re-solves until the node voltages settle. Returns the solution, the ids
+ * of loads whose law is undefined at a first guess (collapse), or null when it does not settle.
+ */
+function newtonFrom(
+  net: Network,
+  topo: NetworkTopology,
+  modes: ChargerModes,
+  cpLoads: NetworkElement[],
+  open: LinearSolution,
+  start: Map<string, number>,
+  vAcross: (s: LinearSolution, el: never) => number,
+): { sol: LinearSolution; iterations: number } | string[] | 'singular' | null {
+  let sol = open;
+  let vCp = start;
+  for (let iterations = 1; iterations <= MAX_NEWTON_ITERATIONS; iterations++) {
+    const collapsed = cpLoads.filter((el) => constantPowerCollapsed(el as never, vCp.get(el.id)!));
+    if (collapsed.length) return collapsed.map((el) => el.id);
+    const next = solveLinear(net, topo, modes, vCp);
+    if (next === 'singular') return null;
+    let step = 0;
+    let scale = 1;
+    for (let i = 0; i < next.V.length; i++) {
+      step = Math.max(step, Math.abs(next.V[i] - sol.V[i]));
+      scale = Math.max(scale, Math.abs(next.V[i]));
+    }
+    sol = next;
+    const vNext = new Map(cpLoads.map((el) => [el.id, vAcross(next, el as never)]));
+    // Settled when the voltages stop moving and so do the loads' currents: near zero volts the
+    // companion conductance (-P / v²) is so large that v barely moves while P / v is still far off.
+    let currentsSettled = true;
+    for (const el of cpLoads) {
+      const before = constantPowerCurrent(el as never, vCp.get(el.id)!);
+      const after = constantPowerCurrent(el as never, vNext.get(el.id)!);
+      if (!(Math.abs(after - before) <= 1e-9 * Math.max(1, Math.abs(after)))) currentsSettled = false;
+    }
+    vCp = vNext;
+    if (step <= 1e-10 * scale && currentsSettled) return { sol, iterations };
+  }
+  return null;
 }
 
 function currentOfNonConstraint(net: Network, id: string, V: (n: string) => number, modes: ChargerModes): number {

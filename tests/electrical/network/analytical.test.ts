@@ -145,6 +145,22 @@ describe.each(solvers)('%s: analytical cases', (_name, solve) => {
     }
   });
 
+  it('a constant-power load that no source can drive is a collapse, not a huge current near 0 V', () => {
+    // The two batteries and the ideal source close a loop among n1, n2 and n3 that reaches ground only
+    // through the load's own terminals, so no current can return: the load sees 0 V open circuit and
+    // cannot draw 2,545.8 W. (Found by the changes property on a shorted feed: the plain iteration
+    // once stopped at 1e-16 V with 2.7e19 A in the load, because its voltages had stopped moving.)
+    const r = solve({ ground: 'n0', elements: [
+      { id: 't2', kind: 'battery', pos: 'n2', neg: 'n1', ocv_V: 12.65924, r_ohm: 0.06846994830911338 },
+      { id: 't3', kind: 'battery', pos: 'n3', neg: 'n2', ocv_V: 11.25092, r_ohm: 0.002 },
+      { id: 'v0', kind: 'voltage_source', pos: 'n2', neg: 'n1', volts: -9.6544, i_max_A: 30.382 },
+      { id: 'short', kind: 'resistor', a: 'cp0', b: 'n0', r_ohm: 1e-4 },
+      { id: 'tie0', kind: 'resistor', a: 'cp0', b: 'n1', r_ohm: 0.5 },
+      { id: 'cp0', kind: 'constant_power', pos: 'cp0', neg: 'n0', watts: 2545.8 },
+    ] });
+    expect(r.ok ? 'ok' : r.error.code).toBe('no_convergence');
+  });
+
   it('with v_min_V the collapsed load becomes its resistance at v_min_V and is flagged', () => {
     // R = 10^2 / 1000 = 0.1 ohm; v = 12 * 0.1 / 0.15 = 8 V (< 10 V, so on the resistive branch).
     const r = solved(

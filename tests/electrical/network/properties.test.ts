@@ -4,7 +4,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { solveNetwork, solveNetworkReference } from '../../../shared/electrical/network/solve';
 import type { Network, SolveOutcome, SolveResult } from '../../../shared/electrical/network/types';
-import { arbitraryNetwork, kclResiduals, resultDifference } from './arbitrary';
+import { arbitraryNetwork, expectOperatingPoint, kclResiduals, resultDifference } from './arbitrary';
 
 const solved = (r: SolveOutcome): SolveResult => {
   if (!r.ok) throw new Error(`${r.error.code}: ${r.error.message}`);
@@ -47,7 +47,9 @@ describe('solver properties', () => {
 
   it('renaming nodes and reordering elements changes nothing', () => {
     fc.assert(
-      fc.property(arbitraryNetwork({ sources: true, constantPower: true }), fc.integer({ min: 1, max: 1e6 }), (net, salt) => {
+      // With headroom: at the fold of P = v i a last-bit change of summation order can move a load to
+      // its other branch or past collapse, which is round-off, not a dependence on names.
+      fc.property(arbitraryNetwork({ sources: true, constantPower: true, loadHeadroom: 0.6 }), fc.integer({ min: 1, max: 1e6 }), (net, salt) => {
         const a = solveNetwork(net);
         fc.pre(a.ok);
         const rename = (n: string) => `node-${(salt * 7919 + n.length * 31).toString(36)}-${n.split('').reverse().join('')}`;
@@ -73,7 +75,10 @@ describe('solver properties', () => {
   it('the fast path and the mathjs reference path agree (results and errors)', () => {
     let solvedCount = 0;
     fc.assert(
-      fc.property(arbitraryNetwork({ sources: true, constantPower: true, maxNodes: 12 }), (net) => {
+      // Loads kept to 60 % of what their feed can deliver: the two paths run different Newton
+      // iterations (damped on the loads' voltages; plain on the full system), which at the fold may
+      // settle on different operating points. That region has its own property below.
+      fc.property(arbitraryNetwork({ sources: true, constantPower: true, maxNodes: 12, loadHeadroom: 0.6 }), (net) => {
         const fast = solveNetwork(net);
         const ref = solveNetworkReference(net);
         if (!fast.ok || !ref.ok) {
@@ -89,5 +94,23 @@ describe('solver properties', () => {
       { numRuns: 400 },
     );
     expect(solvedCount).toBeGreaterThan(300);
+  });
+
+  it('near the fold of P = v i, whatever either path answers is a genuine operating point', () => {
+    let answered = 0;
+    fc.assert(
+      fc.property(arbitraryNetwork({ sources: true, constantPower: true, maxNodes: 6, loadHeadroom: 0.999 }), (net) => {
+        for (const r of [solveNetwork(net), solveNetworkReference(net)]) {
+          if (!r.ok) {
+            expect(r.error.code).toBe('no_convergence');
+            continue;
+          }
+          answered++;
+          expectOperatingPoint(net, r);
+        }
+      }),
+      { numRuns: 200 },
+    );
+    expect(answered).toBeGreaterThan(200);
   });
 });

@@ -17,7 +17,7 @@ import {
   type PreparedNetwork,
 } from '../../../shared/electrical/network/solve';
 import type { Network, SolveOutcome, SolveResult } from '../../../shared/electrical/network/types';
-import { arbitraryNetwork, resultDifference } from './arbitrary';
+import { arbitraryNetwork, expectOperatingPoint, resultDifference } from './arbitrary';
 
 const solved = (r: SolveOutcome): SolveResult => {
   if (!r.ok) throw new Error(`${r.error.code}: ${r.error.message}`);
@@ -101,7 +101,7 @@ describe('fault variants on a prepared network', () => {
   });
 
   it('random networks with random shunts and shorts agree with full reference solves', () => {
-    const withChanges = arbitraryNetwork({ sources: true, constantPower: true, maxNodes: 10 }).chain((net) => {
+    const withChanges = arbitraryNetwork({ sources: true, constantPower: true, maxNodes: 10, loadHeadroom: 0.6 }).chain((net) => {
       const nodes = [...new Set(net.elements.flatMap((el) => Object.entries(el).filter(([k]) => ['pos', 'neg', 'a', 'b', 'from', 'to'].includes(k)).map(([, v]) => v as string)))];
       const shortable = net.elements.filter((el) => el.kind === 'battery' || el.kind === 'resistor' || el.kind === 'load_resistor').map((el) => el.id);
       const change: fc.Arbitrary<NetworkChange> = fc.oneof(
@@ -117,7 +117,19 @@ describe('fault variants on a prepared network', () => {
         const fast = solvePrepared(prep as PreparedNetwork, changes);
         const ref = reference(net, changes);
         if (!fast.ok || !ref.ok) {
-          expect(fast.ok ? 'ok' : fast.error.code).toBe(ref.ok ? 'ok' : ref.error.code);
+          const codes = [fast.ok ? 'ok' : fast.error.code, ref.ok ? 'ok' : ref.error.code];
+          // A shunt or short can pull a constant-power load to the fold of P = v i, where the prepared
+          // path (warm-started from the unchanged network's operating point and charger modes) may
+          // find an operating point that a cold full solve misses (docs/decisions/010). That answer
+          // must then be a genuine operating point of the changed network.
+          const solvedOne = fast.ok ? fast : ref.ok ? ref : null;
+          if (solvedOne && codes.includes('no_convergence') && net.elements.some((el) => el.kind === 'constant_power')) {
+            const changed = applyChanges(net, changes);
+            if ('ok' in changed) throw new Error(changed.error.message);
+            expectOperatingPoint(changed, solvedOne);
+            return;
+          }
+          expect(codes[0]).toBe(codes[1]);
           return;
         }
         const d = resultDifference(fast, ref);
