@@ -134,9 +134,46 @@ function conflictDetails(latest: RevisionMeta | null) {
     : { latest: null };
 }
 
+/** The unique index on (diagram_id, number) refused an insert: another save took that number first. */
+function isRevisionNumberTaken(err: unknown): boolean {
+  // drizzle wraps driver errors: look at the cause too.
+  for (let e = err as { code?: string; constraint?: string; cause?: unknown } | undefined, depth = 0; e && depth < 3; e = e.cause as typeof e, depth++) {
+    if (e.code === '23505' && (e.constraint === undefined || e.constraint === 'diagram_revisions_number_unique')) return true;
+  }
+  return false;
+}
+
+/** 409 revision_conflict naming the latest revision (or 404 when the diagram is gone). */
+async function revisionConflict(db: DbOrTx, diagramId: string) {
+  const [[diagram], latest] = await Promise.all([
+    db.select({ id: diagrams.id }).from(diagrams).where(eq(diagrams.id, diagramId)),
+    latestRevision(db, diagramId),
+  ]);
+  if (!diagram) return notFound('No such diagram.');
+  const who = latest?.author ? ` by ${latest.author.name}` : '';
+  return conflict(
+    'revision_conflict',
+    latest
+      ? `Revision ${latest.number}${who} was saved after the revision you started from. Compare the two, then save yours on top or as a copy.`
+      : 'This diagram has no revisions yet; save with baseRevision null.',
+    conflictDetails(latest),
+  );
+}
+
+/** A restore goes on top of whatever is latest: when another save takes the number first, it tries again. */
+const RESTORE_ATTEMPTS = 3;
+
 /**
  * Save a new revision on top of `baseRevision` (null: the diagram has none yet). `baseRevision: 'latest'`
  * (restore) always goes on top of whatever is latest.
+ *
+ * One statement (docs/decisions/011-load-and-save-path.md): it reads the diagram and its latest number,
+ * inserts the revision as latest + 1 only when that latest is the base, and writes the activity row from
+ * the inserted row, all or nothing. No transaction is held open across round trips, so on PGlite (one
+ * query at a time) reads wait behind one statement, not a six-statement transaction. Two saves from the
+ * same base on PostgreSQL both see the same latest; the unique index on (diagram_id, number) makes the
+ * second wait for the first and fail, and that failure is the 409. The answer is built from what was
+ * inserted, not read back.
  */
 export async function saveRevision(
   db: Db,
@@ -145,45 +182,60 @@ export async function saveRevision(
   input: { baseRevision: number | null | 'latest'; message: string; content: DiagramDocument; restoredFrom?: number },
   pool?: AnalysisPool,
 ) {
-  // The analysis runs before the transaction (in a worker): no lock is held while it solves.
+  // The analysis runs before the statement (in a worker): no lock is held while it solves.
   const resultsSummary = await computeResultsSummary(input.content, pool);
   const hash = contentHash(input.content);
-  const number = await db.transaction(async (tx) => {
-    const [diagram] = await tx.select({ projectId: diagrams.projectId, name: diagrams.name }).from(diagrams).where(eq(diagrams.id, diagramId)).for('update');
-    if (!diagram) throw notFound('No such diagram.');
-    const latest = await latestRevision(tx, diagramId);
-    if (input.baseRevision !== 'latest' && (latest?.number ?? null) !== input.baseRevision) {
-      const who = latest?.author ? ` by ${latest.author.name}` : '';
-      throw conflict(
-        'revision_conflict',
-        latest
-          ? `Revision ${latest.number}${who} was saved after the revision you started from. Compare the two, then save yours on top or as a copy.`
-          : 'This diagram has no revisions yet; save with baseRevision null.',
-        conflictDetails(latest),
-      );
+  const restoredFrom = input.restoredFrom ?? null;
+  const action = restoredFrom !== null ? 'revision.restored' : 'revision.saved';
+  const onBase =
+    input.baseRevision === 'latest' ? sql`true` : sql`base.latest is not distinct from ${input.baseRevision}::integer`;
+  const extraDetail = restoredFrom !== null ? sql` || jsonb_build_object('restoredFrom', ${restoredFrom}::integer)` : sql``;
+  const insert = () =>
+    db.execute<{ number: number; created_at: string; author_name: string | null }>(sql`
+      with base as (
+        select d.id, d.project_id, d.name,
+               (select max(r.number) from diagram_revisions r where r.diagram_id = d.id) as latest
+        from diagrams d where d.id = ${diagramId}
+      ), saved as (
+        insert into diagram_revisions (id, diagram_id, number, author_id, message, content, content_hash, results_summary, restored_from)
+        select ${newId()}, base.id, coalesce(base.latest, 0) + 1, ${userId}, ${input.message}, ${JSON.stringify(input.content)}::jsonb,
+               ${hash}, ${JSON.stringify(resultsSummary)}::jsonb, ${restoredFrom}::integer
+        from base where ${onBase}
+        returning number, created_at
+      ), logged as (
+        insert into activity (id, project_id, user_id, action, detail)
+        select ${newId()}, base.project_id, ${userId}, ${action},
+               jsonb_build_object('diagramId', base.id, 'name', base.name, 'number', saved.number, 'message', ${input.message}::text)${extraDetail}
+        from base, saved
+      )
+      select saved.number, saved.created_at, (select u.name from users u where u.id = ${userId}) as author_name from saved`);
+
+  let row: { number: number; created_at: string; author_name: string | null } | undefined;
+  for (let attempt = 1; ; attempt++) {
+    try {
+      [row] = (await insert()).rows;
+      break;
+    } catch (err) {
+      if (!isRevisionNumberTaken(err)) throw err;
+      if (input.baseRevision !== 'latest' || attempt >= RESTORE_ATTEMPTS) throw await revisionConflict(db, diagramId);
     }
-    const next = (latest?.number ?? 0) + 1;
-    await tx.insert(diagramRevisions).values({
-      id: newId(),
-      diagramId,
-      number: next,
-      authorId: userId,
-      message: input.message,
-      content: input.content,
-      contentHash: hash,
-      resultsSummary,
-      restoredFrom: input.restoredFrom ?? null,
-    });
-    await tx.insert(activity).values({
-      id: newId(),
-      projectId: diagram.projectId,
-      userId,
-      action: input.restoredFrom !== undefined ? 'revision.restored' : 'revision.saved',
-      detail: { diagramId, name: diagram.name, number: next, message: input.message, ...(input.restoredFrom !== undefined ? { restoredFrom: input.restoredFrom } : {}) },
-    });
-    return next;
-  });
-  return getRevision(db, diagramId, number);
+  }
+  if (!row) throw await revisionConflict(db, diagramId);
+
+  const meta: RevisionMeta = {
+    diagramId,
+    number: Number(row.number),
+    createdAt: diagramRevisions.createdAt.mapFromDriverValue(row.created_at),
+    message: input.message,
+    contentHash: hash,
+    state: 'draft',
+    restoredFrom,
+    approvedAt: null,
+    author: person(userId, row.author_name),
+    approvedBy: null,
+    results: { status: resultsSummary.status, findingCounts: resultsSummary.findingCounts },
+  };
+  return { ...meta, content: input.content, resultsSummary, review: { reviewers: [], decisions: [] } };
 }
 
 export async function restoreRevision(db: Db, userId: string, diagramId: string, number: number, message: string | undefined, pool?: AnalysisPool) {
