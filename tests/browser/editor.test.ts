@@ -113,6 +113,20 @@ describe('diagram editor', () => {
     await expect.poll(() => imbalance(page)).toBeLessThan(sameEnd / 2);
     await page.screenshot({ path: screenshotPath('editor-diagonal') });
 
+    // A props edit and a label edit show on the part's node at once, and undo takes them back.
+    const node2 = page.locator('.react-flow__node[data-id="bat2"]');
+    await node2.focus();
+    await page.keyboard.press('Enter');
+    await page.getByLabel('Capacity', { exact: true }).fill('280');
+    await expect.poll(() => node2.locator('.bw-part-caption').textContent()).toMatch(/280 Ah/);
+    await page.getByLabel('Label', { exact: true }).fill('Battery 2 (spare)');
+    await expect.poll(() => node2.locator('.bw-part-name').textContent()).toBe('Battery 2 (spare)');
+    await page.locator('.bw-canvas .react-flow__pane').click({ position: { x: 5, y: 5 } });
+    await page.keyboard.press('Control+z');
+    await expect.poll(() => node2.locator('.bw-part-name').textContent()).not.toBe('Battery 2 (spare)');
+    await page.keyboard.press('Control+z');
+    await expect.poll(() => node2.locator('.bw-part-caption').textContent()).not.toMatch(/280 Ah/);
+
     // The working copy is saved and opens again after a reload.
     await expect.poll(() => page.locator('.bw-save').textContent(), { timeout: 10_000 }).toBe('Saved');
     await page.reload();

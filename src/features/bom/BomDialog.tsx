@@ -8,11 +8,12 @@ import { BomCsvButtons, BomTable } from './BomTable';
 import { slug } from '@/features/export/capture';
 
 export function BomDialog({ open, onClose, diagramName }: { open: boolean; onClose: () => void; diagramName: string }) {
-  const doc = useEditorStore((s) => s.doc);
+  // The document only while open: closed, an edit does not re-render the dialog.
+  const doc = useEditorStore((s) => (open ? s.doc : null));
   const unitSystem = useEditorStore((s) => s.unitSystem);
-  const bom = useMemo(() => (open ? billOfMaterials(doc, { unitSystem }) : null), [open, doc, unitSystem]);
+  const bom = useMemo(() => (doc ? billOfMaterials(doc, { unitSystem }) : null), [doc, unitSystem]);
   const labelOf = useMemo(() => {
-    const m = new Map<string, string>([...doc.parts.map((p) => [p.id, p.label || PART_TYPES[p.type].name] as const), ...doc.cables.map((c) => [c.id, c.label || c.id] as const)]);
+    const m = new Map<string, string>(doc ? [...doc.parts.map((p) => [p.id, p.label || PART_TYPES[p.type].name] as const), ...doc.cables.map((c) => [c.id, c.label || c.id] as const)] : []);
     return (id: string) => m.get(id) ?? id;
   }, [doc]);
   return (

@@ -6,6 +6,7 @@
 import { useEffect, useMemo, useRef, useState } from 'react';
 import { createPortal, flushSync } from 'react-dom';
 import { useReactFlow } from '@xyflow/react';
+import { emptyDiagram } from '@shared/diagram';
 import { Button, buttonClass } from '@/components/Button';
 import { Dialog } from '@/components/Dialog';
 import { Notice } from '@/components/Notice';
@@ -27,6 +28,9 @@ const CHOICES: { id: Choice; label: string; format: ImageFormat; ratio: PixelRat
   { id: 'svg', label: 'SVG (vector)', format: 'svg', ratio: 1 },
 ];
 
+/** Stands in for the document while the dialog is closed. */
+const CLOSED_DOC = emptyDiagram();
+
 function viewportElement(): HTMLElement | null {
   return document.querySelector<HTMLElement>('.bw-canvas .react-flow__viewport');
 }
@@ -34,7 +38,9 @@ function viewportElement(): HTMLElement | null {
 export function ExportDialog({ open, onClose, diagram }: { open: boolean; onClose: () => void; diagram: DiagramRecord }) {
   const rf = useReactFlow();
   const me = useSignedInMe();
-  const doc = useEditorStore((s) => s.doc);
+  // The document only while open: closed, an edit does not re-render the dialog (nor compare it with
+  // the latest revision's content).
+  const doc = useEditorStore((s) => (open ? s.doc : CLOSED_DOC));
   const mode = useEditorStore((s) => s.analysis.mode);
   const unitSystem = useEditorStore((s) => s.unitSystem);
   const layerVisible = useAnnotationUi((s) => s.visible);

@@ -79,7 +79,71 @@ function pointAlong(path: string, t: number): [number, number] | null {
   return null;
 }
 
+/**
+ * The edge itself: its path and where its label sits. It does not read the results, so new figures
+ * (every solve) re-render only the stroke and the label below, not the path geometry.
+ */
 function CableEdgeView({ id, data, selected, sourceX, sourceY, targetX, targetY, sourcePosition, targetPosition }: EdgeProps<CableFlowEdge>) {
+  const [path, midX, midY] = getSmoothStepPath({ sourceX, sourceY, targetX, targetY, sourcePosition, targetPosition, borderRadius: 8, offset: 18 });
+  if (!data) return null;
+  const { cable } = data;
+  const jumper = cable.props.role === 'jumper';
+  const [labelX, labelY] = (jumper && pointAlong(path, 1 / 3)) || [midX, midY];
+  return (
+    <>
+      <CableStroke id={id} path={path} selected={!!selected} jumper={jumper} />
+      <EdgeLabel>
+        <CableLabel id={id} cable={cable} selected={!!selected} x={labelX} y={labelY} />
+      </EdgeLabel>
+    </>
+  );
+}
+
+/** The run's stroke: width after its loading (in quarter-pixel steps), over-ampacity and fault styling, direction arrow. */
+const CableStroke = memo(function CableStroke({ id, path, selected, jumper }: { id: string; path: string; selected: boolean; jumper: boolean }) {
+  const s = useCanvasView(
+    useShallow((st) => {
+      const canvas = st.results?.canvas;
+      const c = canvas?.cables[id];
+      if (!c || !canvas) return null;
+      const fault = canvas.mode === 'fault';
+      const directed = canvas.mode === 'equalize' || (canvas.modeSummary.mode === 'fault' && !!canvas.modeSummary.selected);
+      const mark = canvas.marks[id];
+      return {
+        fault,
+        width: fault ? 1.8 : Math.round(Math.min(6, 1.6 + (c.loading ?? 0) * 2.5) * 4) / 4,
+        over: c.loading !== null && Math.round(c.loading * 1000) / 1000 > 1,
+        faulted: mark === 'faulted' || mark === 'worst-fault',
+        // Direction of the current along the drawn run: 1 from → to, −1 to → from, 0 unshown.
+        dir: directed && Math.round(Math.abs(c.current_A) * 10) / 10 >= 0.05 ? Math.sign(c.current_A) : 0,
+      };
+    }),
+  );
+  const width = s?.width ?? 1.8;
+  const arrow = s?.dir ? `bw-arrow-${id}` : null;
+  return (
+    <>
+      {arrow ? (
+        <defs>
+          <marker id={arrow} viewBox="0 0 10 10" refX="8" refY="5" markerWidth="5" markerHeight="5" orient="auto-start-reverse" markerUnits="strokeWidth">
+            <path d="M0 0L10 5L0 10z" fill={s!.faulted || s!.fault ? 'var(--color-fault-600)' : 'var(--color-copper-600)'} />
+          </marker>
+        </defs>
+      ) : null}
+      <BaseEdge
+        id={id}
+        path={path}
+        className={`bw-cable${selected ? ' bw-cable-selected' : ''}${s?.over ? ' bw-cable-over' : ''}${jumper ? ' bw-cable-jumper' : ''}`}
+        style={{ strokeWidth: selected ? width + 1 : width, ...(s?.faulted ? { stroke: 'var(--color-fault-600)', strokeDasharray: '2 3' } : {}) }}
+        interactionWidth={16}
+        {...(arrow ? (s!.dir > 0 ? { markerEnd: `url(#${arrow})` } : { markerStart: `url(#${arrow})` }) : {})}
+      />
+    </>
+  );
+});
+
+/** The run's label: conductor and length, the live figure, its findings badge. */
+const CableLabel = memo(function CableLabel({ id, cable, selected, x, y }: { id: string; cable: DiagramCable; selected: boolean; x: number; y: number }) {
   const unitSystem = useCanvasView((s) => s.unitSystem);
   const detail = useStore(detailOf);
   const [hover, setHover] = useState(false);
@@ -88,82 +152,52 @@ function CableEdgeView({ id, data, selected, sourceX, sourceY, targetX, targetY,
       const canvas = s.results?.canvas;
       const c = canvas?.cables[id];
       if (!c || !canvas) return null;
-      const directed = canvas.mode === 'equalize' || (canvas.modeSummary.mode === 'fault' && !!canvas.modeSummary.selected);
       return {
         mode: canvas.mode,
         i: Math.round(Math.abs(c.current_A) * 10) / 10,
-        // Direction of the current along the drawn run: 1 from → to, −1 to → from, 0 unshown.
-        dir: directed && Math.abs(c.current_A) >= 0.05 ? Math.sign(c.current_A) : 0,
         loading: c.loading === null ? null : Math.round(c.loading * 1000) / 1000,
         mark: canvas.marks[id] ?? null,
       };
     }),
   );
   const badge = useCanvasView(useShallow((s) => s.results?.canvas.badges[id] ?? null));
-  const [path, midX, midY] = getSmoothStepPath({ sourceX, sourceY, targetX, targetY, sourcePosition, targetPosition, borderRadius: 8, offset: 18 });
-  if (!data) return null;
-  const { cable } = data;
   const over = r?.loading != null && r.loading > 1;
   const jumper = cable.props.role === 'jumper';
   const faulted = r?.mark === 'faulted' || r?.mark === 'worst-fault';
   const fault = r?.mode === 'fault';
-  const width = r && !fault ? Math.min(6, 1.6 + (r.loading ?? 0) * 2.5) : 1.8;
   const BadgeIcon = badge ? (badge.severity === 'error' ? ErrorIcon : badge.severity === 'warning' ? WarningIcon : NoteIcon) : null;
-  const [labelX, labelY] = (jumper && pointAlong(path, 1 / 3)) || [midX, midY];
   const needsAttention = selected || hover || over || faulted || !!badge;
-  const showLabel = !(jumper && detail === 'minimal' && !needsAttention);
+  if (jumper && detail === 'minimal' && !needsAttention) return null;
   const shown: Detail = needsAttention && (selected || hover) ? 'full' : detail;
-  const arrow = r?.dir ? `bw-arrow-${id}` : null;
   const figure = r ? (fault ? `${fmtCurrent(r.i)}${faulted ? '' : ' prospective'}` : `${fmtAmps(r.i)}${r.loading !== null ? ` · ${over ? '▲ over ' : ''}${fmtPct(r.loading * 100)}` : ''}`) : null;
   const title = `${cable.label ? `${cable.label}: ` : ''}${jumper ? 'jumper' : 'cable'}, ${shortConductor(cable.props.conductor, unitSystem)}, ${lengthText(cable.props.length_m, unitSystem)}, ${cable.props.material}${
     r ? `; ${fault ? `${fmtCurrent(r.i)} prospective` : fmtAmps(r.i)}${r.loading != null ? `, ${fmtPct(r.loading * 100)} of ampacity` : ''}` : ''}`;
   return (
-    <>
-      {arrow ? (
-        <defs>
-          <marker id={arrow} viewBox="0 0 10 10" refX="8" refY="5" markerWidth="5" markerHeight="5" orient="auto-start-reverse" markerUnits="strokeWidth">
-            <path d="M0 0L10 5L0 10z" fill={faulted || fault ? 'var(--color-fault-600)' : 'var(--color-copper-600)'} />
-          </marker>
-        </defs>
+    <div
+      className={`bw-cable-label nodrag nopan${selected ? ' bw-cable-label-selected' : ''}${over || faulted ? ' bw-over' : ''}`}
+      style={{ transform: `translate(-50%, -50%) translate(${x}px, ${y}px)`, zIndex: selected || hover ? 1 : undefined }}
+      data-cable-id={id}
+      data-detail={shown}
+      onClick={(e) => useEditorStore.getState().select([id], { additive: e.shiftKey || e.metaKey || e.ctrlKey })}
+      onMouseEnter={() => setHover(true)}
+      onMouseLeave={() => setHover(false)}
+      title={title}
+    >
+      {faulted ? <span className="font-bold text-fault-700 uppercase">{r?.mark === 'faulted' ? 'Fault here' : 'Worst fault'}</span> : null}
+      {shown === 'full' ? (
+        <span>
+          {shortConductor(cable.props.conductor, unitSystem)} · {lengthText(cable.props.length_m, unitSystem)}
+        </span>
       ) : null}
-      <BaseEdge
-        id={id}
-        path={path}
-        className={`bw-cable${selected ? ' bw-cable-selected' : ''}${over ? ' bw-cable-over' : ''}${jumper ? ' bw-cable-jumper' : ''}`}
-        style={{ strokeWidth: selected ? width + 1 : width, ...(faulted ? { stroke: 'var(--color-fault-600)', strokeDasharray: '2 3' } : {}) }}
-        interactionWidth={16}
-        {...(arrow ? (r!.dir > 0 ? { markerEnd: `url(#${arrow})` } : { markerStart: `url(#${arrow})` }) : {})}
-      />
-      {showLabel ? (
-        <EdgeLabel>
-          <div
-            className={`bw-cable-label nodrag nopan${selected ? ' bw-cable-label-selected' : ''}${over || faulted ? ' bw-over' : ''}`}
-            style={{ transform: `translate(-50%, -50%) translate(${labelX}px, ${labelY}px)`, zIndex: selected || hover ? 1 : undefined }}
-            data-cable-id={id}
-            data-detail={shown}
-            onClick={(e) => useEditorStore.getState().select([id], { additive: e.shiftKey || e.metaKey || e.ctrlKey })}
-            onMouseEnter={() => setHover(true)}
-            onMouseLeave={() => setHover(false)}
-            title={title}
-          >
-            {faulted ? <span className="font-bold text-fault-700 uppercase">{r?.mark === 'faulted' ? 'Fault here' : 'Worst fault'}</span> : null}
-            {shown === 'full' ? (
-              <span>
-                {shortConductor(cable.props.conductor, unitSystem)} · {lengthText(cable.props.length_m, unitSystem)}
-              </span>
-            ) : null}
-            {figure ? <span className="bw-cable-figures">{figure}</span> : null}
-            {badge && BadgeIcon ? (
-              <span className={`bw-badge-inline bw-badge-${badge.severity}`} title={`${badge.count} finding(s)`}>
-                <BadgeIcon size={11} /> {badge.count}
-              </span>
-            ) : null}
-          </div>
-        </EdgeLabel>
+      {figure ? <span className="bw-cable-figures">{figure}</span> : null}
+      {badge && BadgeIcon ? (
+        <span className={`bw-badge-inline bw-badge-${badge.severity}`} title={`${badge.count} finding(s)`}>
+          <BadgeIcon size={11} /> {badge.count}
+        </span>
       ) : null}
-    </>
+    </div>
   );
-}
+});
 
 export const CableEdge = memo(CableEdgeView);
 

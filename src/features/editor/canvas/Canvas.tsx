@@ -17,27 +17,41 @@ import { useEditorStore } from '../store';
 import { toast } from '../toasts';
 import { edgeTypes, type CableFlowEdge } from './CableEdge';
 import { busbarTapSides, GRID, partBox } from './geometry';
-import { nodeTypes, terminalPolarity, type PartNode } from './nodes';
+import { LivePartsContext, nodeTypes, terminalPolarity, type PartNode } from './nodes';
 
 export const PART_DRAG_MIME = 'application/x-bankwright-part';
 
 type Measured = { width: number; height: number };
 
+/**
+ * React Flow nodes from the parts. A node object is replaced only when what React Flow lays out
+ * changes (position, type, rotation, selection, tap side, read-only, measured size): node components
+ * read the rest of their part from the store (LivePartsContext), so a props or label edit leaves
+ * React Flow's nodes untouched, and the array itself is kept when no node changed.
+ */
 function useDerivedNodes(parts: DiagramPart[], cables: DiagramCable[], selection: Set<string>, readOnly: boolean, measured: Map<string, Measured>, measureTick: number) {
-  const cache = useRef(new Map<string, { part: DiagramPart; selected: boolean; side: string; readOnly: boolean; m?: Measured; node: PartNode }>());
+  type Entry = { part: DiagramPart; selected: boolean; side: string; readOnly: boolean; m?: Measured; node: PartNode };
+  const cache = useRef(new Map<string, Entry>());
+  const last = useRef<PartNode[]>([]);
   const sides = useMemo(() => busbarTapSides(parts, cables), [parts, cables]);
   return useMemo(() => {
     void measureTick;
-    const next = new Map<string, { part: DiagramPart; selected: boolean; side: string; readOnly: boolean; m?: Measured; node: PartNode }>();
-    const nodes = parts.map((part) => {
+    const next = new Map<string, Entry>();
+    let same = parts.length === last.current.length;
+    const nodes = parts.map((part, i) => {
       const selected = selection.has(part.id);
       const side = sides.get(part.id) ?? 'bottom';
       const m = measured.get(part.id);
       const prev = cache.current.get(part.id);
-      if (prev && prev.part === part && prev.selected === selected && prev.side === side && prev.readOnly === readOnly && prev.m === m) {
+      if (
+        prev && prev.selected === selected && prev.side === side && prev.readOnly === readOnly && prev.m === m &&
+        (prev.part === part || (prev.part.position === part.position && prev.part.type === part.type && prev.part.rotation === part.rotation))
+      ) {
         next.set(part.id, prev);
+        if (same && last.current[i] !== prev.node) same = false;
         return prev.node;
       }
+      same = false;
       const node: PartNode = {
         id: part.id,
         type: part.type,
@@ -52,6 +66,8 @@ function useDerivedNodes(parts: DiagramPart[], cables: DiagramCable[], selection
       return node;
     });
     cache.current = next;
+    if (same) return last.current;
+    last.current = nodes;
     return nodes;
   }, [parts, sides, selection, readOnly, measured, measureTick]);
 }
@@ -257,40 +273,42 @@ export function Canvas() {
 
   return (
     <div className="bw-canvas h-full w-full" onDragOver={onDragOver} onDrop={onDrop}>
-      <ReactFlow<PartNode, CableFlowEdge>
-        nodes={nodes}
-        edges={edges}
-        nodeTypes={nodeTypes}
-        edgeTypes={edgeTypes}
-        onNodesChange={onNodesChange}
-        onEdgesChange={onEdgesChange}
-        onNodeDragStart={onDragStart}
-        onNodeDragStop={onDragStop}
-        onSelectionDragStart={onDragStart}
-        onSelectionDragStop={onDragStop}
-        onConnect={onConnect}
-        onReconnect={onReconnect}
-        isValidConnection={isValidConnection}
-        connectionMode={ConnectionMode.Loose}
-        nodesDraggable={!readOnly}
-        nodesConnectable={!readOnly}
-        edgesReconnectable={!readOnly}
-        deleteKeyCode={null}
-        multiSelectionKeyCode={['Shift', 'Meta', 'Control']}
-        selectionKeyCode="Shift"
-        snapToGrid
-        snapGrid={[GRID, GRID]}
-        minZoom={0.1}
-        maxZoom={3}
-        proOptions={{ hideAttribution: true }}
-        connectionRadius={24}
-        aria-label="Diagram canvas"
-      >
-        <Background variant={BackgroundVariant.Dots} gap={GRID * 2} size={1} color="var(--color-graphite-300)" />
-        <MiniMap pannable zoomable ariaLabel="Overview of the diagram" nodeStrokeWidth={2} className="bw-minimap" />
-        <Controls showInteractive={false} aria-label="Zoom controls" />
-        <AnnotationLayer />
-      </ReactFlow>
+      <LivePartsContext.Provider value={true}>
+        <ReactFlow<PartNode, CableFlowEdge>
+          nodes={nodes}
+          edges={edges}
+          nodeTypes={nodeTypes}
+          edgeTypes={edgeTypes}
+          onNodesChange={onNodesChange}
+          onEdgesChange={onEdgesChange}
+          onNodeDragStart={onDragStart}
+          onNodeDragStop={onDragStop}
+          onSelectionDragStart={onDragStart}
+          onSelectionDragStop={onDragStop}
+          onConnect={onConnect}
+          onReconnect={onReconnect}
+          isValidConnection={isValidConnection}
+          connectionMode={ConnectionMode.Loose}
+          nodesDraggable={!readOnly}
+          nodesConnectable={!readOnly}
+          edgesReconnectable={!readOnly}
+          deleteKeyCode={null}
+          multiSelectionKeyCode={['Shift', 'Meta', 'Control']}
+          selectionKeyCode="Shift"
+          snapToGrid
+          snapGrid={[GRID, GRID]}
+          minZoom={0.1}
+          maxZoom={3}
+          proOptions={{ hideAttribution: true }}
+          connectionRadius={24}
+          aria-label="Diagram canvas"
+        >
+          <Background variant={BackgroundVariant.Dots} gap={GRID * 2} size={1} color="var(--color-graphite-300)" />
+          <MiniMap pannable zoomable ariaLabel="Overview of the diagram" nodeStrokeWidth={2} className="bw-minimap" />
+          <Controls showInteractive={false} aria-label="Zoom controls" />
+          <AnnotationLayer />
+        </ReactFlow>
+      </LivePartsContext.Provider>
     </div>
   );
 }

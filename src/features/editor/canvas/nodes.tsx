@@ -2,8 +2,13 @@
  * One memoised React Flow node component per part type, defined at module scope. Each draws its
  * symbol, its label and its terminals (handles marked + / − by shape and text), and subscribes only
  * to its own slice of the live results.
+ *
+ * In the editor a node reads its part from the store (LivePartsContext): a props or label edit then
+ * re-renders that one node without handing React Flow a new node object, which would make it
+ * re-adopt every node and re-run every node's and cable's store selector. Views of stored revisions
+ * read the part from the node's data.
  */
-import { memo, type ReactNode } from 'react';
+import { createContext, memo, useContext, type ReactNode } from 'react';
 import { Handle, useConnection, type Node, type NodeProps } from '@xyflow/react';
 import { useShallow } from 'zustand/react/shallow';
 import type { DiagramPart } from '@shared/diagram';
@@ -21,6 +26,27 @@ export interface PartNodeData extends Record<string, unknown> {
   readOnly: boolean;
 }
 export type PartNode = Node<PartNodeData>;
+
+/** True under the editor's canvas: node components read their part from the editor store by id. */
+export const LivePartsContext = createContext(false);
+
+const partIndexes = new WeakMap<readonly DiagramPart[], Map<string, DiagramPart>>();
+/** Parts by id, built once per parts array (immer gives a new array on every change). */
+function partIndex(parts: readonly DiagramPart[]): Map<string, DiagramPart> {
+  let index = partIndexes.get(parts);
+  if (!index) {
+    index = new Map(parts.map((p) => [p.id, p]));
+    partIndexes.set(parts, index);
+  }
+  return index;
+}
+
+/** The node's part: the store's current one in the editor, else the node's data. */
+function usePart(id: string, data: PartNodeData): DiagramPart {
+  const live = useContext(LivePartsContext);
+  const current = useEditorStore((s) => (live ? partIndex(s.doc.parts).get(id) : undefined));
+  return current ?? data.part;
+}
 
 /** Polarity of a terminal of a part, for connection hints. */
 export function terminalPolarity(part: DiagramPart | undefined, terminal: string): '+' | '−' | null {
@@ -73,8 +99,8 @@ function FindingsBadge({ id }: { id: string }) {
 }
 
 /** Frame shared by every part: rotated symbol, label, handles, findings badge, and a results strip below. */
-function PartShell({ id, data, selected, caption, inside, children }: { id: string; data: PartNodeData; selected: boolean; caption?: ReactNode; inside?: ReactNode; children?: ReactNode }) {
-  const { part, tapSide, readOnly } = data;
+function PartShell({ id, part, data, selected, caption, inside, children }: { id: string; part: DiagramPart; data: PartNodeData; selected: boolean; caption?: ReactNode; inside?: ReactNode; children?: ReactNode }) {
+  const { tapSide, readOnly } = data;
   const base = baseBox(part);
   const box = partBox(part);
   const label = part.label || PART_TYPES[part.type].name;
@@ -246,44 +272,55 @@ function caption(part: DiagramPart): string | undefined {
 }
 
 const BatteryNode = memo(function BatteryNode({ id, data, selected }: P) {
-  return <PartShell id={id} data={data} selected={selected} caption={caption(data.part)} inside={<BatteryResult id={id} />} />;
+  const part = usePart(id, data);
+  return <PartShell id={id} part={part} data={data} selected={selected} caption={caption(part)} inside={<BatteryResult id={id} />} />;
 });
 const SeriesStringNode = memo(function SeriesStringNode({ id, data, selected }: P) {
-  return <PartShell id={id} data={data} selected={selected} caption={caption(data.part)} inside={<BatteryResult id={id} />} />;
+  const part = usePart(id, data);
+  return <PartShell id={id} part={part} data={data} selected={selected} caption={caption(part)} inside={<BatteryResult id={id} />} />;
 });
 const LugNode = memo(function LugNode({ id, data, selected }: P) {
-  return <PartShell id={id} data={data} selected={selected} />;
+  const part = usePart(id, data);
+  return <PartShell id={id} part={part} data={data} selected={selected} />;
 });
 const BusbarNode = memo(function BusbarNode({ id, data, selected }: P) {
-  return <PartShell id={id} data={data} selected={selected} caption={caption(data.part)} />;
+  const part = usePart(id, data);
+  return <PartShell id={id} part={part} data={data} selected={selected} caption={caption(part)} />;
 });
 const FuseNode = memo(function FuseNode({ id, data, selected }: P) {
+  const part = usePart(id, data);
   return (
-    <PartShell id={id} data={data} selected={selected} caption={caption(data.part)}>
+    <PartShell id={id} part={part} data={data} selected={selected} caption={caption(part)}>
       <FuseResult id={id} />
     </PartShell>
   );
 });
 const SwitchNode = memo(function SwitchNode({ id, data, selected }: P) {
-  return <PartShell id={id} data={data} selected={selected} caption={caption(data.part)} />;
+  const part = usePart(id, data);
+  return <PartShell id={id} part={part} data={data} selected={selected} caption={caption(part)} />;
 });
 const ShuntNode = memo(function ShuntNode({ id, data, selected }: P) {
-  return <PartShell id={id} data={data} selected={selected} caption={caption(data.part)} />;
+  const part = usePart(id, data);
+  return <PartShell id={id} part={part} data={data} selected={selected} caption={caption(part)} />;
 });
 const InverterNode = memo(function InverterNode({ id, data, selected }: P) {
-  return <PartShell id={id} data={data} selected={selected} caption={caption(data.part)} inside={<LoadResult id={id} />} />;
+  const part = usePart(id, data);
+  return <PartShell id={id} part={part} data={data} selected={selected} caption={caption(part)} inside={<LoadResult id={id} />} />;
 });
 const DcLoadNode = memo(function DcLoadNode({ id, data, selected }: P) {
-  return <PartShell id={id} data={data} selected={selected} caption={caption(data.part)} inside={<LoadResult id={id} />} />;
+  const part = usePart(id, data);
+  return <PartShell id={id} part={part} data={data} selected={selected} caption={caption(part)} inside={<LoadResult id={id} />} />;
 });
 const ChargerNode = memo(function ChargerNode({ id, data, selected }: P) {
-  return <PartShell id={id} data={data} selected={selected} caption={caption(data.part)} />;
+  const part = usePart(id, data);
+  return <PartShell id={id} part={part} data={data} selected={selected} caption={caption(part)} />;
 });
 const NoteNode = memo(function NoteNode({ id, data, selected }: P) {
-  const text = data.part.type === 'note' ? data.part.props.text : '';
+  const part = usePart(id, data);
+  const text = part.type === 'note' ? part.props.text : '';
   return (
-    <PartShell id={id} data={data} selected={selected}>
-      <div className="bw-note-text">{text || data.part.label || 'Note'}</div>
+    <PartShell id={id} part={part} data={data} selected={selected}>
+      <div className="bw-note-text">{text || part.label || 'Note'}</div>
     </PartShell>
   );
 });
