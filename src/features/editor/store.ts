@@ -7,6 +7,7 @@
  * edits that share a `coalesce` key merged into one step (a drag is one step; typing in a field within a
  * short pause is one step).
  */
+import { useRef } from 'react';
 import { create } from 'zustand';
 import { enablePatches, produce, produceWithPatches, applyPatches, type Patch } from 'immer';
 import { cableRunDefaults, defaultPartProps, PART_TYPES, type CableRunProps, type PartType } from '@shared/electrical/parts';
@@ -485,6 +486,33 @@ export const useCanvasView = create<CanvasView>()(() => ({ results: useEditorSto
 useEditorStore.subscribe((s, prev) => {
   if (s.results !== prev.results || s.unitSystem !== prev.unitSystem) useCanvasView.setState({ results: s.results, unitSystem: s.unitSystem });
 });
+
+/**
+ * A canvas figure: a flat object (numbers, strings, booleans, null) selected from the live results,
+ * kept as the same object while its fields are equal so the component re-renders only when what it
+ * shows changes. Like zustand's useShallow, with a plain field loop: hundreds of figures run their
+ * selectors on every result, and the generic comparison (entries and iterators) was a measurable
+ * part of applying a result.
+ */
+export function useCanvasFigure<T extends Record<string, string | number | boolean | null>>(select: (s: CanvasView) => T | null): T | null {
+  const last = useRef<T | null>(null);
+  return useCanvasView((s) => {
+    const next = select(s);
+    const prev = last.current;
+    if (prev !== null && next !== null) {
+      let same = true;
+      for (const k in next) {
+        if (prev[k] !== next[k]) {
+          same = false;
+          break;
+        }
+      }
+      if (same) return prev;
+    }
+    last.current = next;
+    return next;
+  });
+}
 
 /** Undo/redo availability (for toolbar buttons). */
 export const selectCanUndo = (s: EditorState) => !s.readOnly && s.past.length > 0;

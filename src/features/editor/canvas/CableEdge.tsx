@@ -12,10 +12,9 @@
 import { memo, useState, type ReactNode } from 'react';
 import { createPortal } from 'react-dom';
 import { BaseEdge, getSmoothStepPath, useStore, type Edge, type EdgeProps, type ReactFlowState } from '@xyflow/react';
-import { useShallow } from 'zustand/react/shallow';
 import type { DiagramCable } from '@shared/diagram';
 import { ErrorIcon, NoteIcon, WarningIcon } from '@/components/icons';
-import { useCanvasView, useEditorStore } from '../store';
+import { useCanvasFigure, useCanvasView, useEditorStore } from '../store';
 import { fmtAmps, fmtPct, lengthText, shortConductor } from '../units';
 
 export interface CableEdgeData extends Record<string, unknown> {
@@ -101,24 +100,22 @@ function CableEdgeView({ id, data, selected, sourceX, sourceY, targetX, targetY,
 
 /** The run's stroke: width after its loading (in quarter-pixel steps), over-ampacity and fault styling, direction arrow. */
 const CableStroke = memo(function CableStroke({ id, path, selected, jumper }: { id: string; path: string; selected: boolean; jumper: boolean }) {
-  const s = useCanvasView(
-    useShallow((st) => {
-      const canvas = st.results?.canvas;
-      const c = canvas?.cables[id];
-      if (!c || !canvas) return null;
-      const fault = canvas.mode === 'fault';
-      const directed = canvas.mode === 'equalize' || (canvas.modeSummary.mode === 'fault' && !!canvas.modeSummary.selected);
-      const mark = canvas.marks[id];
-      return {
-        fault,
-        width: fault ? 1.8 : Math.round(Math.min(6, 1.6 + (c.loading ?? 0) * 2.5) * 4) / 4,
-        over: c.loading !== null && Math.round(c.loading * 1000) / 1000 > 1,
-        faulted: mark === 'faulted' || mark === 'worst-fault',
-        // Direction of the current along the drawn run: 1 from → to, −1 to → from, 0 unshown.
-        dir: directed && Math.round(Math.abs(c.current_A) * 10) / 10 >= 0.05 ? Math.sign(c.current_A) : 0,
-      };
-    }),
-  );
+  const s = useCanvasFigure((st) => {
+    const canvas = st.results?.canvas;
+    const c = canvas?.cables[id];
+    if (!c || !canvas) return null;
+    const fault = canvas.mode === 'fault';
+    const directed = canvas.mode === 'equalize' || (canvas.modeSummary.mode === 'fault' && !!canvas.modeSummary.selected);
+    const mark = canvas.marks[id];
+    return {
+      fault,
+      width: fault ? 1.8 : Math.round(Math.min(6, 1.6 + (c.loading ?? 0) * 2.5) * 4) / 4,
+      over: c.loading !== null && Math.round(c.loading * 1000) / 1000 > 1,
+      faulted: mark === 'faulted' || mark === 'worst-fault',
+      // Direction of the current along the drawn run: 1 from → to, −1 to → from, 0 unshown.
+      dir: directed && Math.round(Math.abs(c.current_A) * 10) / 10 >= 0.05 ? Math.sign(c.current_A) : 0,
+    };
+  });
   const width = s?.width ?? 1.8;
   const arrow = s?.dir ? `bw-arrow-${id}` : null;
   return (
@@ -147,20 +144,18 @@ const CableLabel = memo(function CableLabel({ id, cable, selected, x, y }: { id:
   const unitSystem = useCanvasView((s) => s.unitSystem);
   const detail = useStore(detailOf);
   const [hover, setHover] = useState(false);
-  const r = useCanvasView(
-    useShallow((s) => {
-      const canvas = s.results?.canvas;
-      const c = canvas?.cables[id];
-      if (!c || !canvas) return null;
-      return {
-        mode: canvas.mode,
-        i: Math.round(Math.abs(c.current_A) * 10) / 10,
-        loading: c.loading === null ? null : Math.round(c.loading * 1000) / 1000,
-        mark: canvas.marks[id] ?? null,
-      };
-    }),
-  );
-  const badge = useCanvasView(useShallow((s) => s.results?.canvas.badges[id] ?? null));
+  const r = useCanvasFigure((s) => {
+    const canvas = s.results?.canvas;
+    const c = canvas?.cables[id];
+    if (!c || !canvas) return null;
+    return {
+      mode: canvas.mode,
+      i: Math.round(Math.abs(c.current_A) * 10) / 10,
+      loading: c.loading === null ? null : Math.round(c.loading * 1000) / 1000,
+      mark: canvas.marks[id] ?? null,
+    };
+  });
+  const badge = useCanvasFigure((s) => s.results?.canvas.badges[id] ?? null);
   const over = r?.loading != null && r.loading > 1;
   const jumper = cable.props.role === 'jumper';
   const faulted = r?.mark === 'faulted' || r?.mark === 'worst-fault';

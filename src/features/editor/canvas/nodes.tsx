@@ -10,11 +10,10 @@
  */
 import { createContext, memo, useContext, type ReactNode } from 'react';
 import { Handle, useConnection, type Node, type NodeProps } from '@xyflow/react';
-import { useShallow } from 'zustand/react/shallow';
 import type { DiagramPart } from '@shared/diagram';
 import { PART_TYPES, type PartType } from '@shared/electrical/parts';
 import { ErrorIcon, NoteIcon, WarningIcon } from '@/components/icons';
-import { useCanvasView, useEditorStore } from '../store';
+import { useCanvasFigure, useCanvasView, useEditorStore } from '../store';
 import type { CanvasMark } from '../results/types';
 import { baseBox, partBox, POSITION, rotatePlacement, terminalPlacements, type TerminalPlacement } from './geometry';
 import { PartSymbol } from './symbols';
@@ -85,7 +84,7 @@ function TerminalHandle({ nodeId, placement, readOnly, label }: { nodeId: string
 }
 
 function FindingsBadge({ id }: { id: string }) {
-  const badge = useCanvasView(useShallow((s) => s.results?.canvas.badges[id] ?? null));
+  const badge = useCanvasFigure((s) => s.results?.canvas.badges[id] ?? null);
   if (!badge) return null;
   const Icon = badge.severity === 'error' ? ErrorIcon : badge.severity === 'warning' ? WarningIcon : NoteIcon;
   const word = badge.severity === 'error' ? 'error' : badge.severity === 'warning' ? 'warning' : 'note';
@@ -157,13 +156,11 @@ function MarkTag({ id }: { id: string }) {
 }
 
 function BatteryResult({ id }: { id: string }) {
-  const r = useCanvasView(
-    useShallow((s) => {
-      const c = s.results?.canvas;
-      const b = c?.batteries[id];
-      return b && c ? { mode: c.mode, i: Math.round(b.current_A * 10) / 10, share: Math.round(b.share * 1000) / 1000, selectedFault: c.modeSummary.mode === 'fault' && !!c.modeSummary.selected } : null;
-    }),
-  );
+  const r = useCanvasFigure((s) => {
+    const c = s.results?.canvas;
+    const b = c?.batteries[id];
+    return b && c ? { mode: c.mode, i: Math.round(b.current_A * 10) / 10, share: Math.round(b.share * 1000) / 1000, selectedFault: c.modeSummary.mode === 'fault' && !!c.modeSummary.selected } : null;
+  });
   if (!r) return null;
   const pct = Math.max(0, Math.min(1, r.share));
   const bar = (
@@ -198,17 +195,15 @@ function BatteryResult({ id }: { id: string }) {
 }
 
 function FuseResult({ id }: { id: string }) {
-  const r = useCanvasView(
-    useShallow((s) => {
-      const c = s.results?.canvas;
-      const f = c?.fuses[id];
-      if (!f || !c) return null;
-      return {
-        mode: c.mode, i: Math.round(f.current_A * 10) / 10, loading: Math.round(f.loading * 1000) / 1000,
-        aic: f.interrupting_A ?? null, aicLoading: f.interruptingLoading === undefined ? null : Math.round(f.interruptingLoading * 1000) / 1000,
-      };
-    }),
-  );
+  const r = useCanvasFigure((s) => {
+    const c = s.results?.canvas;
+    const f = c?.fuses[id];
+    if (!f || !c) return null;
+    return {
+      mode: c.mode, i: Math.round(f.current_A * 10) / 10, loading: Math.round(f.loading * 1000) / 1000,
+      aic: f.interrupting_A ?? null, aicLoading: f.interruptingLoading === undefined ? null : Math.round(f.interruptingLoading * 1000) / 1000,
+    };
+  });
   if (!r) return null;
   if (r.aic !== null && r.aicLoading !== null) {
     const over = r.aicLoading > 1;
@@ -237,12 +232,10 @@ function FuseResult({ id }: { id: string }) {
 }
 
 function LoadResult({ id }: { id: string }) {
-  const r = useCanvasView(
-    useShallow((s) => {
-      const l = s.results?.canvas.loads[id];
-      return l ? { v: Math.round(l.voltage_V * 100) / 100, drop: Math.round(l.drop_pct * 100) / 100 } : null;
-    }),
-  );
+  const r = useCanvasFigure((s) => {
+    const l = s.results?.canvas.loads[id];
+    return l ? { v: Math.round(l.voltage_V * 100) / 100, drop: Math.round(l.drop_pct * 100) / 100 } : null;
+  });
   if (!r) return null;
   return (
     <div className="bw-result-inside">
