@@ -7,14 +7,13 @@
 import { and, desc, eq, sql } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import type { DiagramDocument } from '../../shared/diagram/schema';
-import type { RevisionState } from '../../shared/schemas/diagrams';
 import type { Db, DbOrTx } from '../db/client';
-import { activity, diagramRevisions, diagrams, reviewDecisions, reviewRequests, users } from '../db/schema';
+import { diagramRevisions, diagrams, reviewDecisions, reviewRequests, users } from '../db/schema';
 import { conflict, notFound } from '../http/errors';
 import { newId } from '../ids';
 import { contentHash } from './content-hash';
 import { createDiagram, getDiagram } from './diagrams';
-import { computeResultsSummary } from './summaries';
+import { prepareRevision, type PreparedRevision } from './summaries';
 import type { AnalysisPool } from './analysis-pool';
 import type { RevisionResultsSummary } from './results-summary';
 
@@ -165,40 +164,40 @@ const RESTORE_ATTEMPTS = 3;
 
 /**
  * Save a new revision on top of `baseRevision` (null: the diagram has none yet). `baseRevision: 'latest'`
- * (restore) always goes on top of whatever is latest.
+ * (restore) always goes on top of whatever is latest. The content was prepared in a worker
+ * (./summaries.ts prepareRevision: validated, analysed, hashed, serialised), so no lock is held while it
+ * solves and the request thread does no work on the document.
  *
- * One statement (docs/decisions/011-load-and-save-path.md): it reads the diagram and its latest number,
- * inserts the revision as latest + 1 only when that latest is the base, and writes the activity row from
- * the inserted row, all or nothing. No transaction is held open across round trips, so on PGlite (one
- * query at a time) reads wait behind one statement, not a six-statement transaction. Two saves from the
- * same base on PostgreSQL both see the same latest; the unique index on (diagram_id, number) makes the
- * second wait for the first and fail, and that failure is the 409. The answer is built from what was
- * inserted, not read back.
+ * One statement (docs/decisions/011-save-path-and-load-models.md): it reads the diagram and its latest
+ * number, inserts the revision as latest + 1 only when that latest is the base, and writes the activity
+ * row from the inserted row, all or nothing. No transaction is held open across round trips, so on
+ * PGlite (one query at a time) reads wait behind one statement, not a six-statement transaction. Two
+ * saves from the same base on PostgreSQL both see the same latest; the unique index on
+ * (diagram_id, number) makes the second wait for the first and fail, and that failure is the 409. The
+ * answer is built from what was inserted, not read back.
  */
 export async function saveRevision(
   db: Db,
   userId: string,
   diagramId: string,
-  input: { baseRevision: number | null | 'latest'; message: string; content: DiagramDocument; restoredFrom?: number },
-  pool?: AnalysisPool,
-) {
-  // The analysis runs before the statement (in a worker): no lock is held while it solves.
-  const resultsSummary = await computeResultsSummary(input.content, pool);
-  const hash = contentHash(input.content);
+  input: { baseRevision: number | null | 'latest'; message: string; prepared: PreparedRevision; restoredFrom?: number },
+): Promise<SavedRevision> {
+  const { contentJson, contentHash: hash, resultsSummary } = input.prepared;
   const restoredFrom = input.restoredFrom ?? null;
   const action = restoredFrom !== null ? 'revision.restored' : 'revision.saved';
   const onBase =
     input.baseRevision === 'latest' ? sql`true` : sql`base.latest is not distinct from ${input.baseRevision}::integer`;
   const extraDetail = restoredFrom !== null ? sql` || jsonb_build_object('restoredFrom', ${restoredFrom}::integer)` : sql``;
-  const insert = () =>
-    db.execute<{ number: number; created_at: string; author_name: string | null }>(sql`
+  type Inserted = { number: number; created_at: string; author_name: string | null };
+  const insert = async () =>
+    (await db.execute(sql`
       with base as (
         select d.id, d.project_id, d.name,
                (select max(r.number) from diagram_revisions r where r.diagram_id = d.id) as latest
         from diagrams d where d.id = ${diagramId}
       ), saved as (
         insert into diagram_revisions (id, diagram_id, number, author_id, message, content, content_hash, results_summary, restored_from)
-        select ${newId()}, base.id, coalesce(base.latest, 0) + 1, ${userId}, ${input.message}, ${JSON.stringify(input.content)}::jsonb,
+        select ${newId()}, base.id, coalesce(base.latest, 0) + 1, ${userId}, ${input.message}, ${contentJson}::jsonb,
                ${hash}, ${JSON.stringify(resultsSummary)}::jsonb, ${restoredFrom}::integer
         from base where ${onBase}
         returning number, created_at
@@ -208,9 +207,9 @@ export async function saveRevision(
                jsonb_build_object('diagramId', base.id, 'name', base.name, 'number', saved.number, 'message', ${input.message}::text)${extraDetail}
         from base, saved
       )
-      select saved.number, saved.created_at, (select u.name from users u where u.id = ${userId}) as author_name from saved`);
+      select saved.number, saved.created_at, (select u.name from users u where u.id = ${userId}) as author_name from saved`)) as unknown as { rows: Inserted[] };
 
-  let row: { number: number; created_at: string; author_name: string | null } | undefined;
+  let row: Inserted | undefined;
   for (let attempt = 1; ; attempt++) {
     try {
       [row] = (await insert()).rows;
@@ -225,7 +224,7 @@ export async function saveRevision(
   const meta: RevisionMeta = {
     diagramId,
     number: Number(row.number),
-    createdAt: diagramRevisions.createdAt.mapFromDriverValue(row.created_at),
+    createdAt: diagramRevisions.createdAt.mapFromDriverValue(row.created_at) as Date, // both drivers hand timestamptz over as text here
     message: input.message,
     contentHash: hash,
     state: 'draft',
@@ -235,7 +234,24 @@ export async function saveRevision(
     approvedBy: null,
     results: { status: resultsSummary.status, findingCounts: resultsSummary.findingCounts },
   };
-  return { ...meta, content: input.content, resultsSummary, review: { reviewers: [], decisions: [] } };
+  return { meta, contentJson, resultsSummary };
+}
+
+/** A saved revision: its details, its content as JSON text and its results summary. */
+export interface SavedRevision {
+  meta: RevisionMeta;
+  contentJson: string;
+  resultsSummary: RevisionResultsSummary;
+}
+
+/**
+ * `{"revision": …}` of a just-saved revision, shaped as GET …/revisions/:n answers it (a new revision has
+ * no review yet). The content's JSON text from the worker goes in as is: a 2,000-part document is not
+ * serialised again on the request thread.
+ */
+export function savedRevisionJson(saved: SavedRevision): string {
+  const head = JSON.stringify(saved.meta);
+  return `{"revision":${head.slice(0, -1)},"content":${saved.contentJson},"resultsSummary":${JSON.stringify(saved.resultsSummary)},"review":{"reviewers":[],"decisions":[]}}}`;
 }
 
 export async function restoreRevision(db: Db, userId: string, diagramId: string, number: number, message: string | undefined, pool?: AnalysisPool) {
@@ -244,12 +260,15 @@ export async function restoreRevision(db: Db, userId: string, diagramId: string,
     .from(diagramRevisions)
     .where(and(eq(diagramRevisions.diagramId, diagramId), eq(diagramRevisions.number, number)));
   if (!source) throw notFound('No such revision.');
+  // A stored revision is taken as stored (not validated again): it was valid when it was saved.
+  const prepared = await prepareRevision(source.content, { validate: false }, pool);
+  if (!prepared.ok) throw new Error('a stored revision failed to prepare');
   return saveRevision(db, userId, diagramId, {
     baseRevision: 'latest',
     message: message || `Restored revision ${number}`,
-    content: source.content as DiagramDocument,
+    prepared: prepared.revision,
     restoredFrom: number,
-  }, pool);
+  });
 }
 
 /** A new diagram in the same project from a revision's content (default the latest; the working copy when there is none). */

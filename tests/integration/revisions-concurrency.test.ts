@@ -50,7 +50,7 @@ const activityRows = async (id: string, action: string) =>
 
 /** Backends of this database waiting for a lock (PostgreSQL only). */
 async function waitingBackends(): Promise<number> {
-  const r = await t.db.execute<{ n: number }>(sql`select count(*)::int as n from pg_stat_activity where datname = current_database() and wait_event_type = 'Lock'`);
+  const r = (await t.db.execute(sql`select count(*)::int as n from pg_stat_activity where datname = current_database() and wait_event_type = 'Lock'`)) as unknown as { rows: { n: number }[] };
   return Number(r.rows[0].n);
 }
 

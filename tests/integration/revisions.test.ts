@@ -152,6 +152,33 @@ describe('saving revisions', () => {
     expect(await revisionCount(id)).toBe(0);
   });
 
+  it('names only the fields at fault, whether in the document (checked in a worker) or around it', async () => {
+    const id = await newDiagram();
+    const doc = smallBank();
+    const badDoc = await designer.post(`/api/diagrams/${id}/revisions`).send({ baseRevision: null, message: 'ok', content: { ...doc, cables: [{ ...doc.cables[0], from: 42 }] } });
+    expect(badDoc.status).toBe(400);
+    expect(badDoc.body.error.code).toBe('validation_failed');
+    expect(Object.keys(badDoc.body.error.details.fields)).toEqual(['content.cables.0.from']);
+    const badBase = await designer.post(`/api/diagrams/${id}/revisions`).send({ baseRevision: 0, message: 'ok', content: doc });
+    expect(badBase.status).toBe(400);
+    expect(Object.keys(badBase.body.error.details.fields)).toEqual(['baseRevision']);
+    const notObject = await designer.post(`/api/diagrams/${id}/revisions`).send([doc]);
+    expect(notObject.status).toBe(400);
+    expect(Object.keys(notObject.body.error.details.fields)).toEqual(['']);
+    const notDoc = await designer.post(`/api/diagrams/${id}/revisions`).send({ baseRevision: null, content: 'a diagram' });
+    expect(Object.keys(notDoc.body.error.details.fields)).toEqual(['content']);
+    expect(await revisionCount(id)).toBe(0);
+  });
+
+  it('answers a save with the revision as it is stored and read back', async () => {
+    const id = await newDiagram();
+    const saved = (await save(designer, id, null, smallBank('Answered'), 'Answered')).body.revision;
+    const read = (await designer.get(`/api/diagrams/${id}/revisions/1`)).body.revision;
+    expect(saved).toEqual(read);
+    const restored = (await designer.post(`/api/diagrams/${id}/revisions/1/restore`).send({})).body.revision;
+    expect(restored).toEqual((await designer.get(`/api/diagrams/${id}/revisions/2`)).body.revision);
+  });
+
   it('is refused to a reviewer, a trainer and a viewer (403)', async () => {
     const id = await newDiagram();
     for (const role of ['reviewer', 'trainer', 'viewer'] as const) {

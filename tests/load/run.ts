@@ -1,10 +1,14 @@
 /**
- * npm run test:load -- [--pg] [--connections N] [--seconds S] [--json FILE]
+ * npm run test:load -- [--pg] [--connections N] [--seconds S] [--users N] [--users-seconds S] [--only …] [--json FILE]
  *
- * Load test with autocannon against the real server on 127.0.0.1 (embedded PGlite in a temporary
- * DATA_DIR, or with --pg a PostgreSQL server: DATABASE_URL as an admin URL if set, else a throwaway one).
- * N connections (default 50), each its own signed-in session of the demo designer and its own diagram.
- * Phases, each bounded by --seconds (default 15):
+ * Load test against the real server on 127.0.0.1 (embedded PGlite in a temporary DATA_DIR, or with --pg
+ * a PostgreSQL server: DATABASE_URL as an admin URL if set, else a throwaway one). Two models of load
+ * (docs/decisions/011-save-path-and-load-models.md):
+ *
+ * Saturation phases, with autocannon: N connections (default 50), each its own signed-in session of the
+ * demo designer and its own diagram, each sending its next request the moment the last is answered (no
+ * think time), so the server runs flat out and latency ≈ connections / throughput (Little's law).
+ * Each bounded by --seconds (default 15):
  *   reads   GET projects, a project's diagrams, a diagram, its revisions, one revision
  *   saves   POST /api/diagrams/:id/revisions (each save is checked by the server: the analysis runs in
  *           a worker and its summary is stored with the revision)
@@ -12,7 +16,13 @@
  *   mixed   five reads, one save and one check of unsaved content
  *   health  GET /api/health from 5 connections while a 5,000-element diagram is checked
  *           (POST /api/diagrams/:id/check) in a loop
- * Reports requests/s, latency p50/p99, non-2xx and errors per phase as JSON. Loopback only.
+ *
+ * User model (phase users), with fetch: --users people (default 50), each their own signed-in session and
+ * diagram, going through project list, diagrams, a diagram, its history, checks, saves and old revisions
+ * with 0.5–2 s of think time between actions, for --users-seconds (default 30). tests/load/user-model.ts.
+ *
+ * Reports requests/s, latency p50/p90/p99, non-2xx and errors per phase as JSON, with the load average
+ * at the start of each phase. Loopback only.
  * Goals (issue 7): p99 < 200 ms at 50 users with no errors; health p99 < 50 ms during the big check.
  */
 import fs from 'node:fs';
@@ -23,6 +33,7 @@ import autocannon from 'autocannon';
 import { busbarBankTemplate, seriesParallelTemplate } from '../../shared/diagram/templates';
 import { compileDiagram } from '../../shared/electrical/compile';
 import { Client, createDatabase, freePort, NO_ROUTE, startPostgres, startServer, stopServer, type Postgres } from '../faults/server-process';
+import { runUserModel, seededRandom } from './user-model';
 
 const { values: args } = parseArgs({
   options: {
@@ -30,7 +41,10 @@ const { values: args } = parseArgs({
     connections: { type: 'string', default: '50' },
     seconds: { type: 'string', default: '15' },
     json: { type: 'string' },
-    /** Run only these phases (comma-separated: reads,saves,checks,mixed,health). */
+    /** People in the user model (phase users). */
+    users: { type: 'string', default: '50' },
+    'users-seconds': { type: 'string', default: '30' },
+    /** Run only these phases (comma-separated: reads,saves,checks,mixed,users,health). */
     only: { type: 'string' },
   },
 });
@@ -38,6 +52,10 @@ const ONLY = args.only ? new Set(args.only.split(',')) : null;
 const wanted = (name: string) => !ONLY || ONLY.has(name);
 const CONNECTIONS = Number(args.connections);
 const SECONDS = Number(args.seconds);
+const USERS = Number(args.users);
+const USERS_SECONDS = Number(args['users-seconds']);
+/** Signed-in sessions, each with its own diagram: one per connection and one per person of the user model. */
+const SESSIONS = Math.max(CONNECTIONS, wanted('users') ? USERS : 0);
 const DESIGNER = { email: 'designer@demo.test', password: process.env.DEMO_PASSWORD || 'bankwright-demo' };
 
 const work = fs.mkdtempSync(path.join(os.tmpdir(), 'bw-load-'));
@@ -52,7 +70,8 @@ if (args.pg) {
 }
 const server = await startServer({ port, dataDir: path.join(work, 'data'), databaseUrl: database?.url, logFile });
 const log = (line: string) => process.stderr.write(`[load] ${line}\n`);
-log(`server pid ${server.pid} on ${origin} (${args.pg ? 'PostgreSQL' : 'PGlite'}); ${CONNECTIONS} connections, ${SECONDS} s per phase`);
+log(`server pid ${server.pid} on ${origin} (${args.pg ? 'PostgreSQL' : 'PGlite'}); ${CONNECTIONS} connections, ${SECONDS} s per phase; ${USERS} people for ${USERS_SECONDS} s in the user model`);
+const loadAverage = () => os.loadavg().map((x) => Math.round(x * 10) / 10);
 
 async function done(summary: Record<string, unknown>, code: number): Promise<never> {
   await stopServer(server);
@@ -66,7 +85,7 @@ async function done(summary: Record<string, unknown>, code: number): Promise<nev
 
 // Sessions: the right password each time (the limiter counts failures only).
 const sessions: Client[] = [];
-for (let i = 0; i < CONNECTIONS; i++) {
+for (let i = 0; i < SESSIONS; i++) {
   const c = new Client(server.base, origin);
   await c.signIn(DESIGNER.email, DESIGNER.password);
   sessions.push(c);
@@ -77,7 +96,7 @@ const projectId = (await setup.request('POST', '/api/projects', { teamId, name: 
 const smallDoc = busbarBankTemplate({ count: 2, name: 'Load save' });
 const blocked: string[] = [];
 const conn: { cookie: string; diagramId: string; base: number | null }[] = [];
-for (let i = 0; i < CONNECTIONS; i++) {
+for (let i = 0; i < SESSIONS; i++) {
   const d = await setup.request('POST', `/api/projects/${projectId}/diagrams`, { name: `Load ${i}`, content: smallDoc });
   if (NO_ROUTE(d)) await done({ ok: false, blocked: 'diagram create route missing' }, 2);
   const first = await setup.request('POST', `/api/diagrams/${d.body.diagram.id}/revisions`, { baseRevision: null, message: 'first', content: smallDoc });
@@ -86,6 +105,9 @@ for (let i = 0; i < CONNECTIONS; i++) {
 }
 
 type Req = autocannon.Request;
+function goal(r: { latencyMs: { p99: number }; non2xx: number; errors: number; timeouts: number }, p99: number) {
+  return r.latencyMs.p99 < p99 && r.non2xx === 0 && r.errors === 0 && r.timeouts === 0;
+}
 const readRequests = (c: (typeof conn)[number]): Req[] => [
   { method: 'GET', path: `/api/projects?teamId=${teamId}` },
   { method: 'GET', path: `/api/projects/${projectId}/diagrams` },
@@ -124,9 +146,10 @@ function serverCpuMs(): number {
   }
 }
 
-function summarize(name: string, r: autocannon.Result, cpuMs = NaN) {
+function summarize(name: string, r: autocannon.Result, cpuMs = NaN, load: number[] = []) {
   return {
     phase: name,
+    loadAverageAtStart: load,
     connections: r.connections,
     seconds: r.duration,
     requests: r.requests.total,
@@ -143,6 +166,7 @@ function summarize(name: string, r: autocannon.Result, cpuMs = NaN) {
 function phase(name: string, requestsFor: (i: number) => Req[], connections = CONNECTIONS, seconds = SECONDS): Promise<ReturnType<typeof summarize>> {
   let next = 0;
   const cpu0 = serverCpuMs();
+  const load = loadAverage();
   return new Promise((resolve, reject) => {
     const inst = autocannon(
       {
@@ -158,7 +182,7 @@ function phase(name: string, requestsFor: (i: number) => Req[], connections = CO
           client.setRequests(requestsFor(i));
         },
       },
-      (err, result) => (err ? reject(err) : resolve(summarize(name, result, serverCpuMs() - cpu0))),
+      (err, result) => (err ? reject(err) : resolve(summarize(name, result, serverCpuMs() - cpu0, load))),
     );
     void inst;
   });
@@ -183,7 +207,39 @@ await run('reads', (i) => readRequests(conn[i]));
 await run('saves', (i) => [saveRequest(conn[i])]);
 await run('checks', (i) => [checkRequest(conn[i])]);
 await run('mixed', (i) => [...readRequests(conn[i]), saveRequest(conn[i]), checkRequest(conn[i], smallDoc)]);
-if (!wanted('health')) await done({ database: args.pg ? 'postgresql' : 'pglite', loadAverage: os.loadavg().map((x) => Math.round(x * 10) / 10), phases: results, logFile }, 0);
+
+let userModel: (Awaited<ReturnType<typeof runUserModel>> & { loadAverageAtStart: number[]; serverCpuMsPerRequest: number }) | undefined;
+if (wanted('users')) {
+  log(`phase users: ${USERS} people, ${USERS_SECONDS} s`);
+  const load = loadAverage();
+  const cpu0 = serverCpuMs();
+  const r = await runUserModel({
+    base: server.base,
+    origin,
+    teamId,
+    projectId,
+    people: conn.slice(0, USERS).map((c) => ({ cookie: c.cookie, diagramId: c.diagramId, base: c.base })),
+    seconds: USERS_SECONDS,
+    doc: smallDoc,
+    random: seededRandom(7),
+  });
+  const cpuMs = serverCpuMs() - cpu0;
+  userModel = { loadAverageAtStart: load, ...r, serverCpuMsPerRequest: Math.round((cpuMs / Math.max(1, r.latencyMs.requests)) * 100) / 100 };
+  await resyncBases();
+}
+const userGoal = userModel ? { users: userModel.latencyMs.p99 < 200 && userModel.non2xx === 0 && userModel.errors === 0 } : {};
+if (!wanted('health'))
+  await done(
+    {
+      database: args.pg ? 'postgresql' : 'pglite',
+      loadAverage: loadAverage(),
+      phases: results,
+      userModel,
+      goals: { p99Under200msNoErrors: { ...Object.fromEntries(results.map((r) => [r.phase, goal(r, 200)])), ...userGoal } },
+      logFile,
+    },
+    0,
+  );
 
 // Health while a 5,000-element diagram is checked (POST …/check: the analysis runs in a worker thread).
 const big = seriesParallelTemplate({ seriesCount: 40, parallelCount: 63, name: 'Big check' });
@@ -211,14 +267,14 @@ const health = await phase('health-during-5000-element-check', () => [{ method: 
 stopBig = true;
 await bigLoop;
 
-const goal = (r: ReturnType<typeof summarize>, p99: number) => r.latencyMs.p99 < p99 && r.non2xx === 0 && r.errors === 0 && r.timeouts === 0;
 const summary = {
   database: args.pg ? 'postgresql' : 'pglite',
-  loadAverage: os.loadavg().map((x) => Math.round(x * 10) / 10),
+  loadAverage: loadAverage(),
   phases: results,
+  userModel,
   health: { ...health, checkElements: elements, bigChecksCompleted: bigSaves, bigCheckMs: bigTimes },
   goals: {
-    p99Under200msNoErrors: Object.fromEntries(results.map((r) => [r.phase, goal(r, 200)])),
+    p99Under200msNoErrors: { ...Object.fromEntries(results.map((r) => [r.phase, goal(r, 200)])), ...userGoal },
     healthP99Under50msDuringCheck: goal(health, 50) && bigSaves + (stopBig ? 1 : 0) > 0,
   },
   blocked,
