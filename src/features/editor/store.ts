@@ -7,7 +7,7 @@
  * edits that share a `coalesce` key merged into one step (a drag is one step; typing in a field within a
  * short pause is one step).
  */
-import { useRef } from 'react';
+import { useCallback, useEffect, useLayoutEffect, useRef, type DependencyList } from 'react';
 import { create } from 'zustand';
 import { enablePatches, produce, produceWithPatches, applyPatches, type Patch } from 'immer';
 import { cableRunDefaults, defaultPartProps, PART_TYPES, type CableRunProps, type PartType } from '@shared/electrical/parts';
@@ -512,6 +512,29 @@ export function useCanvasFigure<T extends Record<string, string | number | boole
     last.current = next;
     return next;
   });
+}
+
+/**
+ * Keeps figure text in the DOM in step with the live results without a React render: `key(s)` is
+ * what is shown (an unchanged key skips the write), `write(s)` writes it into elements the component
+ * renders empty (no children, no title), so React and the writes never touch the same thing. Runs
+ * after every render of the component (its elements may be new) and on every results change. For the
+ * figures that change on nearly every solve, in their hundreds (cable labels, fuse figures).
+ */
+export function useResultsText(key: (s: CanvasView) => string, write: (s: CanvasView) => void, deps: DependencyList): void {
+  const painted = useRef<string | null>(null);
+  // The caller's deps cover key and write.
+  const paint = useCallback((s: CanvasView) => {
+    const k = key(s);
+    if (k === painted.current) return;
+    painted.current = k;
+    write(s);
+  }, deps);
+  useLayoutEffect(() => {
+    painted.current = null;
+    paint(useCanvasView.getState());
+  });
+  useEffect(() => useCanvasView.subscribe(paint), [paint]);
 }
 
 /** Undo/redo availability (for toolbar buttons). */

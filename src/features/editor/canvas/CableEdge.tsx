@@ -9,12 +9,14 @@
  * label sits a third of the way along its run rather than at the midpoint, so it clears a lead that
  * takes off from the same posts.
  */
-import { memo, useState, type ReactNode } from 'react';
+import { memo, useRef, useState, type ReactNode } from 'react';
 import { createPortal } from 'react-dom';
 import { BaseEdge, getSmoothStepPath, useStore, type Edge, type EdgeProps, type ReactFlowState } from '@xyflow/react';
 import type { DiagramCable } from '@shared/diagram';
 import { ErrorIcon, NoteIcon, WarningIcon } from '@/components/icons';
-import { useCanvasFigure, useCanvasView, useEditorStore } from '../store';
+import type { UnitSystem } from '@shared/units';
+import { useCanvasFigure, useCanvasView, useEditorStore, useResultsText, type CanvasView } from '../store';
+import type { CanvasSummary } from '../results/types';
 import { fmtAmps, fmtPct, lengthText, shortConductor } from '../units';
 
 export interface CableEdgeData extends Record<string, unknown> {
@@ -139,36 +141,81 @@ const CableStroke = memo(function CableStroke({ id, path, selected, jumper }: { 
   );
 });
 
-/** The run's label: conductor and length, the live figure, its findings badge. */
+interface CableFigure {
+  mode: CanvasSummary['mode'];
+  i: number;
+  loading: number | null;
+  mark: string | null;
+}
+
+/** A cable's figure in the live results, rounded as shown (0.1 A, 0.1 %). */
+function cableFigureOf(s: CanvasView, id: string): CableFigure | null {
+  const canvas = s.results?.canvas;
+  const c = canvas?.cables[id];
+  if (!c || !canvas) return null;
+  return {
+    mode: canvas.mode,
+    i: Math.round(Math.abs(c.current_A) * 10) / 10,
+    loading: c.loading === null ? null : Math.round(c.loading * 1000) / 1000,
+    mark: canvas.marks[id] ?? null,
+  };
+}
+
+const isFaulted = (r: CableFigure | null) => r?.mark === 'faulted' || r?.mark === 'worst-fault';
+
+function figureText(r: CableFigure | null): string {
+  if (!r) return '';
+  if (r.mode === 'fault') return `${fmtCurrent(r.i)}${isFaulted(r) ? '' : ' prospective'}`;
+  const over = r.loading !== null && r.loading > 1;
+  return `${fmtAmps(r.i)}${r.loading !== null ? ` · ${over ? '▲ over ' : ''}${fmtPct(r.loading * 100)}` : ''}`;
+}
+
+function titleText(cable: DiagramCable, unitSystem: UnitSystem, r: CableFigure | null): string {
+  const jumper = cable.props.role === 'jumper';
+  return `${cable.label ? `${cable.label}: ` : ''}${jumper ? 'jumper' : 'cable'}, ${shortConductor(cable.props.conductor, unitSystem)}, ${lengthText(cable.props.length_m, unitSystem)}, ${cable.props.material}${
+    r ? `; ${r.mode === 'fault' ? `${fmtCurrent(r.i)} prospective` : fmtAmps(r.i)}${r.loading != null ? `, ${fmtPct(r.loading * 100)} of ampacity` : ''}` : ''}`;
+}
+
+/**
+ * The run's label: conductor and length, the live figure, its findings badge.
+ *
+ * React renders what shapes the label (mode, over-ampacity and fault styling, the mark, the badge,
+ * the zoom's detail); the figure's text and the tooltip follow each new result straight from the
+ * store (a subscription writing the DOM), because every cable's figure changes on nearly every solve
+ * and re-rendering a few hundred labels was the largest part of applying one. React never renders
+ * children into the figure span nor a title on the label, so the two never fight over them.
+ */
 const CableLabel = memo(function CableLabel({ id, cable, selected, x, y }: { id: string; cable: DiagramCable; selected: boolean; x: number; y: number }) {
   const unitSystem = useCanvasView((s) => s.unitSystem);
   const detail = useStore(detailOf);
   const [hover, setHover] = useState(false);
-  const r = useCanvasFigure((s) => {
-    const canvas = s.results?.canvas;
-    const c = canvas?.cables[id];
-    if (!c || !canvas) return null;
-    return {
-      mode: canvas.mode,
-      i: Math.round(Math.abs(c.current_A) * 10) / 10,
-      loading: c.loading === null ? null : Math.round(c.loading * 1000) / 1000,
-      mark: canvas.marks[id] ?? null,
-    };
+  const shape = useCanvasFigure((s) => {
+    const r = cableFigureOf(s, id);
+    return r ? { mode: r.mode, over: r.loading !== null && r.loading > 1, mark: r.mark } : null;
   });
   const badge = useCanvasFigure((s) => s.results?.canvas.badges[id] ?? null);
-  const over = r?.loading != null && r.loading > 1;
+  const labelRef = useRef<HTMLDivElement>(null);
+  const figureRef = useRef<HTMLSpanElement>(null);
+  useResultsText(
+    (s) => `${figureText(cableFigureOf(s, id))}\u0000${s.unitSystem}`,
+    (s) => {
+      const r = cableFigureOf(s, id);
+      if (figureRef.current) figureRef.current.textContent = figureText(r);
+      if (labelRef.current) labelRef.current.title = titleText(cable, s.unitSystem, r);
+    },
+    [id, cable],
+  );
+
+  const over = !!shape?.over;
   const jumper = cable.props.role === 'jumper';
-  const faulted = r?.mark === 'faulted' || r?.mark === 'worst-fault';
-  const fault = r?.mode === 'fault';
+  const faulted = shape?.mark === 'faulted' || shape?.mark === 'worst-fault';
   const BadgeIcon = badge ? (badge.severity === 'error' ? ErrorIcon : badge.severity === 'warning' ? WarningIcon : NoteIcon) : null;
   const needsAttention = selected || hover || over || faulted || !!badge;
   if (jumper && detail === 'minimal' && !needsAttention) return null;
   const shown: Detail = needsAttention && (selected || hover) ? 'full' : detail;
-  const figure = r ? (fault ? `${fmtCurrent(r.i)}${faulted ? '' : ' prospective'}` : `${fmtAmps(r.i)}${r.loading !== null ? ` · ${over ? '▲ over ' : ''}${fmtPct(r.loading * 100)}` : ''}`) : null;
-  const title = `${cable.label ? `${cable.label}: ` : ''}${jumper ? 'jumper' : 'cable'}, ${shortConductor(cable.props.conductor, unitSystem)}, ${lengthText(cable.props.length_m, unitSystem)}, ${cable.props.material}${
-    r ? `; ${fault ? `${fmtCurrent(r.i)} prospective` : fmtAmps(r.i)}${r.loading != null ? `, ${fmtPct(r.loading * 100)} of ampacity` : ''}` : ''}`;
   return (
     <div
+      ref={labelRef}
       className={`bw-cable-label nodrag nopan${selected ? ' bw-cable-label-selected' : ''}${over || faulted ? ' bw-over' : ''}`}
       style={{ transform: `translate(-50%, -50%) translate(${x}px, ${y}px)`, zIndex: selected || hover ? 1 : undefined }}
       data-cable-id={id}
@@ -176,15 +223,14 @@ const CableLabel = memo(function CableLabel({ id, cable, selected, x, y }: { id:
       onClick={(e) => useEditorStore.getState().select([id], { additive: e.shiftKey || e.metaKey || e.ctrlKey })}
       onMouseEnter={() => setHover(true)}
       onMouseLeave={() => setHover(false)}
-      title={title}
     >
-      {faulted ? <span className="font-bold text-fault-700 uppercase">{r?.mark === 'faulted' ? 'Fault here' : 'Worst fault'}</span> : null}
+      {faulted ? <span className="font-bold text-fault-700 uppercase">{shape?.mark === 'faulted' ? 'Fault here' : 'Worst fault'}</span> : null}
       {shown === 'full' ? (
         <span>
           {shortConductor(cable.props.conductor, unitSystem)} · {lengthText(cable.props.length_m, unitSystem)}
         </span>
       ) : null}
-      {figure ? <span className="bw-cable-figures">{figure}</span> : null}
+      {shape ? <span ref={figureRef} className="bw-cable-figures" /> : null}
       {badge && BadgeIcon ? (
         <span className={`bw-badge-inline bw-badge-${badge.severity}`} title={`${badge.count} finding(s)`}>
           <BadgeIcon size={11} /> {badge.count}

@@ -8,12 +8,12 @@
  * re-adopt every node and re-run every node's and cable's store selector. Views of stored revisions
  * read the part from the node's data.
  */
-import { createContext, memo, useContext, type ReactNode } from 'react';
+import { createContext, memo, useContext, useRef, type ReactNode } from 'react';
 import { Handle, useConnection, type Node, type NodeProps } from '@xyflow/react';
 import type { DiagramPart } from '@shared/diagram';
 import { PART_TYPES, type PartType } from '@shared/electrical/parts';
 import { ErrorIcon, NoteIcon, WarningIcon } from '@/components/icons';
-import { useCanvasFigure, useCanvasView, useEditorStore } from '../store';
+import { useCanvasFigure, useCanvasView, useEditorStore, useResultsText, type CanvasView } from '../store';
 import type { CanvasMark } from '../results/types';
 import { baseBox, partBox, POSITION, rotatePlacement, terminalPlacements, type TerminalPlacement } from './geometry';
 import { PartSymbol } from './symbols';
@@ -194,38 +194,63 @@ function BatteryResult({ id }: { id: string }) {
   );
 }
 
-function FuseResult({ id }: { id: string }) {
-  const r = useCanvasFigure((s) => {
-    const c = s.results?.canvas;
-    const f = c?.fuses[id];
-    if (!f || !c) return null;
-    return {
-      mode: c.mode, i: Math.round(f.current_A * 10) / 10, loading: Math.round(f.loading * 1000) / 1000,
-      aic: f.interrupting_A ?? null, aicLoading: f.interruptingLoading === undefined ? null : Math.round(f.interruptingLoading * 1000) / 1000,
-    };
-  });
-  if (!r) return null;
+interface FuseFigure {
+  i: number;
+  loading: number;
+  aic: number | null;
+  aicLoading: number | null;
+}
+
+/** A fuse's figure in the live results, rounded as shown. */
+function fuseFigureOf(s: CanvasView, id: string): FuseFigure | null {
+  const f = s.results?.canvas.fuses[id];
+  if (!f) return null;
+  return {
+    i: Math.round(f.current_A * 10) / 10, loading: Math.round(f.loading * 1000) / 1000,
+    aic: f.interrupting_A ?? null, aicLoading: f.interruptingLoading === undefined ? null : Math.round(f.interruptingLoading * 1000) / 1000,
+  };
+}
+
+/** The fuse's two lines: current, then loading against its rating (or, in a fault, against its interrupting rating). */
+function fuseLines(r: FuseFigure): [string, string] {
   if (r.aic !== null && r.aicLoading !== null) {
-    const over = r.aicLoading > 1;
-    return (
-      <div className={`bw-result bw-result-side${over ? ' bw-over' : ''}`} data-testid={`fuse-${id}`}>
-        <span className="bw-result-text">
-          {fmtCurrent(Math.abs(r.i))} prospective
-          <br />
-          {over ? '▲ above ' : ''}
-          {fmtPct(r.aicLoading * 100)} of {fmtCurrent(r.aic)} interrupting
-        </span>
-      </div>
-    );
+    return [`${fmtCurrent(Math.abs(r.i))} prospective`, `${r.aicLoading > 1 ? '▲ above ' : ''}${fmtPct(r.aicLoading * 100)} of ${fmtCurrent(r.aic)} interrupting`];
   }
-  const over = r.loading > 1;
+  return [fmtAmps(Math.abs(r.i)), `${r.loading > 1 ? '▲ ' : ''}${fmtPct(r.loading * 100)} of rating`];
+}
+
+/**
+ * The fuse's current and loading. React renders the box and its over-rating styling; the two lines of
+ * text follow each result straight from the store (useResultsText): every fuse's figure changes on
+ * nearly every solve.
+ */
+function FuseResult({ id }: { id: string }) {
+  const over = useCanvasFigure((s) => {
+    const r = fuseFigureOf(s, id);
+    return r ? { over: r.aic !== null && r.aicLoading !== null ? r.aicLoading > 1 : r.loading > 1 } : null;
+  });
+  const first = useRef<HTMLSpanElement>(null);
+  const second = useRef<HTMLSpanElement>(null);
+  useResultsText(
+    (s) => {
+      const r = fuseFigureOf(s, id);
+      return r ? fuseLines(r).join('\n') : '';
+    },
+    (s) => {
+      const r = fuseFigureOf(s, id);
+      const [a, b] = r ? fuseLines(r) : ['', ''];
+      if (first.current) first.current.textContent = a;
+      if (second.current) second.current.textContent = b;
+    },
+    [id],
+  );
+  if (!over) return null;
   return (
-    <div className={`bw-result bw-result-side${over ? ' bw-over' : ''}`} data-testid={`fuse-${id}`}>
+    <div className={`bw-result bw-result-side${over.over ? ' bw-over' : ''}`} data-testid={`fuse-${id}`}>
       <span className="bw-result-text">
-        {fmtAmps(Math.abs(r.i))}
+        <span ref={first} />
         <br />
-        {over ? '▲ ' : ''}
-        {fmtPct(r.loading * 100)} of rating
+        <span ref={second} />
       </span>
     </div>
   );
