@@ -188,8 +188,12 @@ function phase(name: string, requestsFor: (i: number) => Req[], connections = CO
   });
 }
 
-/** Saves cut off when a phase ends may still commit: start each phase from every diagram's real latest revision. */
+/**
+ * Saves cut off when a phase ends may still commit: let the server finish what it was given, then start
+ * each phase from every diagram's real latest revision.
+ */
 async function resyncBases() {
+  await new Promise((r) => setTimeout(r, 1500));
   for (const c of conn) {
     const list = (await setup.request('GET', `/api/diagrams/${c.diagramId}/revisions`)).body.revisions as { number: number }[];
     c.base = list.length ? Math.max(...list.map((r) => r.number)) : null;

@@ -133,7 +133,9 @@ export async function runUserModel(o: UserModelOptions) {
       ];
       for (const [kind, url] of steps) {
         if (timeUp()) return;
-        await request(p, kind, 'GET', url);
+        const r = await request(p, kind, 'GET', url);
+        // As the editor does: a save goes on top of the latest revision the screen showed.
+        if (kind === 'diagram' && r?.status === 200) p.base = r.json.diagram.latestRevision?.number ?? null;
         await think();
       }
       const actions = ACTIONS_PER_DIAGRAM.min + Math.floor(o.random() * (ACTIONS_PER_DIAGRAM.max - ACTIONS_PER_DIAGRAM.min + 1));
