@@ -271,43 +271,52 @@ export function Canvas() {
     return () => cancelAnimationFrame(t);
   }, [focusRequest, rf]);
 
+  // The flow element is kept while its inputs are: a props edit re-renders the canvas (its parts
+  // changed) but hands React Flow the same nodes, so nothing under it needs to render again.
+  const flow = useMemo(
+    () => (
+      <ReactFlow<PartNode, CableFlowEdge>
+        nodes={nodes}
+        edges={edges}
+        nodeTypes={nodeTypes}
+        edgeTypes={edgeTypes}
+        onNodesChange={onNodesChange}
+        onEdgesChange={onEdgesChange}
+        onNodeDragStart={onDragStart}
+        onNodeDragStop={onDragStop}
+        onSelectionDragStart={onDragStart}
+        onSelectionDragStop={onDragStop}
+        onConnect={onConnect}
+        onReconnect={onReconnect}
+        isValidConnection={isValidConnection}
+        connectionMode={ConnectionMode.Loose}
+        nodesDraggable={!readOnly}
+        nodesConnectable={!readOnly}
+        edgesReconnectable={!readOnly}
+        deleteKeyCode={null}
+        multiSelectionKeyCode={['Shift', 'Meta', 'Control']}
+        selectionKeyCode="Shift"
+        snapToGrid
+        snapGrid={[GRID, GRID]}
+        minZoom={0.1}
+        maxZoom={3}
+        proOptions={{ hideAttribution: true }}
+        connectionRadius={24}
+        aria-label="Diagram canvas"
+      >
+        <Background variant={BackgroundVariant.Dots} gap={GRID * 2} size={1} color="var(--color-graphite-300)" />
+        <MiniMap pannable zoomable ariaLabel="Overview of the diagram" nodeStrokeWidth={2} className="bw-minimap" />
+        <Controls showInteractive={false} aria-label="Zoom controls" />
+        <AnnotationLayer />
+      </ReactFlow>
+    ),
+    [nodes, edges, readOnly, onNodesChange, onEdgesChange, onDragStart, onDragStop, onConnect, onReconnect, isValidConnection],
+  );
+
   return (
     <div className="bw-canvas h-full w-full" onDragOver={onDragOver} onDrop={onDrop}>
       <LivePartsContext.Provider value={true}>
-        <ReactFlow<PartNode, CableFlowEdge>
-          nodes={nodes}
-          edges={edges}
-          nodeTypes={nodeTypes}
-          edgeTypes={edgeTypes}
-          onNodesChange={onNodesChange}
-          onEdgesChange={onEdgesChange}
-          onNodeDragStart={onDragStart}
-          onNodeDragStop={onDragStop}
-          onSelectionDragStart={onDragStart}
-          onSelectionDragStop={onDragStop}
-          onConnect={onConnect}
-          onReconnect={onReconnect}
-          isValidConnection={isValidConnection}
-          connectionMode={ConnectionMode.Loose}
-          nodesDraggable={!readOnly}
-          nodesConnectable={!readOnly}
-          edgesReconnectable={!readOnly}
-          deleteKeyCode={null}
-          multiSelectionKeyCode={['Shift', 'Meta', 'Control']}
-          selectionKeyCode="Shift"
-          snapToGrid
-          snapGrid={[GRID, GRID]}
-          minZoom={0.1}
-          maxZoom={3}
-          proOptions={{ hideAttribution: true }}
-          connectionRadius={24}
-          aria-label="Diagram canvas"
-        >
-          <Background variant={BackgroundVariant.Dots} gap={GRID * 2} size={1} color="var(--color-graphite-300)" />
-          <MiniMap pannable zoomable ariaLabel="Overview of the diagram" nodeStrokeWidth={2} className="bw-minimap" />
-          <Controls showInteractive={false} aria-label="Zoom controls" />
-          <AnnotationLayer />
-        </ReactFlow>
+        {flow}
       </LivePartsContext.Provider>
     </div>
   );
