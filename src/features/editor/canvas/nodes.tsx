@@ -14,7 +14,7 @@ import type { DiagramPart } from '@shared/diagram';
 import { PART_TYPES, type PartType } from '@shared/electrical/parts';
 import { ErrorIcon, NoteIcon, WarningIcon } from '@/components/icons';
 import { useCanvasFigure, useCanvasView, useEditorStore, useResultsText, type CanvasView } from '../store';
-import type { CanvasMark } from '../results/types';
+import type { CanvasMark, CanvasSummary } from '../results/types';
 import { baseBox, partBox, POSITION, rotatePlacement, terminalPlacements, type TerminalPlacement } from './geometry';
 import { PartSymbol } from './symbols';
 import { fmtAmps, fmtPct, fmtVolts } from '../units';
@@ -155,41 +155,84 @@ function MarkTag({ id }: { id: string }) {
   );
 }
 
-function BatteryResult({ id }: { id: string }) {
-  const r = useCanvasFigure((s) => {
-    const c = s.results?.canvas;
-    const b = c?.batteries[id];
-    return b && c ? { mode: c.mode, i: Math.round(b.current_A * 10) / 10, share: Math.round(b.share * 1000) / 1000, selectedFault: c.modeSummary.mode === 'fault' && !!c.modeSummary.selected } : null;
-  });
-  if (!r) return null;
+interface BatteryFigure {
+  mode: CanvasSummary['mode'];
+  i: number;
+  share: number;
+  selectedFault: boolean;
+}
+
+/** A battery's figure in the live results, rounded as shown (0.1 A, 0.1 %). */
+function batteryFigureOf(s: CanvasView, id: string): BatteryFigure | null {
+  const c = s.results?.canvas;
+  const b = c?.batteries[id];
+  return b && c ? { mode: c.mode, i: Math.round(b.current_A * 10) / 10, share: Math.round(b.share * 1000) / 1000, selectedFault: c.modeSummary.mode === 'fault' && !!c.modeSummary.selected } : null;
+}
+
+/**
+ * What the battery's strip shows in each mode: the share bar's fill (null: no bar), a direction arrow
+ * (read aloud as the words after it, so hidden from assistive technology), the text, and its figure in bold.
+ */
+function batteryTexts(r: BatteryFigure): { bar: number | null; arrow: string; text: string; strong: string } {
   const pct = Math.max(0, Math.min(1, r.share));
-  const bar = (
-    <div className="bw-share-bar" aria-hidden="true">
-      <div style={{ width: `${pct * 100}%` }} />
-    </div>
-  );
-  let text: ReactNode;
-  let withBar = false;
   switch (r.mode) {
     case 'charge':
-      withBar = r.i < 0;
-      text = r.i < 0 ? <>charging {fmtAmps(-r.i)} · <strong>{fmtPct(r.share * 100)}</strong></> : <>discharging {fmtAmps(r.i)}</>;
-      break;
+      return r.i < 0 ? { bar: pct, arrow: '', text: `charging ${fmtAmps(-r.i)} · `, strong: fmtPct(r.share * 100) } : { bar: null, arrow: '', text: `discharging ${fmtAmps(r.i)}`, strong: '' };
     case 'equalize':
       // Positive out of the battery: it gives current to the others; negative: it takes.
-      text = Math.abs(r.i) < 0.05 ? <>no exchange</> : <><span aria-hidden="true">{r.i > 0 ? '↑ ' : '↓ '}</span>{r.i > 0 ? 'gives' : 'takes'} <strong>{fmtAmps(Math.abs(r.i))}</strong></>;
-      break;
+      if (Math.abs(r.i) < 0.05) return { bar: null, arrow: '', text: 'no exchange', strong: '' };
+      return { bar: null, arrow: r.i > 0 ? '↑ ' : '↓ ', text: `${r.i > 0 ? 'gives' : 'takes'} `, strong: fmtAmps(Math.abs(r.i)) };
     case 'fault':
-      text = r.selectedFault ? <>feeds <strong>{fmtCurrent(Math.abs(r.i))}</strong></> : <>short: <strong>{fmtCurrent(Math.abs(r.i))}</strong></>;
-      break;
+      return { bar: null, arrow: '', text: r.selectedFault ? 'feeds ' : 'short: ', strong: fmtCurrent(Math.abs(r.i)) };
     default:
-      withBar = true;
-      text = <>{fmtAmps(r.i)} · <strong>{fmtPct(r.share * 100)}</strong></>;
+      return { bar: pct, arrow: '', text: `${fmtAmps(r.i)} · `, strong: fmtPct(r.share * 100) };
   }
+}
+
+/**
+ * The battery's current and share. React renders the strip's shape (mode, whether it has a share
+ * bar); the texts and the bar's fill follow each result straight from the store (useResultsText):
+ * every battery's figure changes when a load or a shared path changes.
+ */
+function BatteryResult({ id }: { id: string }) {
+  const shape = useCanvasFigure((s) => {
+    const r = batteryFigureOf(s, id);
+    return r ? { mode: r.mode, withBar: batteryTexts(r).bar !== null } : null;
+  });
+  const fill = useRef<HTMLDivElement>(null);
+  const arrow = useRef<HTMLSpanElement>(null);
+  const text = useRef<HTMLSpanElement>(null);
+  const strong = useRef<HTMLElement>(null);
+  useResultsText(
+    (s) => {
+      const r = batteryFigureOf(s, id);
+      if (!r) return '';
+      const t = batteryTexts(r);
+      return `${t.bar}|${t.arrow}|${t.text}|${t.strong}`;
+    },
+    (s) => {
+      const r = batteryFigureOf(s, id);
+      const t = r ? batteryTexts(r) : { bar: null, arrow: '', text: '', strong: '' };
+      if (fill.current) fill.current.style.width = `${(t.bar ?? 0) * 100}%`;
+      if (arrow.current) arrow.current.textContent = t.arrow;
+      if (text.current) text.current.textContent = t.text;
+      if (strong.current) strong.current.textContent = t.strong;
+    },
+    [id],
+  );
+  if (!shape) return null;
   return (
-    <div className="bw-result-inside" data-testid={`share-${id}`} data-mode={r.mode}>
-      {withBar ? bar : null}
-      <span className="bw-result-text">{text}</span>
+    <div className="bw-result-inside" data-testid={`share-${id}`} data-mode={shape.mode}>
+      {shape.withBar ? (
+        <div className="bw-share-bar" aria-hidden="true">
+          <div ref={fill} />
+        </div>
+      ) : null}
+      <span className="bw-result-text">
+        <span aria-hidden="true" ref={arrow} />
+        <span ref={text} />
+        <strong ref={strong} />
+      </span>
     </div>
   );
 }
