@@ -183,7 +183,8 @@ function titleText(cable: DiagramCable, unitSystem: UnitSystem, r: CableFigure |
  * the zoom's detail); the figure's text and the tooltip follow each new result straight from the
  * store (a subscription writing the DOM), because every cable's figure changes on nearly every solve
  * and re-rendering a few hundred labels was the largest part of applying one. React never renders
- * children into the figure span nor a title on the label, so the two never fight over them.
+ * children into the figure span nor a title on the label, so the two never fight over them; the
+ * title (conductor, length, material, figure) is written while the pointer is on the label.
  */
 const CableLabel = memo(function CableLabel({ id, cable, selected, x, y }: { id: string; cable: DiagramCable; selected: boolean; x: number; y: number }) {
   const unitSystem = useCanvasView((s) => s.unitSystem);
@@ -196,12 +197,17 @@ const CableLabel = memo(function CableLabel({ id, cable, selected, x, y }: { id:
   const badge = useCanvasFigure((s) => s.results?.canvas.badges[id] ?? null);
   const labelRef = useRef<HTMLDivElement>(null);
   const figureRef = useRef<HTMLSpanElement>(null);
+  // The tooltip is written only while the pointer is on the label (on entering, and with each result
+  // then): a few hundred title writes per solve cost more than the figures themselves.
+  const hovered = useRef(false);
+  const writeTitle = () => {
+    if (labelRef.current) labelRef.current.title = titleText(cable, useCanvasView.getState().unitSystem, cableFigureOf(useCanvasView.getState(), id));
+  };
   useResultsText(
     (s) => `${figureText(cableFigureOf(s, id))}\u0000${s.unitSystem}`,
     (s) => {
-      const r = cableFigureOf(s, id);
-      if (figureRef.current) figureRef.current.textContent = figureText(r);
-      if (labelRef.current) labelRef.current.title = titleText(cable, s.unitSystem, r);
+      if (figureRef.current) figureRef.current.textContent = figureText(cableFigureOf(s, id));
+      if (hovered.current) writeTitle();
     },
     [id, cable],
   );
@@ -221,8 +227,15 @@ const CableLabel = memo(function CableLabel({ id, cable, selected, x, y }: { id:
       data-cable-id={id}
       data-detail={shown}
       onClick={(e) => useEditorStore.getState().select([id], { additive: e.shiftKey || e.metaKey || e.ctrlKey })}
-      onMouseEnter={() => setHover(true)}
-      onMouseLeave={() => setHover(false)}
+      onMouseEnter={() => {
+        hovered.current = true;
+        writeTitle();
+        setHover(true);
+      }}
+      onMouseLeave={() => {
+        hovered.current = false;
+        setHover(false);
+      }}
     >
       {faulted ? <span className="font-bold text-fault-700 uppercase">{shape?.mark === 'faulted' ? 'Fault here' : 'Worst fault'}</span> : null}
       {shown === 'full' ? (
