@@ -33,7 +33,8 @@ import autocannon from 'autocannon';
 import { busbarBankTemplate, seriesParallelTemplate } from '../../shared/diagram/templates';
 import { compileDiagram } from '../../shared/electrical/compile';
 import { Client, createDatabase, freePort, NO_ROUTE, startPostgres, startServer, stopServer, type Postgres } from '../faults/server-process';
-import { runUserModel, seededRandom } from './user-model';
+import { prng } from '../../shared/electrical/network/builders';
+import { runUserModel } from './user-model';
 
 const { values: args } = parseArgs({
   options: {
@@ -225,7 +226,7 @@ if (wanted('users')) {
     people: conn.slice(0, USERS).map((c) => ({ cookie: c.cookie, diagramId: c.diagramId, base: c.base })),
     seconds: USERS_SECONDS,
     doc: smallDoc,
-    random: seededRandom(7),
+    random: prng(7),
   });
   const cpuMs = serverCpuMs() - cpu0;
   userModel = { loadAverageAtStart: load, ...r, serverCpuMsPerRequest: Math.round((cpuMs / Math.max(1, r.latencyMs.requests)) * 100) / 100 };

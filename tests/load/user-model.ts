@@ -69,18 +69,6 @@ function latencyStats(ms: number[]) {
   return { requests: s.length, p50: r(percentile(s, 50)), p90: r(percentile(s, 90)), p99: r(percentile(s, 99)), max: r(s[s.length - 1] ?? NaN) };
 }
 
-/** mulberry32: a small seeded generator (deterministic action choices and think times). */
-export function seededRandom(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
 export async function runUserModel(o: UserModelOptions) {
   const samples: Sample[] = [];
   const errors: { kind: RequestKind; message: string }[] = [];

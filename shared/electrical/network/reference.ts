@@ -179,7 +179,6 @@ export function solveNetworkReference(net: Network): SolveOutcome {
       let found: { sol: LinearSolution; iterations: number } | null = null;
       for (const start of starts) {
         const attempt = newtonFrom(net, topo, modes, cpLoads, open, start, vAcross);
-        if (attempt === 'singular') return singularError(net, topo, modes, 'LU factorization failed');
         if (Array.isArray(attempt)) {
           if (start === starts[0]) return collapseError(attempt);
           continue;
@@ -206,7 +205,7 @@ export function solveNetworkReference(net: Network): SolveOutcome {
 
 /**
  * Newton on the full MNA system from a starting guess of the loads' voltages: each pass re-stamps the
- * loads' companion models and re-solves until the node voltages settle. Returns the solution, the ids
+ * loads' companion models and re-solves until the node voltages and the loads' currents settle. Returns the solution, the ids
  * of loads whose law is undefined at a first guess (collapse), or null when it does not settle.
  */
 function newtonFrom(
@@ -217,7 +216,7 @@ function newtonFrom(
   open: LinearSolution,
   start: Map<string, number>,
   vAcross: (s: LinearSolution, el: never) => number,
-): { sol: LinearSolution; iterations: number } | string[] | 'singular' | null {
+): { sol: LinearSolution; iterations: number } | string[] | null {
   let sol = open;
   let vCp = start;
   for (let iterations = 1; iterations <= MAX_NEWTON_ITERATIONS; iterations++) {

@@ -515,20 +515,22 @@ export function useCanvasFigure<T extends Record<string, string | number | boole
 }
 
 /**
- * Keeps figure text in the DOM in step with the live results without a React render: `key(s)` is
- * what is shown (an unchanged key skips the write), `write(s)` writes it into elements the component
- * renders empty (no children, no title), so React and the writes never touch the same thing. Runs
- * after every render of the component (its elements may be new) and on every results change. For the
- * figures that change on nearly every solve, in their hundreds (cable labels, fuse figures).
+ * Keeps figure text in the DOM in step with the live results without a React render: `texts(s)` are
+ * the strings shown (unchanged strings skip the write), `write(texts, s)` puts them into elements the
+ * component renders empty (no children, no title), so React and the writes never touch the same
+ * thing. Runs after every render of the component (its elements may be new) and on every results
+ * change. For the figures that change on nearly every solve, in their hundreds (cable labels, fuse
+ * figures, battery strips).
  */
-export function useResultsText(key: (s: CanvasView) => string, write: (s: CanvasView) => void, deps: DependencyList): void {
+export function useResultsText(texts: (s: CanvasView) => readonly string[], write: (texts: readonly string[], s: CanvasView) => void, deps: DependencyList): void {
   const painted = useRef<string | null>(null);
-  // The caller's deps cover key and write.
+  // The caller's deps cover texts and write.
   const paint = useCallback((s: CanvasView) => {
-    const k = key(s);
-    if (k === painted.current) return;
-    painted.current = k;
-    write(s);
+    const shown = texts(s);
+    const key = shown.join('\u0000');
+    if (key === painted.current) return;
+    painted.current = key;
+    write(shown, s);
   }, deps);
   useLayoutEffect(() => {
     painted.current = null;

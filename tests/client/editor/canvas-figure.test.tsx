@@ -44,8 +44,8 @@ describe('useCanvasFigure', () => {
         const b = s.results?.canvas.batteries.b1;
         return b ? `${b.current_A.toFixed(1)} A` : '—';
       };
-      useResultsText(amps, (s) => {
-        if (span.current) span.current.textContent = amps(s);
+      useResultsText((s) => [amps(s)], ([text]) => {
+        if (span.current) span.current.textContent = text;
       }, []);
       return (
         <button type="button" className={wide ? 'wide' : ''} onClick={() => setWide((w) => !w)}>

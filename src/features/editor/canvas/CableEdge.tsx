@@ -200,14 +200,14 @@ const CableLabel = memo(function CableLabel({ id, cable, selected, x, y }: { id:
   // The tooltip is written only while the pointer is on the label (on entering, and with each result
   // then): a few hundred title writes per solve cost more than the figures themselves.
   const hovered = useRef(false);
-  const writeTitle = () => {
-    if (labelRef.current) labelRef.current.title = titleText(cable, useCanvasView.getState().unitSystem, cableFigureOf(useCanvasView.getState(), id));
+  const writeTitle = (s: CanvasView = useCanvasView.getState()) => {
+    if (labelRef.current) labelRef.current.title = titleText(cable, s.unitSystem, cableFigureOf(s, id));
   };
   useResultsText(
-    (s) => `${figureText(cableFigureOf(s, id))}\u0000${s.unitSystem}`,
-    (s) => {
-      if (figureRef.current) figureRef.current.textContent = figureText(cableFigureOf(s, id));
-      if (hovered.current) writeTitle();
+    (s) => [figureText(cableFigureOf(s, id))],
+    ([figure], s) => {
+      if (figureRef.current) figureRef.current.textContent = figure;
+      if (hovered.current) writeTitle(s);
     },
     [id, cable],
   );

@@ -130,7 +130,7 @@ export function Canvas() {
   const dragKey = useRef<string | undefined>(undefined);
   const dragCount = useRef(0);
   // Positions of a drag in progress, kept here (not in the store) until the drop commits them as one
-  // step: a drag frame then re-renders the canvas only, not every document subscriber.
+  // step: a drag frame then re-renders the canvas only, not every component that reads the document.
   const [dragged, setDragged] = useState<Positions | null>(null);
   const draggedRef = useRef<Positions | null>(null);
   const rf = useReactFlow();

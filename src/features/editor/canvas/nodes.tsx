@@ -57,7 +57,7 @@ function TerminalHandle({ nodeId, placement, readOnly, label }: { nodeId: string
   // A primitive key so handles re-render only when a connection starts or ends.
   const from = useConnection((c) => (c.inProgress && c.fromHandle ? `${c.fromHandle.nodeId}\u0000${c.fromHandle.id ?? ''}` : ''));
   const [fromNode, fromTerminal] = from ? from.split('\u0000') : ['', ''];
-  // Read, not subscribed: it matters only while a connection is drawn (and `from` re-renders this then).
+  // Read once, not listened to: it matters only while a connection is drawn (and `from` re-renders this then).
   const fromPolarity = fromNode ? terminalPolarity(useEditorStore.getState().doc.parts.find((p) => p.id === fromNode), fromTerminal) : null;
   const isSource = from !== '' && fromNode === nodeId && fromTerminal === placement.terminal;
   const allowed = from !== '' && fromNode !== nodeId;
@@ -169,23 +169,27 @@ function batteryFigureOf(s: CanvasView, id: string): BatteryFigure | null {
   return b && c ? { mode: c.mode, i: Math.round(b.current_A * 10) / 10, share: Math.round(b.share * 1000) / 1000, selectedFault: c.modeSummary.mode === 'fault' && !!c.modeSummary.selected } : null;
 }
 
+/** Whether the battery's strip has a share bar: where the batteries share one load or charger. */
+const hasShareBar = (r: BatteryFigure) => (r.mode === 'charge' ? r.i < 0 : r.mode !== 'equalize' && r.mode !== 'fault');
+
 /**
- * What the battery's strip shows in each mode: the share bar's fill (null: no bar), a direction arrow
- * (read aloud as the words after it, so hidden from assistive technology), the text, and its figure in bold.
+ * What the battery's strip shows in each mode: the share bar's fill (a CSS width; '0%' without a bar),
+ * a direction arrow (read aloud as the words after it, so hidden from assistive technology), the text,
+ * and its figure in bold.
  */
-function batteryTexts(r: BatteryFigure): { bar: number | null; arrow: string; text: string; strong: string } {
-  const pct = Math.max(0, Math.min(1, r.share));
+function batteryTexts(r: BatteryFigure): [fill: string, arrow: string, text: string, strong: string] {
+  const fill = hasShareBar(r) ? `${Math.max(0, Math.min(1, r.share)) * 100}%` : '0%';
   switch (r.mode) {
     case 'charge':
-      return r.i < 0 ? { bar: pct, arrow: '', text: `charging ${fmtAmps(-r.i)} · `, strong: fmtPct(r.share * 100) } : { bar: null, arrow: '', text: `discharging ${fmtAmps(r.i)}`, strong: '' };
+      return r.i < 0 ? [fill, '', `charging ${fmtAmps(-r.i)} · `, fmtPct(r.share * 100)] : [fill, '', `discharging ${fmtAmps(r.i)}`, ''];
     case 'equalize':
       // Positive out of the battery: it gives current to the others; negative: it takes.
-      if (Math.abs(r.i) < 0.05) return { bar: null, arrow: '', text: 'no exchange', strong: '' };
-      return { bar: null, arrow: r.i > 0 ? '↑ ' : '↓ ', text: `${r.i > 0 ? 'gives' : 'takes'} `, strong: fmtAmps(Math.abs(r.i)) };
+      if (Math.abs(r.i) < 0.05) return [fill, '', 'no exchange', ''];
+      return [fill, r.i > 0 ? '↑ ' : '↓ ', `${r.i > 0 ? 'gives' : 'takes'} `, fmtAmps(Math.abs(r.i))];
     case 'fault':
-      return { bar: null, arrow: '', text: r.selectedFault ? 'feeds ' : 'short: ', strong: fmtCurrent(Math.abs(r.i)) };
+      return [fill, '', r.selectedFault ? 'feeds ' : 'short: ', fmtCurrent(Math.abs(r.i))];
     default:
-      return { bar: pct, arrow: '', text: `${fmtAmps(r.i)} · `, strong: fmtPct(r.share * 100) };
+      return [fill, '', `${fmtAmps(r.i)} · `, fmtPct(r.share * 100)];
   }
 }
 
@@ -197,7 +201,7 @@ function batteryTexts(r: BatteryFigure): { bar: number | null; arrow: string; te
 function BatteryResult({ id }: { id: string }) {
   const shape = useCanvasFigure((s) => {
     const r = batteryFigureOf(s, id);
-    return r ? { mode: r.mode, withBar: batteryTexts(r).bar !== null } : null;
+    return r ? { mode: r.mode, withBar: hasShareBar(r) } : null;
   });
   const fill = useRef<HTMLDivElement>(null);
   const arrow = useRef<HTMLSpanElement>(null);
@@ -206,17 +210,13 @@ function BatteryResult({ id }: { id: string }) {
   useResultsText(
     (s) => {
       const r = batteryFigureOf(s, id);
-      if (!r) return '';
-      const t = batteryTexts(r);
-      return `${t.bar}|${t.arrow}|${t.text}|${t.strong}`;
+      return r ? batteryTexts(r) : ['0%', '', '', ''];
     },
-    (s) => {
-      const r = batteryFigureOf(s, id);
-      const t = r ? batteryTexts(r) : { bar: null, arrow: '', text: '', strong: '' };
-      if (fill.current) fill.current.style.width = `${(t.bar ?? 0) * 100}%`;
-      if (arrow.current) arrow.current.textContent = t.arrow;
-      if (text.current) text.current.textContent = t.text;
-      if (strong.current) strong.current.textContent = t.strong;
+    ([width, a, t, b]) => {
+      if (fill.current) fill.current.style.width = width;
+      if (arrow.current) arrow.current.textContent = a;
+      if (text.current) text.current.textContent = t;
+      if (strong.current) strong.current.textContent = b;
     },
     [id],
   );
@@ -277,11 +277,9 @@ function FuseResult({ id }: { id: string }) {
   useResultsText(
     (s) => {
       const r = fuseFigureOf(s, id);
-      return r ? fuseLines(r).join('\n') : '';
+      return r ? fuseLines(r) : ['', ''];
     },
-    (s) => {
-      const r = fuseFigureOf(s, id);
-      const [a, b] = r ? fuseLines(r) : ['', ''];
+    ([a, b]) => {
       if (first.current) first.current.textContent = a;
       if (second.current) second.current.textContent = b;
     },
