@@ -22,6 +22,10 @@ export const batteryPropsSchema = z
     r_internal_ohm: z.number().positive().max(10),
     max_continuous_A: z.number().positive().max(100_000).optional(),
     max_c_rate: z.number().positive().max(100).optional(),
+    /** Largest pulse (short-time) discharge current, A, allowed for `pulse_s` (otherwise the chemistry's typical pulse C-rate). */
+    max_pulse_A: z.number().positive().max(1_000_000).optional(),
+    /** How long the pulse current may last, s (otherwise the chemistry's typical duration). */
+    pulse_s: z.number().positive().max(3600).optional(),
     /** Short-circuit current from the battery's own data, A (otherwise estimated as OCV / r). */
     short_circuit_A: z.number().positive().max(1_000_000).optional(),
     /** State of charge 0..1. */
@@ -58,6 +62,32 @@ export function batteryMaxContinuous_A(b: BatteryProps): number {
   return c * b.capacity_Ah;
 }
 
+/** Pulse discharge limit, A: max_pulse_A, else the chemistry's typical pulse C-rate × capacity (common practice, from memory). */
+export function batteryMaxPulse_A(b: BatteryProps): number {
+  return b.max_pulse_A ?? CHEMISTRIES[b.chemistry].typicalMaxPulseC * b.capacity_Ah;
+}
+
+/** How long the pulse limit may be drawn, s: pulse_s, else the chemistry's typical duration (common practice, from memory). */
+export function batteryPulse_s(b: BatteryProps): number {
+  return b.pulse_s ?? CHEMISTRIES[b.chemistry].typicalPulse_s;
+}
+
+/** Current limits of a bank unit (a battery, or batteries in series): in series each limit is the smallest member's. */
+export interface UnitLimits {
+  maxContinuous_A: number;
+  maxPulse_A: number;
+  /** The shortest member pulse duration, s. */
+  pulse_s: number;
+}
+
+export function unitLimits(members: readonly BatteryProps[]): UnitLimits {
+  return {
+    maxContinuous_A: Math.min(...members.map(batteryMaxContinuous_A)),
+    maxPulse_A: Math.min(...members.map(batteryMaxPulse_A)),
+    pulse_s: Math.min(...members.map(batteryPulse_s)),
+  };
+}
+
 /** Prospective short-circuit current at the terminals, A: the battery's own figure, else OCV / r (first principles). */
 export function batteryShortCircuit_A(b: BatteryProps): number {
   return b.short_circuit_A ?? batteryOcv_V(b) / b.r_internal_ohm;
@@ -78,6 +108,8 @@ export function batteryDefaults(chemistry: ChemistryId = 'lfp', capacity_Ah = 10
     capacity_Ah,
     r_internal_ohm: typicalInternalResistance_ohm(chemistry, cells, capacity_Ah),
     max_continuous_A: ch.typicalMaxContinuousC * capacity_Ah,
+    max_pulse_A: ch.typicalMaxPulseC * capacity_Ah,
+    pulse_s: ch.typicalPulse_s,
     soc: 1,
   };
 }
@@ -114,6 +146,11 @@ export function stringMembers(s: SeriesStringProps): BatteryProps[] {
 
 export function stringNominal_V(s: SeriesStringProps): number {
   return stringMembers(s).reduce((sum, b) => sum + b.nominal_V, 0);
+}
+
+/** A string's current limits: each the smallest member's (the same current flows through every member). */
+export function stringLimits(s: SeriesStringProps): UnitLimits {
+  return unitLimits(stringMembers(s));
 }
 
 export function stringOcv_V(s: SeriesStringProps): number {

@@ -13,12 +13,26 @@ export const inverterPropsSchema = z.object({
   efficiency: z.number().gt(0).max(1),
   /** Low-voltage cut-off, V. */
   cutoff_V: z.number().positive().max(1500).optional(),
+  /** Surge (peak) AC output power, W, for `surge_s` (otherwise 2 × the continuous rating). */
+  surge_W: z.number().positive().max(10_000_000).optional(),
+  /** How long the surge lasts, s (otherwise 5 s). */
+  surge_s: z.number().positive().max(3600).optional(),
 });
 export type InverterProps = z.infer<typeof inverterPropsSchema>;
 export const INVERTER_TERMINALS = ['pos', 'neg'] as const;
 
 /** DC input power, W: P_ac / efficiency (first principles: I_dc = P_ac / (V_dc × efficiency)). */
 export const inverterDcPower_W = (p: InverterProps) => p.power_W / p.efficiency;
+
+/** Surge power as a multiple of the continuous rating when the inverter's own figure is not given (common practice, from memory). */
+export const TYPICAL_SURGE_FACTOR = 2;
+/** Surge duration when not given, s (common practice, from memory). */
+export const TYPICAL_SURGE_S = 5;
+
+/** Surge AC output power, W: surge_W, else 2 × the continuous rating (or the power in the case, without a rating). */
+export const inverterSurge_W = (p: InverterProps) => p.surge_W ?? TYPICAL_SURGE_FACTOR * (p.rated_W ?? p.power_W);
+/** Surge duration, s: surge_s, else 5 s. */
+export const inverterSurge_s = (p: InverterProps) => p.surge_s ?? TYPICAL_SURGE_S;
 
 export const inverterModel = (p: InverterProps): PartModel => ({
   elements: [

@@ -28,6 +28,13 @@ export interface Chemistry {
   /** Typical continuous discharge limit as a C-rate (from memory). */
   typicalMaxContinuousC: number;
   /**
+   * Typical pulse (short-time) discharge limit as a C-rate, and how long it may last, s (common
+   * practice, from memory: a 12 V LFP battery's BMS commonly allows about 2C for a few seconds; lead-acid
+   * blocks deliver several C for seconds). A starting value only — the battery's own data wins.
+   */
+  typicalMaxPulseC: number;
+  typicalPulse_s: number;
+  /**
    * Whether the lead-acid rule applies: do not mix batteries of different age, capacity or make in one
    * bank (common practice). Lithium batteries have their own pairing rules from their makers.
    */
@@ -51,6 +58,8 @@ export const CHEMISTRIES: Record<ChemistryId, Chemistry> = {
       [0.7, 3.315], [0.8, 3.325], [0.9, 3.335], [0.95, 3.35], [0.99, 3.38], [1, 3.4],
     ],
     rCellTimesAh_ohmAh: 0.125, peukert: 1.05, typicalMaxContinuousC: 1, mixingAgeRuleApplies: false,
+    // Pulse: about 2C for about 5 s, set by the BMS (common practice, from memory).
+    typicalMaxPulseC: 2, typicalPulse_s: 5,
   },
   nmc: {
     id: 'nmc', name: 'Lithium NMC', family: 'lithium',
@@ -61,6 +70,8 @@ export const CHEMISTRIES: Record<ChemistryId, Chemistry> = {
       [0.8, 3.95], [0.9, 4.06], [1, 4.18],
     ],
     rCellTimesAh_ohmAh: 0.13, peukert: 1.05, typicalMaxContinuousC: 1, mixingAgeRuleApplies: false,
+    // Pulse: about 2C for about 10 s (common practice, from memory).
+    typicalMaxPulseC: 2, typicalPulse_s: 10,
   },
   agm: {
     id: 'agm', name: 'AGM lead-acid', family: 'lead_acid',
@@ -70,18 +81,24 @@ export const CHEMISTRIES: Record<ChemistryId, Chemistry> = {
     // higher when full (from memory).
     ocvCurve: LEAD_ACID_12V_CURVE,
     rCellTimesAh_ohmAh: 0.085, peukert: 1.1, typicalMaxContinuousC: 0.5, mixingAgeRuleApplies: true,
+    // Pulse: about 5C for about 5 s (common practice, from memory; block data sheets often allow more).
+    typicalMaxPulseC: 5, typicalPulse_s: 5,
   },
   gel: {
     id: 'gel', name: 'Gel lead-acid', family: 'lead_acid',
     cellNominal_V: 2.0, cellsPer12VBlock: 6, cellFull_V: 2.35, cellCutoff_V: 1.75,
     ocvCurve: LEAD_ACID_12V_CURVE,
     rCellTimesAh_ohmAh: 0.13, peukert: 1.15, typicalMaxContinuousC: 0.2, mixingAgeRuleApplies: true,
+    // Pulse: about 3C for about 5 s (common practice, from memory; gel takes high rates less well).
+    typicalMaxPulseC: 3, typicalPulse_s: 5,
   },
   flooded: {
     id: 'flooded', name: 'Flooded lead-acid', family: 'lead_acid',
     cellNominal_V: 2.0, cellsPer12VBlock: 6, cellFull_V: 2.45, cellCutoff_V: 1.75,
     ocvCurve: LEAD_ACID_12V_CURVE,
     rCellTimesAh_ohmAh: 0.12, peukert: 1.25, typicalMaxContinuousC: 0.25, mixingAgeRuleApplies: true,
+    // Pulse: about 5C for about 5 s (common practice, from memory).
+    typicalMaxPulseC: 5, typicalPulse_s: 5,
   },
 };
 
