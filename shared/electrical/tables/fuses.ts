@@ -45,9 +45,12 @@ export interface FuseClass {
   /** Typical DC interrupting rating, A, at `interruptingAt_V`. */
   interrupting_A: number;
   interruptingAt_V: number;
-  /** Typical range of ratings made in this class, A. */
-  ratings_A: { min: number; max: number };
-  /** Common ratings for the picker, A. */
+  /**
+   * Ratings made in this class, A, ascending (common practice, from memory; a maker's own range can be
+   * narrower). Sizing offers a class only at a rating in this list.
+   */
+  ratings_A: readonly number[];
+  /** Common ratings for the picker, A (each one in `ratings_A`). */
   commonRatings_A: number[];
   /** Typical voltage drop across the fuse at rated current when cold, mV (from memory) — gives cold resistance. */
   coldDropAtRating_mV: number;
@@ -61,32 +64,32 @@ export interface FuseClass {
 export const FUSE_CLASSES: Record<FuseClassId, FuseClass> = {
   class_t: {
     id: 'class_t', name: 'Class T', voltage_V: 160, interrupting_A: 20_000, interruptingAt_V: 160,
-    ratings_A: { min: 1, max: 1200 }, commonRatings_A: [100, 125, 150, 175, 200, 225, 250, 300, 350, 400],
+    ratings_A: [1, 3, 6, 10, 15, 20, 25, 30, 35, 40, 45, 50, 60, 70, 80, 90, 100, 110, 125, 150, 175, 200, 225, 250, 300, 350, 400, 450, 500, 600, 700, 800, 1000, 1200], commonRatings_A: [30, 40, 50, 60, 80, 100, 125, 150, 175, 200, 225, 250, 300, 350, 400],
     coldDropAtRating_mV: 60,
   },
   anl: {
     id: 'anl', name: 'ANL', voltage_V: 32, interrupting_A: 3_000, interruptingAt_V: 32,
-    ratings_A: { min: 35, max: 750 }, commonRatings_A: [80, 100, 125, 150, 200, 250, 300, 400, 500],
+    ratings_A: [35, 40, 50, 60, 80, 100, 125, 150, 175, 200, 225, 250, 300, 350, 400, 450, 500, 600, 750], commonRatings_A: [80, 100, 125, 150, 200, 250, 300, 400, 500],
     coldDropAtRating_mV: 50,
   },
   battery_terminal: {
     id: 'battery_terminal', name: 'Battery terminal fuse', voltage_V: 58, interrupting_A: 10_000, interruptingAt_V: 14,
-    ratings_A: { min: 30, max: 300 }, commonRatings_A: [50, 80, 100, 125, 150, 200, 250, 300],
+    ratings_A: [30, 40, 50, 60, 70, 80, 90, 100, 110, 125, 150, 175, 200, 225, 250, 300], commonRatings_A: [50, 80, 100, 125, 150, 200, 250, 300],
     coldDropAtRating_mV: 50,
   },
   strip: {
     id: 'strip', name: 'Strip fuse (bolt-down)', voltage_V: 32, interrupting_A: 2_000, interruptingAt_V: 32,
-    ratings_A: { min: 40, max: 500 }, commonRatings_A: [60, 80, 100, 125, 150, 200, 250, 300],
+    ratings_A: [40, 50, 60, 70, 80, 100, 125, 150, 175, 200, 225, 250, 300, 350, 400, 500], commonRatings_A: [60, 80, 100, 125, 150, 200, 250, 300],
     coldDropAtRating_mV: 60,
   },
   blade: {
     id: 'blade', name: 'Blade fuse', voltage_V: 32, interrupting_A: 1_000, interruptingAt_V: 32,
-    ratings_A: { min: 1, max: 120 }, commonRatings_A: [5, 10, 15, 20, 25, 30, 40, 60, 80, 100],
+    ratings_A: [1, 2, 3, 5, 10, 15, 20, 25, 30, 35, 40, 50, 60, 70, 80, 100, 120], commonRatings_A: [5, 10, 15, 20, 25, 30, 40, 60, 80, 100],
     coldDropAtRating_mV: 75,
   },
   breaker_dc: {
     id: 'breaker_dc', name: 'Circuit breaker (DC)', voltage_V: 48, interrupting_A: 5_000, interruptingAt_V: 48,
-    ratings_A: { min: 5, max: 300 }, commonRatings_A: [20, 30, 50, 80, 100, 125, 150, 200, 250, 300],
+    ratings_A: [5, 10, 15, 20, 25, 30, 35, 40, 50, 60, 70, 80, 90, 100, 110, 125, 150, 175, 200, 225, 250, 300], commonRatings_A: [20, 30, 50, 80, 100, 125, 150, 200, 250, 300],
     coldDropAtRating_mV: 100,
   },
 };
@@ -97,4 +100,9 @@ export const FUSE_CLASSES: Record<FuseClassId, FuseClass> = {
  */
 export function typicalColdResistance_ohm(classId: FuseClassId, rating_A: number): number {
   return FUSE_CLASSES[classId].coldDropAtRating_mV / 1000 / rating_A;
+}
+
+/** Whether a class is made at a rating (the rating is in its list). */
+export function classListsRating(classId: FuseClassId, rating_A: number): boolean {
+  return FUSE_CLASSES[classId].ratings_A.some((r) => Math.abs(r - rating_A) < 1e-9);
 }
