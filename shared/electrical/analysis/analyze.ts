@@ -19,6 +19,7 @@ import { RULES } from '../rules/rules';
 import { runRules } from '../rules/registry';
 import { type AnalysisContext, buildContext, modeNetwork } from './context';
 import { bankFigures } from './bank';
+import { contingencyStudy } from './contingency';
 import { dischargeAnalysis } from './discharge';
 import { DEFAULT_FAULT_OHM, faultSweep, prepareFaults, type PreparedFaults } from './faults';
 import { operatingPoint } from './operating';
@@ -116,7 +117,9 @@ export function analyzeDiagram(doc: DiagramDocument, options: AnalyzeOptions = {
   if (faults) result.faults = faults;
   const fail = (error: AnalysisIssue): AnalysisResult => ({ ok: false, mode, stage: 'solve', errors: [error], findings: result.findings });
 
-  if (wantRules) result.findings = runRules(RULES, { doc, topo: ctx.topo, ctx, load, faults, compileErrors: [] });
+  // The N-1 study (each unit disconnected in turn) on the load case's factorization, for its rules.
+  const contingency = wantRules && loadCase && 'op' in loadCase ? contingencyStudy(ctx, loadCase.prep) : null;
+  if (wantRules) result.findings = runRules(RULES, { doc, topo: ctx.topo, ctx, load, faults, contingency, compileErrors: [] });
 
   switch (mode) {
     case 'load':

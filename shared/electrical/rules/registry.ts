@@ -9,7 +9,8 @@
  *    add a `suggestion` when there is an obvious fix.
  * 2. Set `needs`: 'document' for rules that read the diagram only (they run even when the diagram does
  *    not compile), 'load' for rules that need the solved load case, 'faults' for rules that need the
- *    fault sweep. A rule never solves anything itself.
+ *    fault sweep, 'n1' for rules that need the N-1 study (with the load case). A rule never solves
+ *    anything itself.
  * 3. Add it to `RULES` in rules.ts, and a test where it fires and one where it does not
  *    (tests/electrical/rules/).
  * A finding is a design observation, never an approval to install.
@@ -18,6 +19,7 @@ import type { DiagramDocument } from '../../diagram/schema';
 import type { AnalysisContext } from '../analysis/context';
 import type { DiagramTopology } from '../analysis/topology';
 import type { AnalysisIssue, FaultSweep, Finding, OperatingPoint, Severity } from '../analysis/types';
+import type { ContingencyStudy } from '../analysis/contingency';
 
 export interface RuleInput {
   doc: DiagramDocument;
@@ -28,6 +30,8 @@ export interface RuleInput {
   load: OperatingPoint | null;
   /** The fault sweep, when the fault network could be built. */
   faults: FaultSweep | null;
+  /** The N-1 study (the load case with each unit disconnected in turn), when there are two or more units in parallel. */
+  contingency?: ContingencyStudy | null;
   compileErrors: AnalysisIssue[];
 }
 
@@ -36,7 +40,7 @@ export interface Rule {
   title: string;
   severity: Severity;
   basis: string;
-  needs: 'document' | 'load' | 'faults';
+  needs: 'document' | 'load' | 'faults' | 'n1';
   check(input: RuleInput): Finding[];
 }
 
@@ -48,6 +52,7 @@ export function runRules(rules: readonly Rule[], input: RuleInput): Finding[] {
   for (const rule of rules) {
     if (rule.needs === 'load' && (!input.ctx || !input.load)) continue;
     if (rule.needs === 'faults' && (!input.ctx || !input.faults)) continue;
+    if (rule.needs === 'n1' && (!input.ctx || !input.load || !input.contingency)) continue;
     out.push(...rule.check(input));
   }
   return out.map((f, i) => ({ f, i })).sort((a, b) => SEVERITY_ORDER[a.f.severity] - SEVERITY_ORDER[b.f.severity] || a.i - b.i).map((x) => x.f);

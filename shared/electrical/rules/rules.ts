@@ -10,6 +10,7 @@ import { batteryCells, stringMembers, type BatteryProps } from '../parts/battery
 import { CHEMISTRIES } from '../tables/batteries';
 import type { DiagramPart } from '../../diagram/schema';
 import type { Rule, RuleInput } from './registry';
+import { inverterSurge, nMinusOne } from './contingency';
 
 /** "166.7 A", "1,250 A". */
 export function amps(x: number): string {
@@ -445,6 +446,8 @@ export const RULES: readonly Rule[] = [
   cableOverAmpacity,
   voltageDrop,
   batteryOverContinuous,
+  nMinusOne,
+  inverterSurge,
   postToPostCount,
   busbarLengthSpread,
   imbalance,
