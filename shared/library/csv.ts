@@ -47,6 +47,8 @@ export const LIBRARY_COLUMNS: readonly Column[] = [
   { name: 'max_continuous_A', kinds: ['battery'], cell: 'number', into: 'props' },
   { name: 'max_c_rate', kinds: ['battery'], cell: 'number', into: 'props' },
   { name: 'short_circuit_A', kinds: ['battery'], cell: 'number', into: 'props' },
+  { name: 'max_pulse_A', kinds: ['battery'], cell: 'number', into: 'props' },
+  { name: 'pulse_s', kinds: ['battery'], cell: 'number', into: 'props' },
   { name: 'cells_in_series', kinds: ['battery'], cell: 'int', into: 'props' },
   // Cable
   { name: 'conductor', kinds: ['cable'], cell: 'conductor', into: 'props', required: ['cable'] },

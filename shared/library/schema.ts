@@ -3,7 +3,8 @@
  *
  * An item is `{ id?, kind, name, manufacturer?, partNumber?, props }` where `props` is the part props
  * schema of its kind from shared/electrical/parts:
- * - battery: the battery props (a library battery is stored full, state of charge 1, so placing it is a copy);
+ * - battery: the battery props (a library battery is stored full, state of charge 1, so placing it is a copy),
+ *   with its current limits: maximum continuous, and maximum pulse current with the pulse's duration;
  * - cable: conductor, material, stranding and insulation rating — what is on the reel. Length,
  *   installation and role belong to each run in a diagram, not to the preset;
  * - fuse: the fuse props; busbar: the busbar props.
