@@ -18,7 +18,7 @@ import type { DiagramRecord } from './api';
 import { Canvas } from './canvas/Canvas';
 import { Palette } from './Palette';
 import { PropertiesPanel } from './properties/PropertiesPanel';
-import { ModeStatus } from './results/ModeStatus';
+import { FindingCounts, ModeStatus } from './results/ModeStatus';
 import { useLiveResults } from './results/useLiveResults';
 import { SHORTCUTS, useEditorShortcuts } from './shortcuts';
 import { selectCanRedo, selectCanUndo, useEditorStore } from './store';
@@ -159,7 +159,6 @@ function StatusBar() {
   );
   const c = results?.canvas;
   const load = c ? Object.values(c.loads)[0] : undefined;
-  const counts = c ? { error: c.findings.filter((f) => f.severity === 'error').length, warning: c.findings.filter((f) => f.severity === 'warning').length } : null;
   return (
     <div className="bw-statusbar" aria-label="Results summary">
       <ModeStatus />
@@ -185,20 +184,7 @@ function StatusBar() {
         </>
       ) : null}
       {c && !c.solved && nParts > 0 ? <span className="text-graphite-600">Not solved yet: see Findings</span> : null}
-      {counts && (counts.error || counts.warning) ? (
-        <span className="ml-auto flex items-center gap-2">
-          {counts.error ? (
-            <span className="flex items-center gap-1 text-fault-700">
-              <ErrorIcon size={13} /> {counts.error} error{counts.error === 1 ? '' : 's'}
-            </span>
-          ) : null}
-          {counts.warning ? (
-            <span className="flex items-center gap-1 text-caution-700">
-              <WarningIcon size={13} /> {counts.warning} warning{counts.warning === 1 ? '' : 's'}
-            </span>
-          ) : null}
-        </span>
-      ) : null}
+      <FindingCounts />
     </div>
   );
 }

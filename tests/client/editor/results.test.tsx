@@ -40,7 +40,9 @@ describe('canvas figures from the core', () => {
     };
     const { canvas } = computeCanvas(doc, { mode: 'load' });
     expect(canvas.solved).toBe(false);
-    expect(canvas.findings.some((f) => f.code === 'floating_part' && f.parts.includes('b'))).toBe(true);
+    expect(canvas.findings.some((f) => f.code === 'structure-floating-part' && f.parts.includes('b'))).toBe(true);
+    // Reported once: the structural rule's finding, not the compiler error beside it again.
+    expect(canvas.findings.filter((f) => f.parts.includes('b') && f.severity === 'error')).toHaveLength(1);
     expect(canvas.badges.b.severity).toBe('error');
   });
 });

@@ -1,22 +1,36 @@
 /**
- * The rule findings, grouped by severity (errors, warnings, notes). Each finding is a button: activating
+ * The findings, grouped by severity (errors, warnings, notes). Each finding is a button: activating
  * it (click, Enter or Space) selects its parts on the canvas and frames them.
+ *
+ * The list is the editor's one list of findings (results/findings.ts), the same the status bar counts
+ * and the canvas badges count per part. Each shows a plain-language title and names parts by label.
  */
 import { useMemo, useState } from 'react';
-import type { Finding, Severity } from '@shared/electrical';
+import type { Severity } from '@shared/electrical';
 import { SafetyCaution } from '@/components/SafetyCaution';
 import { useEditorStore } from '../store';
-import { useLabels, useRuleTitles } from './labels';
+import { findingsOf } from '../results/findings';
+import type { CanvasFinding } from '../results/types';
+import { findingTitle, useLabels, usePlainText, useRuleTitles } from './labels';
 import { SEVERITIES, SEVERITY } from './severity';
 import { useAnalysisResult } from './useCore';
 
-interface Shown extends Finding {
+interface Shown extends CanvasFinding {
   key: string;
 }
 
-export function FindingsPanel() {
+/** The editor's findings: those of the live results, or (when the editor has none) of the panels' own analysis. */
+function useFindings(): { findings: CanvasFinding[] | null; updating: boolean; error?: string } {
+  const live = useEditorStore((s) => s.results?.canvas.findings ?? null);
   const { result, updating, error } = useAnalysisResult();
+  const own = useMemo(() => (result ? findingsOf(result) : null), [result]);
+  return { findings: live ?? own, updating, error: live ? undefined : error };
+}
+
+export function FindingsPanel() {
+  const { findings, updating, error } = useFindings();
   const labelOf = useLabels();
+  const plain = usePlainText();
   const titles = useRuleTitles();
   const focusParts = useEditorStore((s) => s.focusParts);
   const nParts = useEditorStore((s) => s.doc.parts.length);
@@ -24,24 +38,19 @@ export function FindingsPanel() {
 
   const groups = useMemo(() => {
     const by: Record<Severity, Shown[]> = { error: [], warning: [], note: [] };
-    if (!result) return by;
-    const r = result;
-    r.findings.forEach((f, i) => by[f.severity].push({ ...f, key: `f${i}:${f.id}` }));
-    if (r.ok) {
-      r.notes.forEach((n, i) => by.note.push({ id: n.code, severity: 'note', parts: n.parts, message: n.message, basis: 'analysis note', key: `n${i}:${n.code}` }));
-    }
+    findings?.forEach((f, i) => by[f.severity].push({ ...f, key: `f${i}:${f.code}` }));
     return by;
-  }, [result]);
+  }, [findings]);
 
-  const total = SEVERITIES.reduce((n, s) => n + groups[s].length, 0);
-
-  if (!result) {
+  if (!findings) {
     return (
       <div className="space-y-2 text-[13px] text-graphite-600" aria-busy={updating}>
         {error ? <p>The checks could not run: {error}</p> : <p>{nParts ? 'Checking the diagram…' : 'Draw a bank to check it.'}</p>}
       </div>
     );
   }
+
+  const total = SEVERITIES.reduce((n, s) => n + groups[s].length, 0);
 
   return (
     <div className="space-y-3" aria-busy={updating}>
@@ -73,7 +82,7 @@ export function FindingsPanel() {
                     className={`w-full rounded-md border px-2.5 py-2 text-left text-[12px] leading-[1.35] ${S.box} hover:brightness-[0.98] ${active === f.key ? 'ring-2 ring-copper-500' : ''}`}
                     aria-pressed={active === f.key}
                     aria-describedby={`findings-${sev}`}
-                    data-finding={f.id}
+                    data-finding={f.code}
                     onClick={() => {
                       setActive(f.key);
                       if (f.parts.length) focusParts(f.parts);
@@ -82,13 +91,11 @@ export function FindingsPanel() {
                     <span className={`flex items-center gap-1 font-semibold ${S.text}`}>
                       <S.Icon size={13} className="shrink-0" />
                       <span className="sr-only">{S.word}: </span>
-                      <span className="min-w-0" title={`Rule ${f.id}`}>
-                        {titles?.get(f.id) ?? f.id}
-                      </span>
+                      <span className="min-w-0">{findingTitle(f.code, titles)}</span>
                     </span>
-                    <span className="mt-0.5 block text-graphite-900">{f.message}</span>
-                    {f.suggestion ? <span className="mt-1 block text-graphite-700">→ {f.suggestion}</span> : null}
-                    <span className="mt-1 block text-[11px] text-graphite-500">Basis: {f.basis}</span>
+                    <span className="mt-0.5 block text-graphite-900">{plain(f.message)}</span>
+                    {f.suggestion ? <span className="mt-1 block text-graphite-700">→ {plain(f.suggestion)}</span> : null}
+                    {f.basis ? <span className="mt-1 block text-[11px] text-graphite-500">Basis: {plain(f.basis)}</span> : null}
                     {f.parts.length ? (
                       <span className="mt-1 flex flex-wrap gap-1">
                         {f.parts.map((id) => (

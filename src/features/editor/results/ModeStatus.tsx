@@ -4,7 +4,9 @@
  * "Fault: Battery 2 internally shorted, 9.1 kA", "Discharge: Battery 3 empties first after 4.2 h".
  */
 import { useShallow } from 'zustand/react/shallow';
+import { ErrorIcon, WarningIcon } from '@/components/icons';
 import { useEditorStore } from '../store';
+import { useLabels } from '../analysis/labels';
 import { fmtAmps, fmtPct } from '../units';
 import type { ModeSummary } from './types';
 
@@ -41,15 +43,47 @@ function headline(s: ModeSummary, labelOf: (id: string) => string): string | nul
 export function ModeStatus() {
   const { summary, issue } = useEditorStore(useShallow((s) => ({ summary: s.results?.canvas.modeSummary ?? null, issue: s.results?.canvas.modeIssue ?? null })));
   const chosen = useEditorStore((s) => s.analysis.mode);
-  const parts = useEditorStore((s) => s.doc.parts);
-  const cables = useEditorStore((s) => s.doc.cables);
-  const labelOf = (id: string) => parts.find((p) => p.id === id)?.label || cables.find((c) => c.id === id)?.label || id;
+  const labelOf = useLabels();
   const mode = summary?.mode ?? chosen;
   const text = issue ?? (summary && summary.mode === chosen ? headline(summary, labelOf) : null);
   return (
     <span data-testid="canvas-mode" className="flex min-w-0 items-center gap-1.5">
       <span className="rounded border border-graphite-300 bg-white px-1.5 py-px text-[11px] font-semibold text-graphite-800">{MODE_NAMES[mode]}</span>
       {text ? <span className="truncate">{text}</span> : null}
+    </span>
+  );
+}
+
+/**
+ * For the status bar: how many errors and warnings the editor's findings hold — the same list the
+ * findings panel shows and the canvas badges count (results/findings.ts). Nothing when there are none.
+ */
+export function FindingCounts() {
+  const { error, warning } = useEditorStore(
+    useShallow((s) => {
+      const findings = s.results?.canvas.findings ?? [];
+      let error = 0;
+      let warning = 0;
+      for (const f of findings) {
+        if (f.severity === 'error') error++;
+        else if (f.severity === 'warning') warning++;
+      }
+      return { error, warning };
+    }),
+  );
+  if (!error && !warning) return null;
+  return (
+    <span className="ml-auto flex items-center gap-2" data-testid="status-counts">
+      {error ? (
+        <span className="flex items-center gap-1 text-fault-700">
+          <ErrorIcon size={13} /> {error} error{error === 1 ? '' : 's'}
+        </span>
+      ) : null}
+      {warning ? (
+        <span className="flex items-center gap-1 text-caution-700">
+          <WarningIcon size={13} /> {warning} warning{warning === 1 ? '' : 's'}
+        </span>
+      ) : null}
     </span>
   );
 }

@@ -23,6 +23,7 @@ import type { DiagramDocument } from '@shared/diagram';
 import { analyzeDiagram, type AnalysisMode, type AnalysisResult, type OperatingPoint } from '@shared/electrical/analysis';
 import type { AnalysisOptions } from '../store';
 import type { CanvasFinding, CanvasSummary, ModeSummary, Severity } from './types';
+import { findingsOf, solverNoteFinding } from './findings';
 
 export type ComputeStage = 'figures' | 'full';
 
@@ -60,16 +61,6 @@ export function computeCanvas(doc: DiagramDocument, options: AnalysisOptions, st
   return { canvas, raw };
 }
 
-function findingsOf(res: AnalysisResult): CanvasFinding[] {
-  const findings: CanvasFinding[] = res.findings.map((f) => ({ code: f.id, severity: f.severity, message: f.message, parts: f.parts }));
-  if (!res.ok && res.stage !== 'options') {
-    // Structural and solver errors the rules did not already report stay visible.
-    const seen = new Set(findings.map((f) => `${f.code}|${f.parts.join(',')}`));
-    for (const e of res.errors) if (!seen.has(`${e.code}|${e.parts.join(',')}`)) findings.push({ code: e.code, severity: 'error', message: e.message, parts: e.parts });
-  }
-  return findings;
-}
-
 function canvasOf(doc: DiagramDocument, mode: AnalysisMode, res: AnalysisResult, loadCase: AnalysisResult | null): CanvasSummary {
   const findings = findingsOf(res);
   const canvas = emptySummary(mode, findings);
@@ -89,7 +80,7 @@ function canvasOf(doc: DiagramDocument, mode: AnalysisMode, res: AnalysisResult,
   if (op) {
     fillFromOperating(doc, mode, op, canvas);
     for (const n of op.solverNotes) {
-      canvas.findings.push({ code: n.code, severity: 'warning', message: n.message, parts: [...new Set(n.elements.map(ownerOf))] });
+      canvas.findings.push(solverNoteFinding(n, doc));
     }
   }
 

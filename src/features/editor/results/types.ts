@@ -9,6 +9,9 @@ export interface CanvasFinding {
   message: string;
   /** Ids of the parts and cables involved. */
   parts: string[];
+  /** The standard's clause, "common practice", or "analysis" for the core's own errors and notes. */
+  basis?: string;
+  suggestion?: string;
 }
 
 export interface BatteryFigure {
