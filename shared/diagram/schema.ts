@@ -8,7 +8,7 @@
  * { formatVersion: 1,
  *   name?: string,
  *   settings: { systemVoltage_V, designMargin, voltageDropLimit_pct, ampacityTable, ambient_C,
- *               maxPostToPost, busbarLengthTolerance_pct, imbalanceThreshold_pct },
+ *               maxPostToPost, busbarLengthTolerance_pct, imbalanceThreshold_pct, ruleSet },
  *   parts:   [{ id, type, label, position: { x, y }, rotation: 0|90|180|270, props }],
  *   cables:  [{ id, from: { part, terminal }, to: { part, terminal }, props, label?, waypoints? }],
  *   annotations: [{ id, kind, ... }] }
@@ -37,6 +37,10 @@ import {
 import { PART_TYPES, type PartType } from '../electrical/parts/registry';
 
 export const DIAGRAM_FORMAT_VERSION = 1 as const;
+
+/** Rule sets the protection checks can follow (settings.ruleSet). */
+export const RULE_SETS = ['general', 'marine'] as const;
+export type RuleSet = (typeof RULE_SETS)[number];
 
 export const DIAGRAM_LIMITS = {
   maxParts: 2000,
@@ -74,6 +78,11 @@ export const settingsSchema = z.object({
   busbarLengthTolerance_pct: z.number().min(0).max(100).default(10),
   /** Current-share imbalance that is flagged, %. */
   imbalanceThreshold_pct: z.number().min(0).max(100).default(10),
+  /**
+   * Which practice the protection checks follow: 'general' (NEC-style, the default) or 'marine'
+   * (adds the marine battery rules: battery fuse within 7 in / 175 mm of the post, a battery switch).
+   */
+  ruleSet: z.enum(RULE_SETS).default('general'),
 });
 export type DiagramSettings = z.infer<typeof settingsSchema>;
 

@@ -7,7 +7,7 @@ import type { DiagramDocument } from '../../diagram/schema';
 import { type CompileIssue, type CompileMap, compileDiagram } from '../compile/compile';
 import type { Network, NetworkElement } from '../network/types';
 import { batteryMaxContinuous_A, batteryOcv_V, stringMembers, type BatteryProps } from '../parts/battery';
-import { ampacity } from '../tables/ampacity';
+import { type AmpacityDerating, ampacity } from '../tables/ampacity';
 import type { CableRunProps } from '../parts/cable';
 import type { DiagramSettings } from '../../diagram/schema';
 import { type DiagramTopology, type SourcePart, diagramTopology, ownFuses } from './topology';
@@ -63,13 +63,16 @@ export interface CableAmpacity {
   limitedBy: 'table' | 'insulation';
   /** Plain-language note when the insulation rating changed the column or was not credited. */
   note?: string;
+  /** The derating chain, factor by factor: ambient, bundling, engine space, termination temperature. */
+  derating: AmpacityDerating;
 }
 
 /**
  * Corrected ampacity of a cable run: settings.ampacityTable read at the column of the run's insulation
  * rating when that is below the table's temperature (never credited above it), at the run's ambient (or
- * the bank's), with the bundling adjustment and the engine-space column where the run is in one. Null for
- * a zero-length bolted joint or a size (or insulation rating) the table does not list.
+ * the bank's), with the bundling adjustment, the engine-space column where the run is in one, and capped
+ * at the column of its lowest-rated termination when that is given (NEC 110.14(C)). Null for a
+ * zero-length bolted joint or a size (or insulation rating) the table does not list.
  */
 export function cableAmpacity(props: CableRunProps, settings: DiagramSettings): CableAmpacity | null {
   if (props.length_m === 0) return null;
@@ -80,9 +83,10 @@ export function cableAmpacity(props: CableRunProps, settings: DiagramSettings): 
     ambient_C: props.ambient_C ?? settings.ambient_C,
     bundledConductors: props.installation === 'bundled' ? props.bundledConductors ?? 4 : 1,
     engineSpace: props.installation === 'engine_space',
+    ...(props.terminal_C !== undefined ? { terminal_C: props.terminal_C } : {}),
   });
   if (!r.ok) return null;
-  return { amps: r.amps, column_C: r.column_C, limitedBy: r.limitedBy, ...(r.note ? { note: r.note } : {}) };
+  return { amps: r.amps, column_C: r.column_C, limitedBy: r.limitedBy, ...(r.note ? { note: r.note } : {}), derating: r.derating };
 }
 
 /** Corrected ampacity of a cable run, A (see `cableAmpacity`). */

@@ -138,6 +138,7 @@ export function operatingPoint(ctx: AnalysisContext, sol: SolveResult): Operatin
       utilisation_pct: amp ? fin((Math.abs(i) / amp) * 100) : null,
       ...(basis?.limitedBy === 'insulation' ? { ampacityLimitedBy: 'insulation' as const } : {}),
       ...(basis?.note ? { ampacityColumn_C: basis.column_C, ampacityNote: basis.note } : {}),
+      ...(basis ? { ampacityDerating: basis.derating } : {}),
     };
   }
 

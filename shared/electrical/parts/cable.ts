@@ -10,6 +10,8 @@ import {
 import { conductorSizeSchema, materialSchema } from './common';
 
 export const INSULATION_RATINGS_C = [60, 75, 90, 105] as const;
+/** Termination temperature ratings a run can name (NEC 110.14(C) columns). */
+export const TERMINAL_RATINGS_C = [60, 75, 90] as const;
 
 export const cableRunPropsSchema = z.object({
   conductor: conductorSizeSchema,
@@ -25,6 +27,12 @@ export const cableRunPropsSchema = z.object({
   resistanceBasis: z.enum(['computed', 'table']).default('computed'),
   /** Insulation temperature rating, °C. */
   insulation_C: z.union([z.literal(60), z.literal(75), z.literal(90), z.literal(105)]).default(90),
+  /**
+   * Temperature rating of the lowest-rated termination on this run (lug, stud, fuse holder, breaker or
+   * busbar terminal), °C, when known. The run's ampacity never exceeds the table's column at this
+   * temperature (NEC 110.14(C), from memory). Omitted: the terminations are not taken into account.
+   */
+  terminal_C: z.union([z.literal(60), z.literal(75), z.literal(90)]).optional(),
   installation: z.enum(['free_air', 'bundled', 'engine_space']).default('free_air'),
   /** Current-carrying conductors in the bundle when installation is 'bundled'. */
   bundledConductors: z.int().min(2).max(100).optional(),

@@ -11,11 +11,14 @@
  *    not compile), 'load' for rules that need the solved load case, 'faults' for rules that need the
  *    fault sweep, 'n1' for rules that need the N-1 study (with the load case). A rule never solves
  *    anything itself.
- * 3. Add it to `RULES` in rules.ts, and a test where it fires and one where it does not
- *    (tests/electrical/rules/).
+ * 3. Set `ruleSet` only for a rule that belongs to one practice (e.g. 'marine'): it then runs only when
+ *    the document's settings.ruleSet is that one. Without it the rule runs for every rule set (it may
+ *    still read settings.ruleSet, e.g. to raise its severity).
+ * 4. Add it to `RULES` in rules.ts, a test where it fires and one where it does not
+ *    (tests/electrical/rules/), and its row in docs/rules.md (a test checks every rule has one).
  * A finding is a design observation, never an approval to install.
  */
-import type { DiagramDocument } from '../../diagram/schema';
+import type { DiagramDocument, RuleSet } from '../../diagram/schema';
 import type { AnalysisContext } from '../analysis/context';
 import type { DiagramTopology } from '../analysis/topology';
 import type { AnalysisIssue, FaultSweep, Finding, OperatingPoint, Severity } from '../analysis/types';
@@ -41,6 +44,8 @@ export interface Rule {
   severity: Severity;
   basis: string;
   needs: 'document' | 'load' | 'faults' | 'n1';
+  /** Runs only under this rule set (settings.ruleSet); omitted: under every rule set. */
+  ruleSet?: RuleSet;
   check(input: RuleInput): Finding[];
 }
 
@@ -50,6 +55,7 @@ const SEVERITY_ORDER: Record<Severity, number> = { error: 0, warning: 1, note: 2
 export function runRules(rules: readonly Rule[], input: RuleInput): Finding[] {
   const out: Finding[] = [];
   for (const rule of rules) {
+    if (rule.ruleSet && rule.ruleSet !== input.doc.settings.ruleSet) continue;
     if (rule.needs === 'load' && (!input.ctx || !input.load)) continue;
     if (rule.needs === 'faults' && (!input.ctx || !input.faults)) continue;
     if (rule.needs === 'n1' && (!input.ctx || !input.load || !input.contingency)) continue;

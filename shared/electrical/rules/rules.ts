@@ -6,38 +6,16 @@
 import { type CableAmpacity, cableAmpacity } from '../analysis/context';
 import { branchesToBusbar, postToPostChains } from '../analysis/topology';
 import type { Finding } from '../analysis/types';
-import { batteryCells, stringMembers, type BatteryProps } from '../parts/battery';
 import { CHEMISTRIES } from '../tables/batteries';
-import type { DiagramPart } from '../../diagram/schema';
 import type { Rule, RuleInput } from './registry';
 import { inverterSurge, nMinusOne } from './contingency';
+import { allBatteries, amps, distinct, name, pct, volts } from './helpers';
+import {
+  bankChargeVoltage, bankContinuous, bankOverContinuous, batteryDisconnectMissing, batteryFuseDistance,
+  mainOvercurrentMissing, shortCable,
+} from './protection';
 
-/** "166.7 A", "1,250 A". */
-export function amps(x: number): string {
-  const a = Math.abs(x);
-  return a >= 1000 ? `${Math.round(x).toLocaleString('en-US')} A` : a >= 100 ? `${x.toFixed(0)} A` : `${x.toFixed(1)} A`;
-}
-const volts = (x: number) => `${x.toFixed(2)} V`;
-const pct = (x: number) => `${x.toFixed(1)} %`;
-
-function name(input: RuleInput, id: string): string {
-  const p = input.topo.parts.get(id);
-  if (p) return p.label ? `${p.label} (${p.id})` : p.id;
-  const c = input.topo.cables.get(id);
-  return c?.label ? `${c.label} (${c.id})` : id;
-}
-
-function membersOf(p: DiagramPart): BatteryProps[] {
-  if (p.type === 'battery') return [p.props];
-  if (p.type === 'series_string') return stringMembers(p.props);
-  return [];
-}
-
-const allBatteries = (input: RuleInput) => input.topo.sources.flatMap((s) => membersOf(s).map((b) => ({ part: s.id, b })));
-
-function distinct<T>(xs: T[]): T[] {
-  return [...new Set(xs)];
-}
+export { amps } from './helpers';
 
 // --- Document rules ------------------------------------------------------------------------------------
 
@@ -161,9 +139,23 @@ function protectedCables(input: RuleInput, fuseId: string): string[] {
  * How a cable's ampacity was read, for messages: "nec-310.16-75C, corrected", or with the insulation
  * limit named ("nec-310.16-75C, 60 °C insulation: read from the 60 °C column, corrected").
  */
-function ampacityBasis(input: RuleInput, a: Pick<CableAmpacity, 'limitedBy' | 'note'>): string {
+function ampacityBasis(input: RuleInput, a: Pick<CableAmpacity, 'limitedBy' | 'note'> & { derating?: CableAmpacity['derating'] }): string {
   const table = input.doc.settings.ampacityTable;
-  return a.limitedBy === 'insulation' && a.note ? `${table}, ${a.note}, corrected` : `${table}, corrected`;
+  const base = a.limitedBy === 'insulation' && a.note ? `${table}, ${a.note}, corrected` : `${table}, corrected`;
+  const terminal = a.derating?.factors.find((f) => f.kind === 'terminal' && f.factor < 1);
+  return terminal ? `${base}; ${terminal.name.charAt(0).toLowerCase()}${terminal.name.slice(1)} (NEC 110.14(C))` : base;
+}
+
+const terminalLimited = (a: { derating?: CableAmpacity['derating'] } | null | undefined) =>
+  !!a?.derating?.factors.some((f) => f.kind === 'terminal' && f.factor < 1);
+
+/** A suggestion for a cable whose ampacity is short, naming what limited it. */
+function ampacitySuggestion(limitedBy: 'table' | 'insulation', byTerminals: boolean, orFuse: boolean): string {
+  const options = ['a larger cable'];
+  if (limitedBy === 'insulation') options.push('cable with higher-rated insulation');
+  if (byTerminals) options.push('terminations rated for a higher temperature');
+  if (orFuse) options.push('a smaller fuse');
+  return `Use ${options.length > 1 ? `${options.slice(0, -1).join(', ')} or ${options[options.length - 1]}` : options[0]}.`;
 }
 
 const fuseAboveAmpacity: Rule = {
@@ -182,10 +174,7 @@ const fuseAboveAmpacity: Rule = {
         out.push({
           id: this.id, severity: this.severity, basis: this.basis, parts: [f.id, cid],
           message: `${name(input, f.id)} is rated ${amps(f.props.rating_A)} but ${name(input, cid)} carries only ${amps(amp.amps)} (${ampacityBasis(input, amp)}).`,
-          suggestion:
-            amp.limitedBy === 'insulation'
-              ? 'Use a larger cable, cable with higher-rated insulation, or a smaller fuse.'
-              : 'Use a larger cable or a smaller fuse.',
+          suggestion: ampacitySuggestion(amp.limitedBy, terminalLimited(amp), true),
         });
       }
     }
@@ -193,34 +182,29 @@ const fuseAboveAmpacity: Rule = {
   },
 };
 
-/** Full-charge voltage of a unit (cells × cell full-charge voltage). */
-function fullCharge_V(p: DiagramPart): number {
-  return membersOf(p).reduce((s, b) => s + CHEMISTRIES[b.chemistry].cellFull_V * batteryCells(b), 0);
-}
-
 const fuseVoltageRating: Rule = {
   id: 'fuse-voltage-rating',
-  title: 'Fuse voltage rating below the system voltage',
+  title: 'Fuse DC voltage rating below the bank\u2019s charging voltage',
   severity: 'error',
-  basis: 'common practice (a DC fuse must be rated for the circuit voltage)',
+  basis: 'common practice (a DC fuse is rated at least the highest voltage of its circuit: the charging voltage, not the nominal)',
   needs: 'document',
   check(input) {
     const sys = input.doc.settings.systemVoltage_V;
-    const full = Math.max(0, ...input.topo.sources.map(fullCharge_V).filter((v) => v >= 0.75 * sys));
+    const charge = bankChargeVoltage(input);
     const out: Finding[] = [];
     for (const f of input.topo.fuses) {
       const v = f.props.voltage_rating_V;
-      if (v < sys) {
+      if (charge && charge.volts >= sys && v < charge.volts) {
         out.push({
-          id: this.id, severity: 'error', basis: this.basis, parts: [f.id],
-          message: `${name(input, f.id)} is rated ${v} V DC, below the ${sys} V system voltage.`,
-          suggestion: 'Choose a fuse class rated for the system voltage.',
+          id: this.id, severity: this.severity, basis: this.basis, parts: [f.id],
+          message: `${name(input, f.id)} is rated ${v} V DC, below the bank's charging voltage of ${charge.volts.toFixed(1)} V (${charge.how}).`,
+          suggestion: `Choose a fuse rated at least ${Math.ceil(charge.volts)} V DC (Class T fuses are made for 125–160 V DC and more).`,
         });
-      } else if (v < full) {
+      } else if (v < sys) {
         out.push({
-          id: this.id, severity: 'warning', basis: this.basis, parts: [f.id],
-          message: `${name(input, f.id)} is rated ${v} V DC, below the bank's full-charge voltage of about ${full.toFixed(1)} V.`,
-          suggestion: 'Choose a fuse rated above the charging voltage.',
+          id: this.id, severity: this.severity, basis: this.basis, parts: [f.id],
+          message: `${name(input, f.id)} is rated ${v} V DC, below the ${sys} V system voltage.`,
+          suggestion: 'Choose a fuse class rated for the system voltage and the charging voltage above it.',
         });
       }
     }
@@ -332,11 +316,14 @@ const cableOverAmpacity: Rule = {
     for (const [id, c] of Object.entries(input.load!.cables)) {
       if (c.ampacity_A === null || Math.abs(c.current_A) <= c.ampacity_A) continue;
       const limited = c.ampacityLimitedBy === 'insulation';
+      const byTerminals = terminalLimited({ derating: c.ampacityDerating });
+      const terminal = c.ampacityDerating?.factors.find((x) => x.kind === 'terminal' && x.factor < 1);
+      const notes = [...(limited && c.ampacityNote ? [c.ampacityNote] : []), ...(terminal ? [terminal.name] : [])];
       out.push({
         id: this.id, severity: this.severity, parts: [id],
-        basis: ampacityBasis(input, { limitedBy: limited ? 'insulation' : 'table', note: c.ampacityNote }),
-        message: `${name(input, id)} carries ${amps(Math.abs(c.current_A))}, above its ampacity of ${amps(c.ampacity_A)} (${pct(c.utilisation_pct ?? 0)}${limited && c.ampacityNote ? `; ${c.ampacityNote}` : ''}).`,
-        suggestion: limited ? 'Use a larger conductor, or cable with higher-rated insulation.' : 'Use a larger conductor.',
+        basis: ampacityBasis(input, { limitedBy: limited ? 'insulation' : 'table', note: c.ampacityNote, derating: c.ampacityDerating }),
+        message: `${name(input, id)} carries ${amps(Math.abs(c.current_A))}, above its ampacity of ${amps(c.ampacity_A)} (${pct(c.utilisation_pct ?? 0)}${notes.map((n) => `; ${n}`).join('')}).`,
+        suggestion: ampacitySuggestion(limited ? 'insulation' : 'table', byTerminals, false),
       });
     }
     return out;
@@ -373,12 +360,20 @@ const batteryOverContinuous: Rule = {
   needs: 'load',
   check(input) {
     const out: Finding[] = [];
+    const bank = bankContinuous(input);
     for (const [id, s] of Object.entries(input.load!.sources)) {
       if (s.current_A <= s.maxContinuous_A) continue;
+      const limitC = s.maxContinuous_A / s.capacity_Ah;
+      const bankNote = bank && bank.units > 1
+        ? ` The bank as a whole runs at ${bank.cRate.toFixed(2)} C against its batteries' combined limit of ${bank.limitC.toFixed(2)} C.`
+        : '';
+      const bankWithin = bank !== null && bank.units > 1 && bank.current_A <= bank.limit_A;
       out.push({
         id: this.id, severity: this.severity, basis: this.basis, parts: [id],
-        message: `${name(input, id)} delivers ${amps(s.current_A)}, above its continuous limit of ${amps(s.maxContinuous_A)} (${s.cRate.toFixed(2)} C).`,
-        suggestion: 'Add batteries in parallel, reduce the load, or balance the bank so this battery carries less.',
+        message: `${name(input, id)} delivers ${amps(s.current_A)} (${s.cRate.toFixed(2)} C), above its continuous limit of ${amps(s.maxContinuous_A)} (${limitC.toFixed(2)} C).${bankNote}`,
+        suggestion: bankWithin
+          ? 'The bank is large enough: balance it so this battery carries less (equal cable runs, diagonal take-off or busbars; see the optimizer).'
+          : 'Add batteries in parallel or reduce the load.',
       });
     }
     return out;
@@ -435,10 +430,13 @@ const interruptingRating: Rule = {
 /** Every rule, in the order findings of equal severity are listed. */
 export const RULES: readonly Rule[] = [
   structural,
+  mainOvercurrentMissing,
+  batteryDisconnectMissing,
   mixedChemistry,
   mixedNominal,
   mixedCapacityOrAge,
   parallelWithoutFuse,
+  batteryFuseDistance,
   fuseAboveAmpacity,
   fuseVoltageRating,
   interruptingRating,
@@ -446,10 +444,12 @@ export const RULES: readonly Rule[] = [
   cableOverAmpacity,
   voltageDrop,
   batteryOverContinuous,
+  bankOverContinuous,
   nMinusOne,
   inverterSurge,
   postToPostCount,
   busbarLengthSpread,
   imbalance,
   bothLeadsOneBattery,
+  shortCable,
 ];

@@ -24,6 +24,8 @@ export interface AmpacityTable {
   baseAmbient_C: number | null;
   /** Whether the table already includes an engine-space (hot space) allowance. */
   engineSpace: boolean;
+  /** For an engine-space table: the outside table its columns are derived from. */
+  outside?: AmpacityTableId;
   /** Amperes by size key ("14" … "4/0", "250kcmil" …), the table's own column. */
   amps: Record<string, number>;
   /**
@@ -109,7 +111,7 @@ export const AMPACITY_TABLES: Record<AmpacityTableId, AmpacityTable> = {
   },
   'cfr-183.425-105C-engine': {
     id: 'cfr-183.425-105C-engine', name: '33 CFR 183.425, 105 °C, inside engine spaces', conductor_C: 105,
-    baseAmbient_C: null, engineSpace: true,
+    baseAmbient_C: null, engineSpace: true, outside: 'cfr-183.425-105C-outside',
     amps: CFR_183_425_ENGINE[105],
     columns: CFR_183_425_ENGINE,
   },
@@ -161,6 +163,35 @@ export interface AmpacityInput {
   engineSpace?: boolean;
   /** Temperature rating of the conductor's insulation, °C (default: the table's own rating). */
   insulation_C?: number;
+  /**
+   * Temperature rating of the lowest-rated termination, °C (NEC 110.14(C)): the result never exceeds the
+   * table's column at this temperature. Omitted: no termination limit.
+   */
+  terminal_C?: number;
+}
+
+/** One step of the derating chain: the final ampacity is the base × every factor. */
+export interface AmpacityFactor {
+  kind: 'ambient' | 'bundling' | 'engine_space' | 'terminal';
+  /** Plain language, with the figures ("Ambient 40 °C, 75 °C conductor"). */
+  name: string;
+  /** The clause the factor comes from. */
+  basis: string;
+  /** Multiplier, 0..1 (1 when the step takes nothing off). */
+  factor: number;
+}
+
+/**
+ * The derating chain of one reading, factor by factor, for display: `base_A` from `table` at
+ * `column_C` (for an engine-space reading the outside column, so the engine-space allowance shows as
+ * its own step), then each factor in order; `final_A` is the ampacity (the product, up to rounding).
+ */
+export interface AmpacityDerating {
+  table: AmpacityTableId;
+  column_C: number;
+  base_A: number;
+  factors: AmpacityFactor[];
+  final_A: number;
 }
 
 export type AmpacityResult =
@@ -180,6 +211,8 @@ export type AmpacityResult =
       note?: string;
       ambientFactor: number;
       bundlingFactor: number;
+      /** The chain from the table value to `amps`, factor by factor. */
+      derating: AmpacityDerating;
       /** Set when a mm² conductor was read at this AWG size. */
       readAsAwg?: AwgSize;
     }
@@ -238,10 +271,59 @@ export function ampacity(input: AmpacityInput): AmpacityResult {
     table.baseAmbient_C === null || input.ambient_C === undefined
       ? 1
       : ambientCorrectionFactor(column_C, input.ambient_C, table.baseAmbient_C);
-  const bf = bundlingFactor(input.bundledConductors ?? 1);
+  const conductors = input.bundledConductors ?? 1;
+  const bf = bundlingFactor(conductors);
+  const corrected = base * ambientFactor * bf;
+  // NEC 110.14(C) (from memory): the corrected ampacity may start from the conductor's own column, but
+  // it may not exceed the column of the lowest-rated termination.
+  const terminalColumn = input.terminal_C === undefined ? null : insulationColumn_C(table, input.terminal_C);
+  const terminalCap = terminalColumn === null ? null : table.columns[terminalColumn][key.key];
+  const amps = terminalCap !== undefined && terminalCap !== null ? Math.min(corrected, terminalCap) : corrected;
+
+  const factors: AmpacityFactor[] = [];
+  if (table.baseAmbient_C !== null) {
+    const amb = input.ambient_C ?? table.baseAmbient_C;
+    factors.push({
+      kind: 'ambient',
+      name: `Ambient ${amb} °C, ${column_C} °C conductor (table at ${table.baseAmbient_C} °C)`,
+      basis: 'NEC 310.15(B) temperature correction, √((Tc − Ta)/(Tc − 30)) (from memory)',
+      factor: ambientFactor,
+    });
+  }
+  factors.push({
+    kind: 'bundling',
+    name: conductors > 3 ? `Bundled with ${conductors} current-carrying conductors` : 'Not bundled (3 or fewer current-carrying conductors)',
+    basis: 'NEC 310.15(C)(1) adjustment for more than three current-carrying conductors',
+    factor: bf,
+  });
+  // A marine engine-space reading shows the outside column as its base and the allowance as a step.
+  const outside = table.outside ? AMPACITY_TABLES[table.outside].columns[column_C]?.[key.key] : undefined;
+  if (outside !== undefined) {
+    factors.push({
+      kind: 'engine_space',
+      name: `Inside an engine space (${column_C} °C insulation)`,
+      basis: '33 CFR 183.425 Table 5, inside engine spaces',
+      factor: outside > 0 ? base / outside : 1,
+    });
+  }
+  if (terminalCap !== undefined && terminalCap !== null) {
+    factors.push({
+      kind: 'terminal',
+      name: `Terminations rated ${input.terminal_C} °C: at most ${terminalCap} A (${terminalColumn} °C column)`,
+      basis: 'NEC 110.14(C) termination temperature limit (from memory)',
+      factor: corrected > 0 ? Math.min(1, terminalCap / corrected) : 1,
+    });
+  }
+  const derating: AmpacityDerating = {
+    table: outside !== undefined ? table.outside! : tableId,
+    column_C,
+    base_A: outside ?? base,
+    factors,
+    final_A: amps,
+  };
   return {
     ok: true,
-    amps: base * ambientFactor * bf,
+    amps,
     baseAmps: base,
     table: tableId,
     column_C,
@@ -249,6 +331,7 @@ export function ampacity(input: AmpacityInput): AmpacityResult {
     ...(note ? { note } : {}),
     ambientFactor,
     bundlingFactor: bf,
+    derating,
     ...(key.readAs ? { readAsAwg: key.readAs } : {}),
   };
 }

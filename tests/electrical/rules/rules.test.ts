@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { type DiagramDocument, busbarBankTemplate, postToPostTemplate } from '../../../shared/diagram';
 import { analyzeDiagram } from '../../../shared/electrical/analysis';
-import { batteryDefaults, fuseDefaults } from '../../../shared/electrical/parts';
+import { batteryDefaults, fuseDefaults, switchDefaults } from '../../../shared/electrical/parts';
 import { RULES } from '../../../shared/electrical/rules';
 import { battery, currentLoad, diagram, end, ladder, run } from '../analysis/helpers';
 
@@ -12,8 +12,22 @@ function part<T = Record<string, unknown>>(d: DiagramDocument, id: string): T {
   return d.parts.find((p) => p.id === id)!.props as T;
 }
 
-/** A clean 4-battery busbar bank: no findings expected. */
-const clean = () => busbarBankTemplate({ count: 4 });
+/** The 4-battery busbar template (1.5 m main runs) with a battery switch between its main fuse and the inverter. */
+function bankWithDisconnect(): DiagramDocument {
+  // 1.5 m main runs: the switch's contact adds a little drop, and the bank stays within 3 %.
+  const d = busbarBankTemplate({ count: 4, mainCable_m: 1.5 });
+  const main = d.cables.find((c) => c.id === 'c-main-pos')!;
+  const load = main.to;
+  main.to = { part: 'disconnect', terminal: 'a' };
+  d.parts.push({ id: 'disconnect', type: 'switch', label: 'Battery switch', position: { x: 0, y: -200 }, rotation: 0, props: switchDefaults() });
+  // The switch sits 0.3 m from the inverter: the run keeps its length (and its voltage drop).
+  d.cables.push({ id: 'c-switch', from: { part: 'disconnect', terminal: 'b' }, to: load, props: { ...main.props, length_m: 0.3 } });
+  main.props = { ...main.props, length_m: main.props.length_m - 0.3 };
+  return d;
+}
+
+/** A clean 4-battery busbar bank (main fuse, battery switch, a fuse per battery): no findings expected. */
+const clean = bankWithDisconnect;
 
 describe('rule registry', () => {
   it('every rule has a stable id, a basis and a title', () => {
@@ -26,7 +40,14 @@ describe('rule registry', () => {
     }
   });
   it('the clean busbar bank has no findings', () => {
-    expect(ids(clean())).toEqual([]);
+    // The surge and N-1 checks have their own tests (tests/electrical/analysis/contingency.test.ts).
+    const others = new Set(['inverter-surge', 'n-minus-one']);
+    expect(ids(clean()).filter((id) => !others.has(id))).toEqual([]);
+  });
+  it('the template as built (main fuse, no battery switch) has one warning, for the switch, at 12.8 V', () => {
+    const f = analyzeDiagram(busbarBankTemplate({ count: 4 })).findings.filter((x) => x.severity !== 'note');
+    expect(f.filter((x) => x.severity === 'error')).toEqual([]);
+    expect(f.filter((x) => x.id === 'battery-disconnect-missing').map((x) => x.severity)).toEqual(['warning']);
   });
 });
 
@@ -91,6 +112,39 @@ describe('each rule fires where it should and not elsewhere', () => {
     const d75 = clean();
     for (const c of d75.cables) if (['c-fuse1', 'c-pos1'].includes(c.id)) c.props.insulation_C = 75;
     expect(ids(d75)).not.toContain('fuse-above-ampacity');
+  });
+
+  it('fuse-above-ampacity names the termination limit: 60 A fuse on 6 AWG with 60 °C terminations (55 A, NEC 110.14(C) and the NEC 310.16 60 °C column, from memory)', () => {
+    // 6 AWG: 65 A at 75 °C (NEC Table 310.16); terminations rated 60 °C cap it at the 60 °C column, 55 A.
+    const d = clean();
+    for (const c of d.cables) if (c.id === 'c-pos1') c.props.terminal_C = 60;
+    const f = findings(d, 'fuse-above-ampacity');
+    expect(f.map((x) => x.parts[1])).toEqual(['c-pos1']);
+    expect(f[0].message).toContain('55.0 A');
+    expect(f[0].message).toContain('terminations rated 60 °C');
+    expect(f[0].suggestion).toMatch(/terminations rated for a higher temperature/);
+    const d75 = clean();
+    for (const c of d75.cables) if (c.id === 'c-pos1') c.props.terminal_C = 75;
+    expect(ids(d75)).not.toContain('fuse-above-ampacity');
+  });
+
+  it('each cable figure carries its derating chain: 6 AWG, 75 °C table, 40 °C ambient, bundled with 6 (NEC Table 310.16; 310.15(B), from memory; 310.15(C)(1))', () => {
+    const d = clean();
+    d.settings.ambient_C = 40;
+    const c = d.cables.find((x) => x.id === 'c-neg3')!;
+    c.props.installation = 'bundled';
+    c.props.bundledConductors = 6;
+    const r = analyzeDiagram(d);
+    if (!r.ok) throw new Error('analysis failed');
+    const fig = r.operating!.cables['c-neg3'];
+    const chain = fig.ampacityDerating!;
+    expect(chain.base_A).toBe(65); // NEC Table 310.16, 75 °C, 6 AWG
+    expect(chain.factors.map((x) => [x.kind, x.factor])).toEqual([
+      ['ambient', Math.sqrt((75 - 40) / (75 - 30))],
+      ['bundling', 0.8],
+    ]);
+    expect(chain.final_A).toBeCloseTo(65 * Math.sqrt(35 / 45) * 0.8, 9);
+    expect(fig.ampacity_A).toBe(chain.final_A);
   });
 
   it('fuse-voltage-rating: a 32 V fuse on a 48 V system', () => {

@@ -155,3 +155,80 @@ describe('the insulation rating limits the column read', () => {
     expect(!r.ok && r.error.code).toBe('insulation_below_table');
   });
 });
+
+describe('the derating chain, factor by factor', () => {
+  const awg = (size: (typeof SIZES)[number]) => ({ system: 'awg', size }) as const;
+  const product = (r: ReturnType<typeof ampacity>) => (r.ok ? r.derating.factors.reduce((a, f) => a * f.factor, r.derating.base_A) : NaN);
+  const factor = (r: ReturnType<typeof ampacity>, kind: string) => (r.ok ? r.derating.factors.find((f) => f.kind === kind)?.factor : undefined);
+
+  it('10 AWG copper, 90 °C, bundled with 5: 40 A × 0.80 = 32 A (NEC Table 310.16; NEC 310.15(C)(1))', () => {
+    const r = ampacity({ size: awg('10'), table: 'nec-310.16-90C', bundledConductors: 5 });
+    if (!r.ok) throw new Error('not in table');
+    expect(r.derating.base_A).toBe(40); // NEC Table 310.16, 90 °C, 10 AWG
+    expect(r.derating.column_C).toBe(90);
+    expect(r.derating.factors.map((f) => f.kind)).toEqual(['ambient', 'bundling']);
+    expect(factor(r, 'ambient')).toBe(1); // 30 °C: the table's own ambient
+    expect(factor(r, 'bundling')).toBe(0.8); // NEC 310.15(C)(1), 4–6 conductors
+    expect(r.derating.final_A).toBeCloseTo(32, 9);
+    expect(r.amps).toBeCloseTo(32, 9);
+    expect(r.derating.factors[1].name).toContain('Bundled with 5');
+    expect(r.derating.factors[1].basis).toContain('310.15(C)(1)');
+  });
+
+  it.each([
+    // NEC 310.15(C)(1): 4–6 80 %, 7–9 70 %, 10–20 50 %, 21–30 45 %, 31–40 40 %, 41 and more 35 %.
+    [3, 1], [4, 0.8], [6, 0.8], [7, 0.7], [9, 0.7], [10, 0.5], [20, 0.5], [21, 0.45], [30, 0.45], [31, 0.4], [40, 0.4], [41, 0.35], [100, 0.35],
+  ] as const)('%i current-carrying conductors: × %f (NEC 310.15(C)(1))', (n, f) => {
+    expect(bundlingFactor(n)).toBe(f);
+    const r = ampacity({ size: awg('2/0'), table: 'nec-310.16-75C', bundledConductors: n });
+    expect(factor(r, 'bundling')).toBe(f);
+    expect(r.ok && r.amps).toBeCloseTo(175 * f, 9); // NEC Table 310.16, 75 °C, 2/0 AWG: 175 A
+  });
+
+  it('75 °C terminations cap a 90 °C conductor at the 75 °C column: 2/0 AWG 195 A → 175 A (NEC 110.14(C), from memory; NEC Table 310.16)', () => {
+    const r = ampacity({ size: awg('2/0'), table: 'nec-310.16-90C', insulation_C: 90, terminal_C: 75 });
+    if (!r.ok) throw new Error('not in table');
+    expect(r.derating.base_A).toBe(195);
+    expect(r.amps).toBe(175);
+    expect(r.derating.factors.map((f) => f.kind)).toEqual(['ambient', 'bundling', 'terminal']);
+    expect(factor(r, 'terminal')).toBeCloseTo(175 / 195, 12);
+    expect(r.derating.factors[2].name).toContain('Terminations rated 75 °C: at most 175 A');
+    expect(product(r)).toBeCloseTo(175, 9);
+    // Without the termination limit the 90 °C column stands.
+    const free = ampacity({ size: awg('2/0'), table: 'nec-310.16-90C', insulation_C: 90 });
+    expect(free.ok && free.amps).toBe(195);
+  });
+
+  it('derating starts from the conductor column; the cap applies to the result: 2/0 AWG 90 °C bundled with 4 is 195 × 0.8 = 156 A, under the 175 A cap', () => {
+    const r = ampacity({ size: awg('2/0'), table: 'nec-310.16-90C', bundledConductors: 4, terminal_C: 75 });
+    expect(r.ok && r.amps).toBeCloseTo(156, 9);
+    expect(factor(r, 'terminal')).toBe(1);
+  });
+
+  it('60 °C terminations on the 75 °C table: 4 AWG 85 A → 70 A (NEC Table 310.16, 60 °C column from memory)', () => {
+    const r = ampacity({ size: awg('4'), table: 'nec-310.16-75C', terminal_C: 60 });
+    expect(r.ok && r.amps).toBe(70);
+    // Terminations rated above the column read change nothing.
+    const hi = ampacity({ size: awg('4'), table: 'nec-310.16-75C', terminal_C: 90 });
+    expect(hi.ok && hi.amps).toBe(85);
+    expect(factor(hi, 'terminal')).toBe(1);
+  });
+
+  it('ambient: 4/0 AWG at 40 °C on the 75 °C column, √(35/45) (NEC 310.15(B) equation, from memory), then a 75 °C cap that does not bind', () => {
+    const r = ampacity({ size: awg('4/0'), table: 'nec-310.16-75C', ambient_C: 40, terminal_C: 75 });
+    expect(factor(r, 'ambient')).toBeCloseTo(Math.sqrt(35 / 45), 12);
+    expect(r.ok && r.amps).toBeCloseTo(230 * Math.sqrt(35 / 45), 9); // NEC Table 310.16, 75 °C, 4/0: 230 A
+    expect(product(r)).toBeCloseTo(230 * Math.sqrt(35 / 45), 9);
+  });
+
+  it('engine space shows as its own step from the outside column: 2/0 AWG 105 °C 330 A → 280 A (33 CFR 183.425 Table 5, × 0.85)', () => {
+    const r = ampacity({ size: awg('2/0'), table: 'cfr-183.425-105C-outside', engineSpace: true });
+    if (!r.ok) throw new Error('not in table');
+    expect(r.derating.table).toBe('cfr-183.425-105C-outside');
+    expect(r.derating.base_A).toBe(330); // outside engine spaces
+    expect(r.derating.factors.map((f) => f.kind)).toEqual(['bundling', 'engine_space']);
+    expect(factor(r, 'engine_space')).toBeCloseTo(0.85, 2);
+    expect(r.amps).toBe(280); // inside engine spaces, as printed
+    expect(product(r)).toBeCloseTo(280, 9);
+  });
+});

@@ -107,6 +107,7 @@ const CABLE_FIELDS: FieldSpec[] = [
   { kind: 'select', key: 'material', label: 'Material', options: [{ value: 'copper', label: 'Copper' }, { value: 'aluminium', label: 'Aluminium' }] },
   { kind: 'select', key: 'stranding', label: 'Stranding', options: [{ value: 'flexible', label: 'Fine-strand flexible' }, { value: 'concentric', label: 'Concentric' }, { value: 'solid', label: 'Solid' }] },
   { kind: 'select', key: 'insulation_C', label: 'Insulation rating', options: [60, 75, 90, 105].map((t) => ({ value: t, label: `${t} °C` })) },
+  { kind: 'select', key: 'terminal_C', label: 'Lowest termination rating', options: [60, 75, 90].map((t) => ({ value: t, label: `${t} °C` })), optional: true },
   { kind: 'select', key: 'installation', label: 'Installation', options: [{ value: 'free_air', label: 'Free air' }, { value: 'bundled', label: 'Bundled' }, { value: 'engine_space', label: 'Engine or hot space' }] },
   { kind: 'number', key: 'bundledConductors', label: 'Conductors in the bundle', integer: true, optional: true },
   { kind: 'temperature', key: 'ambient_C', label: 'Ambient around this run', optional: true },
@@ -124,6 +125,7 @@ export const SETTINGS_FIELDS: FieldSpec[] = [
   { kind: 'number', key: 'maxPostToPost', label: 'Most batteries post to post', integer: true },
   { kind: 'number', key: 'busbarLengthTolerance_pct', label: 'Equal-length tolerance', unit: '%' },
   { kind: 'number', key: 'imbalanceThreshold_pct', label: 'Current-share imbalance flagged above', unit: '%' },
+  { kind: 'select', key: 'ruleSet', label: 'Protection rules', options: [{ value: 'general', label: 'General (NEC)' }, { value: 'marine', label: 'Marine (ABYC E-11)' }] },
 ];
 
 function describePart(p: DiagramPart) {
