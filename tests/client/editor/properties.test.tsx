@@ -3,7 +3,7 @@ import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import type { ReactElement } from 'react';
 import userEvent from '@testing-library/user-event';
 import { describe, expect, it } from 'vitest';
-import { postToPostTemplate, type DiagramPart } from '@shared/diagram';
+import { busbarBankTemplate, postToPostTemplate, type DiagramPart } from '@shared/diagram';
 import { PropertiesPanel } from '@/features/editor/properties/PropertiesPanel';
 import { editor, resetEditor } from './flow-mocks';
 
@@ -131,5 +131,66 @@ describe('properties panel: bank settings and roles', () => {
     render(<PropertiesPanel />);
     expect(screen.getByLabelText('Capacity')).toBeDisabled();
     expect(screen.queryByRole('button', { name: 'Delete selection' })).not.toBeInTheDocument();
+  });
+});
+
+describe('properties panel: current limits, surge and fuse sides', () => {
+  function openBusbarOn(id: string, edit?: (d: ReturnType<typeof busbarBankTemplate>) => void) {
+    const doc = busbarBankTemplate({ count: 2 });
+    edit?.(doc);
+    resetEditor(doc, { unitSystem: 'metric' });
+    act(() => editor().select([id]));
+    render(<PropertiesPanel />);
+  }
+  const inverter = () => editor().doc.parts.find((p) => p.type === 'inverter') as Extract<DiagramPart, { type: 'inverter' }>;
+
+  it('edits a battery\u2019s pulse current and duration, reading "1.2 kA" and "500 ms"', async () => {
+    openOn('bat1');
+    const user = userEvent.setup();
+    const pulse = screen.getByLabelText('Max pulse current');
+    // A new 100 Ah LFP battery: 2C = 200 A for 5 s (common practice, from memory).
+    expect(pulse).toHaveValue('200');
+    expect(screen.getByLabelText('Pulse duration')).toHaveValue('5');
+    await user.clear(pulse);
+    await user.type(pulse, '1.2 kA');
+    expect(battery().props.max_pulse_A).toBe(1200);
+    const duration = screen.getByLabelText('Pulse duration');
+    await user.clear(duration);
+    await user.type(duration, '500 ms');
+    expect(battery().props.pulse_s).toBe(0.5);
+  });
+
+  it('says what an empty pulse field stands for', async () => {
+    openOn('bat1');
+    const user = userEvent.setup();
+    await user.clear(screen.getByLabelText('Max pulse current'));
+    expect(battery().props.max_pulse_A).toBeUndefined();
+    // 2C × 100 Ah for LFP (common practice, from memory).
+    expect(screen.getByText(/when empty, 200 A, typical for Lithium iron phosphate/)).toBeInTheDocument();
+  });
+
+  it('edits an inverter\u2019s surge, reading "4.5 kW"; empty, it is 2 × the continuous rating for 5 s', async () => {
+    const inv = busbarBankTemplate({ count: 2 }).parts.find((p) => p.type === 'inverter')!;
+    openBusbarOn(inv.id);
+    const user = userEvent.setup();
+    const rated = inverter().props.rated_W ?? inverter().props.power_W;
+    // 2 × the continuous rating for 5 s when not given (common practice, from memory).
+    expect(screen.getByText(`Optional; when empty, ${2 * rated} W (2 × the continuous rating, common practice)`)).toBeInTheDocument();
+    expect(screen.getByText('Optional; when empty, 5 s (common practice)')).toBeInTheDocument();
+    const surge = screen.getByLabelText('Surge power');
+    await user.type(surge, '4.5 kW');
+    expect(inverter().props.surge_W).toBe(4500);
+    await user.type(screen.getByLabelText('Surge duration'), '3');
+    expect(inverter().props.surge_s).toBe(3);
+  });
+
+  it('names a fuse\u2019s terminals for what they face in the cable\u2019s end pickers', () => {
+    // The template's link from Battery 1's post to Fuse 1: terminal a is the battery side, b the bank side.
+    openBusbarOn('c-fuse1');
+    const to = screen.getByLabelText('To') as HTMLSelectElement;
+    expect(to.selectedOptions[0].textContent).toBe('Fuse 1 · battery side');
+    const labels = [...to.options].map((o) => o.textContent);
+    expect(labels).toContain('Fuse 1 · bank side');
+    expect(labels.some((l) => /Fuse 1 · (a|b)$/.test(l ?? ''))).toBe(false);
   });
 });

@@ -6,7 +6,8 @@ import { memo, useCallback, useId, useMemo } from 'react';
 import { useShallow } from 'zustand/react/shallow';
 import { cableSchema, settingsSchema, terminalsOf, type DiagramCable, type DiagramPart } from '@shared/diagram';
 import {
-  BATTERY_PRESETS, CONDUCTOR_PRESETS, FUSE_PRESETS, PART_TYPES, cableRunPropsSchema, type PartType,
+  BATTERY_PRESETS, CONDUCTOR_PRESETS, FUSE_PRESETS, PART_TYPES, TYPICAL_SURGE_FACTOR, batteryMaxPulse_A, batteryPulse_s,
+  cableRunPropsSchema, inverterSurge_s, inverterSurge_W, type BatteryProps, type InverterProps, type PartType,
 } from '@shared/electrical/parts';
 import { CHEMISTRIES, CHEMISTRY_IDS } from '@shared/electrical/tables/batteries';
 import { FUSE_CLASSES, FUSE_CLASS_IDS, STANDARD_FUSE_RATINGS_A } from '@shared/electrical/tables/fuses';
@@ -16,7 +17,20 @@ import { Button } from '@/components/Button';
 import { TrashIcon } from '@/components/icons';
 import { useTeamLibrary } from '../Palette';
 import { useEditorStore } from '../store';
-import { DraftField, PresetSelect, SpecForm, type FieldSpec } from './fields';
+import { DraftField, PresetSelect, SpecForm, getPath, type FieldSpec } from './fields';
+
+/** What an empty battery limit field stands for: the chemistry's typical figure (common practice, from memory). */
+function batteryLimitHint(prefix: string, pick: (b: BatteryProps) => string) {
+  return (whole: unknown): string | undefined => {
+    const b = (prefix ? getPath(whole, prefix.slice(0, -1)) : whole) as BatteryProps | undefined;
+    return b?.chemistry && b.capacity_Ah > 0 ? `Optional; when empty, ${pick(b)}, typical for ${CHEMISTRIES[b.chemistry].name} (from the battery's own data where it gives one)` : 'Optional';
+  };
+}
+
+const inverterHint = (pick: (p: InverterProps) => string) => (whole: unknown) => {
+  const p = whole as InverterProps;
+  return p && p.power_W !== undefined ? `Optional; when empty, ${pick(p)}` : 'Optional';
+};
 
 const chemistryOptions = CHEMISTRY_IDS.map((id) => ({ value: id, label: CHEMISTRIES[id].name }));
 
@@ -29,6 +43,14 @@ const batteryFields = (prefix = ''): FieldSpec[] => [
   { kind: 'number', key: `${prefix}restingVoltage_V`, label: 'Measured resting voltage', unit: 'V', optional: true },
   { kind: 'number', key: `${prefix}max_continuous_A`, label: 'Max continuous current', unit: 'A', optional: true },
   { kind: 'number', key: `${prefix}max_c_rate`, label: 'Max C-rate', unit: 'C', optional: true },
+  {
+    kind: 'number', key: `${prefix}max_pulse_A`, label: 'Max pulse current', unit: 'A', optional: true,
+    hint: batteryLimitHint(prefix, (b) => `${Math.round(batteryMaxPulse_A({ ...b, max_pulse_A: undefined }))} A`),
+  },
+  {
+    kind: 'number', key: `${prefix}pulse_s`, label: 'Pulse duration', unit: 's', optional: true,
+    hint: batteryLimitHint(prefix, (b) => `${batteryPulse_s({ ...b, pulse_s: undefined })} s`),
+  },
   { kind: 'number', key: `${prefix}short_circuit_A`, label: 'Short-circuit current (datasheet)', unit: 'A', optional: true },
   { kind: 'number', key: `${prefix}cells_in_series`, label: 'Cells in series', optional: true, integer: true },
   { kind: 'text', key: `${prefix}model`, label: 'Make and model', optional: true },
@@ -80,6 +102,14 @@ export const PART_FIELDS: Record<PartType, FieldSpec[]> = {
     { kind: 'number', key: 'rated_W', label: 'Continuous rating', unit: 'W', optional: true },
     { kind: 'number', key: 'efficiency', label: 'Efficiency', unit: '%', scale: 100 },
     { kind: 'number', key: 'cutoff_V', label: 'Low-voltage cut-off', unit: 'V', optional: true },
+    {
+      kind: 'number', key: 'surge_W', label: 'Surge power', unit: 'W', optional: true,
+      hint: inverterHint((p) => `${inverterSurge_W({ ...p, surge_W: undefined })} W (${TYPICAL_SURGE_FACTOR} × the continuous rating, common practice)`),
+    },
+    {
+      kind: 'number', key: 'surge_s', label: 'Surge duration', unit: 's', optional: true,
+      hint: inverterHint((p) => `${inverterSurge_s({ ...p, surge_s: undefined })} s (common practice)`),
+    },
   ],
   dc_load: [], // by mode, below
   charger: [
@@ -226,6 +256,15 @@ function TerminalSelect({ label, value, options, onChange, disabled }: { label: 
 }
 
 const TERMINAL_WORD: Record<string, string> = { pos: '+ (positive)', neg: '− (negative)' };
+/** A fuse's terminals are named for what they face: a toward its battery, b toward the bank. */
+const FUSE_TERMINAL_WORD: Record<string, string> = { a: 'battery side', b: 'bank side' };
+
+/** A terminal in words for the connection pickers. */
+function terminalWord(p: DiagramPart, t: string): string {
+  if (p.type === 'fuse' && FUSE_TERMINAL_WORD[t]) return FUSE_TERMINAL_WORD[t];
+  if (p.type === 'busbar') return `tap ${t}`;
+  return TERMINAL_WORD[t] ?? t;
+}
 
 function CableProperties({ cable, unitSystem, readOnly }: { cable: DiagramCable; unitSystem: UnitSystem; readOnly: boolean }) {
   const parts = useEditorStore((s) => s.doc.parts);
@@ -234,7 +273,7 @@ function CableProperties({ cable, unitSystem, readOnly }: { cable: DiagramCable;
   const terminalOptions = useMemo(
     () =>
       parts.flatMap((p) =>
-        terminalsOf(p).map((t) => ({ value: `${p.id}\u0000${t}`, label: `${describePart(p)} · ${TERMINAL_WORD[t] ?? t}` })),
+        terminalsOf(p).map((t) => ({ value: `${p.id}\u0000${t}`, label: `${describePart(p)} · ${terminalWord(p, t)}` })),
       ),
     [parts],
   );

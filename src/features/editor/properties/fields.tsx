@@ -10,7 +10,11 @@ import { ErrorIcon } from '@/components/icons';
 import { parseConductorInput, parseLengthInput } from '../units';
 
 export type FieldSpec =
-  | { kind: 'number'; key: string; label: string; unit?: string; scale?: number; optional?: boolean; integer?: boolean; suggestions?: number[] }
+  | {
+      kind: 'number'; key: string; label: string; unit?: string; scale?: number; optional?: boolean; integer?: boolean; suggestions?: number[];
+      /** A hint under the field, from the whole value the form edits (e.g. what an empty optional field stands for). */
+      hint?: (whole: unknown) => string | undefined;
+    }
   | { kind: 'select'; key: string; label: string; options: { value: string | number; label: string }[]; optional?: boolean }
   | { kind: 'text' | 'textarea' | 'date'; key: string; label: string; optional?: boolean }
   | { kind: 'bool'; key: string; label: string }
@@ -139,12 +143,26 @@ export function DraftField<T>({ label, value, format, parse, onCommit, disabled,
   );
 }
 
-/** Read a number typed with or without its unit ("100", "100 Ah", "3,5"). */
+/** SI prefixes a value may be typed with before its unit ("2 kW", "500 ms", "1.2 kA"). */
+const SI_PREFIXES: Record<string, number> = { k: 1e3, M: 1e6, m: 1e-3, µ: 1e-6, u: 1e-6 };
+/** Units whose fields take an SI prefix (units such as mΩ or Ah already carry one, or take none). */
+const PREFIXED_UNITS = new Set(['A', 'V', 'W', 's']);
+
+/** Read a number typed with or without its unit ("100", "100 Ah", "3,5"), or with a prefixed unit ("2 kW"). */
 export function parseNumber(text: string, label: string, unit?: string, integer?: boolean): Parsed<number> {
   let s = text.trim().replace(',', '.');
-  if (unit && s.toLowerCase().endsWith(unit.toLowerCase())) s = s.slice(0, -unit.length).trim();
+  let factor = 1;
+  if (unit && s.toLowerCase().endsWith(unit.toLowerCase())) {
+    s = s.slice(0, -unit.length).trim();
+    const prefix = s.slice(-1);
+    if (PREFIXED_UNITS.has(unit) && prefix in SI_PREFIXES && /[\d.]$/.test(s.slice(0, -1).trim())) {
+      factor = SI_PREFIXES[prefix];
+      s = s.slice(0, -1).trim();
+    }
+  }
   if (!/^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i.test(s)) return { ok: false, message: `${label} must be a number${unit ? ` (${unit})` : ''}` };
-  const n = Number(s);
+  // Rounded to 12 significant digits: "1.1 kW" is 1100 W, not 1100.0000000000002.
+  const n = factor === 1 ? Number(s) : Number((Number(s) * factor).toPrecision(12));
   if (integer && !Number.isInteger(n)) return { ok: false, message: `${label} must be a whole number` };
   return { ok: true, value: n };
 }
@@ -174,14 +192,14 @@ export function SpecForm<V>({ specs, value, schema, unitSystem, disabled, onComm
   return (
     <div className="space-y-3">
       {specs.map((spec) => (
-        <SpecField key={spec.key} spec={spec} value={getPath(value, spec.key)} unitSystem={unitSystem} disabled={disabled} tryCommit={tryCommit} />
+        <SpecField key={spec.key} spec={spec} value={getPath(value, spec.key)} whole={value} unitSystem={unitSystem} disabled={disabled} tryCommit={tryCommit} />
       ))}
     </div>
   );
 }
 
-function SpecField({ spec, value, unitSystem, disabled, tryCommit }: {
-  spec: FieldSpec; value: unknown; unitSystem: UnitSystem; disabled?: boolean;
+function SpecField({ spec, value, whole, unitSystem, disabled, tryCommit }: {
+  spec: FieldSpec; value: unknown; whole: unknown; unitSystem: UnitSystem; disabled?: boolean;
   tryCommit: (spec: FieldSpec, v: unknown, scale?: number, unit?: string) => string | null;
 }) {
   const listId = useId();
@@ -203,7 +221,7 @@ function SpecField({ spec, value, unitSystem, disabled, tryCommit }: {
             onCommit={(v) => tryCommit(spec, v, scale, spec.unit)}
             listId={spec.suggestions ? listId : undefined}
             suffix={spec.unit ? <span className="bw-unit">{spec.unit}</span> : null}
-            hint={spec.optional ? 'Optional' : undefined}
+            hint={spec.hint?.(whole) ?? (spec.optional ? 'Optional' : undefined)}
           />
           {spec.suggestions ? (
             <datalist id={listId}>
