@@ -9,7 +9,8 @@
 import { useEffect } from 'react';
 import { create } from 'zustand';
 import type { DiagramDocument } from '@shared/diagram';
-import type { AnalysisResult, SizingResult } from '@shared/electrical';
+import type { AnalysisResult } from '@shared/electrical';
+import type { SizingWithPlan } from '@shared/electrical/sizing';
 import { useEditorStore, type AnalysisOptions } from '../store';
 import type { AnalysisRequest, AnalysisResponse, Job, TakeoffExploration } from './engine';
 
@@ -67,8 +68,8 @@ function docKey(doc: DiagramDocument): string {
 }
 
 function inputKey(job: Job): string {
-  const { doc, analysis } = useEditorStore.getState();
-  return job === 'analyze' ? `${optionsKey(analysis)}|${docKey(doc)}` : docKey(doc);
+  const { doc, analysis, unitSystem } = useEditorStore.getState();
+  return job === 'analyze' ? `${optionsKey(analysis)}|${docKey(doc)}` : job === 'sizing' ? `${unitSystem}|${docKey(doc)}` : docKey(doc);
 }
 
 const setSlot = (job: Job, slot: Slot<unknown>) => useCoreResults.setState({ [job]: slot } as Partial<CoreState>);
@@ -105,18 +106,18 @@ function ensureWorker(): Worker | null {
 }
 
 function post(job: Job) {
-  const { doc, analysis } = useEditorStore.getState();
+  const { doc, analysis, unitSystem } = useEditorStore.getState();
   const key = inputKey(job);
   const seq = ++seqs[job];
   const w = ensureWorker();
   if (w) {
     pendingKeys[job].set(seq, key);
-    w.postMessage({ job, seq, doc, options: analysis } satisfies AnalysisRequest);
+    w.postMessage({ job, seq, doc, options: analysis, unitSystem } satisfies AnalysisRequest);
     return;
   }
   // No worker (component tests, very old browsers): compute on this thread, the core loaded on demand.
   import('./engine')
-    .then(({ runJob }) => onAnswer({ job, seq, ok: true, output: runJob({ job, doc, options: analysis }) }, key))
+    .then(({ runJob }) => onAnswer({ job, seq, ok: true, output: runJob({ job, doc, options: analysis, unitSystem }) }, key))
     .catch((err: unknown) => onAnswer({ job, seq, ok: false, message: err instanceof Error ? err.message : String(err) }, key));
 }
 
@@ -133,8 +134,8 @@ function start() {
   clearTimeout(stopTimer);
   if (unsubscribe) return;
   unsubscribe = useEditorStore.subscribe((s, prev) => {
-    if (s.doc === prev.doc && s.analysis === prev.analysis) return;
-    for (const job of JOBS) if (s.doc !== prev.doc || job === 'analyze') schedule(job);
+    if (s.doc === prev.doc && s.analysis === prev.analysis && s.unitSystem === prev.unitSystem) return;
+    for (const job of JOBS) if (s.doc !== prev.doc || (job === 'analyze' && s.analysis !== prev.analysis) || (job === 'sizing' && s.unitSystem !== prev.unitSystem)) schedule(job);
   });
 }
 
@@ -190,9 +191,9 @@ export function useAnalysisResult(): AnalysisView {
 }
 
 /** Per-branch sizing suggestions of the editor's document. */
-export function useSizing(enabled = true): Slot<SizingResult> {
+export function useSizing(enabled = true): Slot<SizingWithPlan> {
   useCoreJob('sizing', enabled);
-  return useCoreResults((s) => s.sizing) as Slot<SizingResult>;
+  return useCoreResults((s) => s.sizing) as Slot<SizingWithPlan>;
 }
 
 /** The take-off layouts, computed while `enabled`. */
@@ -204,8 +205,9 @@ export function useTakeoffExploration(enabled: boolean): Slot<TakeoffExploration
 /** Whether a slot's output is for the editor's current document (not an earlier one). */
 export function useIsCurrent(job: Job): boolean {
   const doc = useEditorStore((s) => s.doc);
+  const unitSystem = useEditorStore((s) => s.unitSystem);
   const key = useCoreResults((s) => s[job].key);
-  return key !== null && key === docKey(doc);
+  return key !== null && key === (job === 'sizing' ? `${unitSystem}|${docKey(doc)}` : docKey(doc));
 }
 
 /** Forget every result and stop the worker (tests). */
