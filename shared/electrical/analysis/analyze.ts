@@ -11,18 +11,24 @@
  * - fault: the sweep over every fault case (faults.ts), or one case in full with `fault`.
  * - discharge: states of charge stepped under the load until the first battery reaches its cut-off.
  * Findings always come from the load case and the fault sweep (the design checks), whatever the mode.
+ *
+ * Parts that are not connected do not stop it: the connected remainder is analysed and the result names
+ * what was left out (`notConnected`), each loose part keeping an error finding. A short drawn in the
+ * diagram stops it, with the shorting conductors and the prospective current through them (`shorts`,
+ * `shortCircuit`). See partial.ts.
  */
 import type { DiagramDocument } from '../../diagram/schema';
 import { prepareNetwork, solvePrepared, type PreparedNetwork } from '../network/fast';
 import type { SolveOutcome } from '../network/types';
 import { RULES } from '../rules/rules';
 import { runRules } from '../rules/registry';
-import { type AnalysisContext, buildContext, modeNetwork } from './context';
+import { type AnalysisContext, modeNetwork } from './context';
 import { bankFigures } from './bank';
 import { contingencyStudy } from './contingency';
 import { dischargeAnalysis } from './discharge';
 import { DEFAULT_FAULT_OHM, faultSweep, prepareFaults, type PreparedFaults } from './faults';
 import { operatingPoint } from './operating';
+import { buildAround } from './partial';
 import { diagramTopology } from './topology';
 import type { AnalysisIssue, AnalysisOk, AnalysisResult, AnalyzeOptions, Finding, OperatingPoint } from './types';
 import { amps } from '../rules/rules';
@@ -84,14 +90,17 @@ export function analyzeDiagram(doc: DiagramDocument, options: AnalyzeOptions = {
   const mode = options.mode ?? 'load';
   const fault_ohm = options.faultResistance_ohm !== undefined && options.faultResistance_ohm > 0 ? options.faultResistance_ohm : DEFAULT_FAULT_OHM;
   const wantRules = options.rules !== false;
-  const built = buildContext(doc);
+  // Loose parts are left out and the connected remainder solved; a drawn short is studied (partial.ts).
+  const built = buildAround(doc);
   if (!built.ok) {
     const topo = diagramTopology(doc);
     const findings = wantRules ? runRules(RULES, { doc, topo, ctx: null, load: null, faults: null, compileErrors: built.errors }) : [];
-    return { ok: false, mode, stage: 'compile', errors: built.errors, findings };
+    const { shorts, shortCircuit, notConnected } = built;
+    return { ok: false, mode, stage: 'compile', errors: built.errors, findings, ...(shorts ? { shorts, shortCircuit } : {}), ...(notConnected ? { notConnected } : {}) };
   }
+  // The rules see the remainder the figures are for (ctx.doc), and the loose parts' errors.
   const ctx = built.ctx;
-  const notes: AnalysisIssue[] = ctx.compileNotes.map((n) => ({ code: n.code, message: n.message, parts: n.parts }));
+  const notes: AnalysisIssue[] = [...ctx.compileNotes.map((n) => ({ code: n.code, message: n.message, parts: n.parts })), ...built.notes];
 
   // The load case feeds the rules and the bank's C-rate in every mode.
   const needLoad = wantRules || mode === 'load';
@@ -99,7 +108,7 @@ export function analyzeDiagram(doc: DiagramDocument, options: AnalyzeOptions = {
   const load = loadCase && 'op' in loadCase ? loadCase.op : null;
   if (loadCase && 'error' in loadCase) {
     if (mode === 'load') {
-      const findings = wantRules ? runRules(RULES, { doc, topo: ctx.topo, ctx, load: null, faults: null, compileErrors: [] }) : [];
+      const findings = wantRules ? runRules(RULES, { doc: ctx.doc, topo: ctx.topo, ctx, load: null, faults: null, compileErrors: built.compileErrors }) : [];
       return { ok: false, mode, stage: 'solve', errors: [loadCase.error], findings };
     }
     notes.push({ ...loadCase.error, message: `Load case: ${loadCase.error.message}` });
@@ -114,12 +123,13 @@ export function analyzeDiagram(doc: DiagramDocument, options: AnalyzeOptions = {
   const faults = prepared?.fn ? faultSweep(ctx, prepared, fault_ohm) : null;
 
   const result: AnalysisOk = { ok: true, mode, bank: bankFigures(ctx, load), operating: null, findings: [], notes };
+  if (built.notConnected.length) Object.assign(result, { notConnected: built.notConnected, openTerminals: built.openTerminals });
   if (faults) result.faults = faults;
   const fail = (error: AnalysisIssue): AnalysisResult => ({ ok: false, mode, stage: 'solve', errors: [error], findings: result.findings });
 
   // The N-1 study (each unit disconnected in turn) on the load case's factorization, for its rules.
   const contingency = wantRules && loadCase && 'op' in loadCase ? contingencyStudy(ctx, loadCase.prep) : null;
-  if (wantRules) result.findings = runRules(RULES, { doc, topo: ctx.topo, ctx, load, faults, contingency, compileErrors: [] });
+  if (wantRules) result.findings = runRules(RULES, { doc: ctx.doc, topo: ctx.topo, ctx, load, faults, contingency, compileErrors: built.compileErrors });
 
   switch (mode) {
     case 'load':

@@ -3,7 +3,6 @@
  * keyed by diagram ids so the editor can put them on the canvas. SI units; field names end in them.
  */
 import type { PartType } from '../parts/registry';
-import type { AmpacityDerating } from '../tables/ampacity';
 
 export type Severity = 'error' | 'warning' | 'note';
 
@@ -92,8 +91,6 @@ export interface CableFigures {
   ampacityColumn_C?: number;
   /** How the insulation rating affected the ampacity ("60 °C insulation: read from the 60 °C column"). */
   ampacityNote?: string;
-  /** The ampacity's derating chain, factor by factor (table value, ambient, bundling, engine space, terminations). */
-  ampacityDerating?: AmpacityDerating;
 }
 
 export interface PartFigures {
@@ -221,6 +218,38 @@ export interface AnalysisOk {
   findings: Finding[];
   /** Compiler and analysis notes (not rule findings). */
   notes: AnalysisIssue[];
+  /**
+   * Parts and cables left out of the figures because they are not connected (a terminal open as drawn,
+   * or a run that leads only to such a part); present only when something was left out. The figures are
+   * those of the connected remainder; each loose part also has an error finding, so the checks still fail.
+   */
+  notConnected?: string[];
+  /** The parts among them with a terminal open as drawn, and those terminals; the rest lead only to them. */
+  openTerminals?: Record<string, string[]>;
+}
+
+/** A short drawn in the diagram: a source's terminals joined by conductors alone, and the current it would drive. */
+export interface DrawnShort {
+  code: 'shorted_source' | 'reversed_polarity' | 'zero_resistance_loop';
+  /** The batteries, strings or chargers shorted. */
+  sources: string[];
+  /** The cables and in-line parts that close the short. */
+  conductors: string[];
+  /** Prospective current through each shorting conductor, A (magnitude). */
+  currents_A: Record<string, number>;
+  /** The largest of them, A, and the conductor that carries it. */
+  current_A: number;
+  through: string;
+}
+
+/** Every current with the drawn shorts in place (loads off, chargers at their limit), A. */
+export interface ShortCircuitFigures {
+  /** Out of each battery or string (positive discharging). */
+  sources: Record<string, number>;
+  /** Through each cable, signed from its `from` end to its `to` end. */
+  cables: Record<string, number>;
+  /** Through each in-line part (fuse, switch, shunt, lug; a busbar: its largest segment), magnitude. */
+  parts: Record<string, number>;
 }
 
 export interface AnalysisFailed {
@@ -230,6 +259,12 @@ export interface AnalysisFailed {
   errors: AnalysisIssue[];
   /** The errors as findings, plus any checks that need no solution. */
   findings: Finding[];
+  /** Shorts drawn in the diagram, with the prospective current through their conductors (compile stage). */
+  shorts?: DrawnShort[];
+  /** Every fuse's, cable's and battery's current with those shorts in place (for the fault view). */
+  shortCircuit?: ShortCircuitFigures;
+  /** Parts and cables left out of the short study because they are not connected. */
+  notConnected?: string[];
 }
 
 export type AnalysisResult = AnalysisOk | AnalysisFailed;

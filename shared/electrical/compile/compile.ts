@@ -39,7 +39,19 @@ export interface CompileIssue {
 
 export interface CompileError extends CompileIssue {
   code: CompileErrorCode;
+  /**
+   * A short (shorted_source, reversed_polarity, or a zero_resistance_loop that joins a source's own
+   * terminals): the cables and in-line parts that close it — every conductor on a path between the
+   * shorted sources' terminals that runs through conductors alone (the sources' own internal jumpers
+   * left out).
+   */
+  conductors?: string[];
 }
+
+/** Compile error codes that are a source shorted by conductors: the network still solves, with the short in it. */
+export const SHORT_CODES: ReadonlySet<CompileErrorCode> = new Set(['shorted_source', 'reversed_polarity', 'zero_resistance_loop']);
+/** Compile error codes for parts left unconnected. */
+export const LOOSE_CODES: ReadonlySet<CompileErrorCode> = new Set(['floating_part', 'unconnected_terminal']);
 
 export interface CompileMap {
   parts: Record<string, { elements: string[]; nodes: Record<string, string> }>;
@@ -51,6 +63,22 @@ export interface CompileMap {
 export type CompileResult =
   | { ok: true; network: Network; map: CompileMap; systemVoltage: number; notes: CompileIssue[] }
   | { ok: false; errors: CompileError[] };
+
+/**
+ * A diagram whose only structural errors are shorts, compiled with the shorts in it (see
+ * `compileWithShorts`): zero-resistance conductors are kept as SHORT_STUDY_FLOOR_OHM resistors rather
+ * than merged, so every shorting conductor carries its own current.
+ */
+export type ShortedCompileResult =
+  | { ok: true; network: Network; map: CompileMap; shorts: CompileError[] }
+  | { ok: false; errors: CompileError[] };
+
+/**
+ * Resistance given to a zero-resistance conductor (a 0 m run without lugs, a 0 Ω joint) in a short
+ * study, Ω: far below any battery's internal resistance (milliohms), so the prospective current is
+ * unchanged to the digits shown, and each conductor keeps a current of its own.
+ */
+export const SHORT_STUDY_FLOOR_OHM = 1e-6;
 
 const MAX_ERRORS = 50;
 
@@ -100,6 +128,22 @@ const definitionOf = (p: DiagramPart) => PART_TYPES[p.type] as unknown as PartDe
 
 /** Compile a validated diagram document into a solver network. */
 export function compileDiagram(doc: DiagramDocument): CompileResult {
+  const r = compile(doc, false);
+  return 'shorts' in r ? { ok: false, errors: r.shorts } : r;
+}
+
+/**
+ * Compile a diagram whose only structural errors are sources shorted by conductors (SHORT_CODES), with
+ * the shorts left in the network, for a study of the prospective current through them. Fails like
+ * `compileDiagram` on any other error (and on a diagram with no short).
+ */
+export function compileWithShorts(doc: DiagramDocument): ShortedCompileResult {
+  const r = compile(doc, true);
+  if ('shorts' in r) return r;
+  return r.ok ? { ok: false, errors: [] } : r;
+}
+
+function compile(doc: DiagramDocument, keepShorts: boolean): CompileResult | Extract<ShortedCompileResult, { ok: true }> {
   const errors: CompileError[] = [];
   const notes: CompileIssue[] = [];
   const ctx = { ambient_C: doc.settings.ambient_C, systemVoltage_V: doc.settings.systemVoltage_V };
@@ -135,18 +179,14 @@ export function compileDiagram(doc: DiagramDocument): CompileResult {
   const floating = new Set<string>();
   for (const p of electrical) {
     const { terminals, nodeOf } = partTerminals.get(p.id)!;
-    const used = terminals.filter((t) => cablesAt.has(nodeOf.get(t)!));
-    if (used.length === 0) {
+    const open = terminals.filter((t) => !cablesAt.has(nodeOf.get(t)!));
+    if (open.length === terminals.length) {
       floating.add(p.id);
-      errors.push({ code: 'floating_part', message: `${describe(p)} is not connected to anything`, parts: [p.id] });
+      errors.push({ code: 'floating_part', message: `${partName(p)} is not connected: no terminal is wired`, parts: [p.id] });
       continue;
     }
-    if (p.type === 'busbar') continue; // spare busbar studs are normal
-    for (const t of terminals) {
-      if (!cablesAt.has(nodeOf.get(t)!)) {
-        errors.push({ code: 'unconnected_terminal', message: `${describe(p)}: terminal "${t}" is not connected`, parts: [p.id] });
-      }
-    }
+    if (p.type === 'busbar' || open.length === 0) continue; // spare busbar studs are normal
+    errors.push({ code: 'unconnected_terminal', message: `${partName(p)} is not connected: ${terminalWords(p, open)}`, parts: [p.id] });
   }
 
   // --- Elements ----------------------------------------------------------------------------------------
@@ -207,6 +247,9 @@ export function compileDiagram(doc: DiagramDocument): CompileResult {
       errors.push({ code: 'invalid_value', message: `Element ${el.id} has a value that is not a finite number`, parts: [owner.id] });
     }
   }
+
+  // Before any merging: the elements as drawn, for naming the conductors of a short and for its study.
+  const drawn = raw.map(({ el, owner }) => ({ el, owner }));
 
   // --- Zero-resistance elements merge nodes ----------------------------------------------------------------
   const zero = new UnionFind();
@@ -270,7 +313,17 @@ export function compileDiagram(doc: DiagramDocument): CompileResult {
     });
   }
 
-  if (errors.length > 0) return { ok: false, errors: errors.slice(0, MAX_ERRORS) };
+  if (errors.length > 0) {
+    for (const e of errors) {
+      if (!SHORT_CODES.has(e.code)) continue;
+      // A loop of ideal sources is a short only where it joins one source's own terminals.
+      const shorted = e.code === 'zero_resistance_loop' ? e.parts.filter((id) => idealParts.some((s) => s.part === id && node(s.pos) === node(s.neg))) : e.parts;
+      const conductors = shorted.length ? shortingConductors(drawn, shorted) : [];
+      if (conductors.length) e.conductors = conductors;
+    }
+    if (keepShorts && errors.every((e) => SHORT_CODES.has(e.code) && e.conductors)) return shortStudyNetwork(drawn, map, terminalNode(groundPart.id, groundTerminal), errors);
+    return { ok: false, errors: errors.slice(0, MAX_ERRORS) };
+  }
 
   for (const { el, owner } of elements) {
     map.elementOwner[el.id] = owner;
@@ -293,6 +346,136 @@ export function compileDiagram(doc: DiagramDocument): CompileResult {
     systemVoltage: doc.settings.systemVoltage_V,
     notes,
   };
+}
+
+/**
+ * The network of a short study: the elements as drawn, zero-resistance conductors kept as
+ * SHORT_STUDY_FLOOR_OHM resistors (not merged), so each shorting conductor has a current of its own.
+ */
+function shortStudyNetwork(
+  drawn: { el: NetworkElement; owner: { kind: 'part' | 'cable'; id: string } }[],
+  map: CompileMap,
+  ground: string,
+  shorts: CompileError[],
+): Extract<ShortedCompileResult, { ok: true }> {
+  const elements: NetworkElement[] = [];
+  const nodes = new Set<string>();
+  for (const { el, owner } of drawn) {
+    const e = el.kind === 'resistor' && el.r_ohm === 0 ? { ...el, r_ohm: SHORT_STUDY_FLOOR_OHM } : el;
+    elements.push(e);
+    for (const n of elementNodes(e)) nodes.add(n);
+    map.elementOwner[e.id] = owner;
+    (owner.kind === 'part' ? map.parts[owner.id] : map.cables[owner.id]).elements.push(e.id);
+  }
+  return { ok: true, network: { ground, nodes: [...nodes], elements }, map, shorts };
+}
+
+/**
+ * The conductors that short `sources`: every conductor (a resistor that is not an open switch) lying
+ * on a path between a source's terminals through conductors alone. Such a path and the source form a
+ * loop, so the conductor and the source's element sit in one biconnected block of the graph whose edges
+ * are the conductors and the sources' own elements (two edges lie on a common simple cycle exactly when
+ * they are in one block). Returns the owners of those conductors, the sources themselves left out.
+ */
+function shortingConductors(drawn: { el: NetworkElement; owner: { kind: 'part' | 'cable'; id: string } }[], sources: string[]): string[] {
+  const own = new Set(sources);
+  const edges: { a: string; b: string; owner: string; seed: boolean }[] = [];
+  for (const { el, owner } of drawn) {
+    if (el.kind === 'resistor' && el.role !== 'switch_open') edges.push({ a: el.a, b: el.b, owner: owner.id, seed: false });
+    else if ((el.kind === 'battery' || el.kind === 'voltage_source') && own.has(owner.id)) edges.push({ a: el.pos, b: el.neg, owner: owner.id, seed: true });
+  }
+  const block = biconnectedBlocks(edges);
+  const seeded = new Set<number>();
+  edges.forEach((e, i) => {
+    if (e.seed && block[i] >= 0) seeded.add(block[i]);
+  });
+  const out: string[] = [];
+  edges.forEach((e, i) => {
+    if (!e.seed && block[i] >= 0 && seeded.has(block[i]) && !own.has(e.owner)) out.push(e.owner);
+  });
+  return unique(out);
+}
+
+/**
+ * The biconnected block of each edge of an undirected multigraph (Tarjan's algorithm, iterative): an
+ * index per edge, −1 for a self-loop.
+ */
+function biconnectedBlocks(edges: { a: string; b: string }[]): number[] {
+  const index = new Map<string, number>();
+  const id = (n: string) => {
+    let i = index.get(n);
+    if (i === undefined) index.set(n, (i = index.size));
+    return i;
+  };
+  const ends = edges.map((e) => [id(e.a), id(e.b)] as const);
+  const adj: { to: number; edge: number }[][] = Array.from({ length: index.size }, () => []);
+  ends.forEach(([a, b], e) => {
+    if (a === b) return;
+    adj[a].push({ to: b, edge: e });
+    adj[b].push({ to: a, edge: e });
+  });
+  const block = new Array<number>(edges.length).fill(-1);
+  const disc = new Int32Array(index.size).fill(-1);
+  const low = new Int32Array(index.size);
+  const stack: number[] = [];
+  let time = 0;
+  let blocks = 0;
+  for (let root = 0; root < index.size; root++) {
+    if (disc[root] >= 0) continue;
+    disc[root] = low[root] = time++;
+    const frames: { node: number; via: number; next: number }[] = [{ node: root, via: -1, next: 0 }];
+    while (frames.length) {
+      const f = frames[frames.length - 1];
+      if (f.next < adj[f.node].length) {
+        const { to, edge } = adj[f.node][f.next++];
+        if (edge === f.via) continue;
+        if (disc[to] < 0) {
+          stack.push(edge);
+          disc[to] = low[to] = time++;
+          frames.push({ node: to, via: edge, next: 0 });
+        } else if (disc[to] < disc[f.node]) {
+          stack.push(edge); // a back edge
+          low[f.node] = Math.min(low[f.node], disc[to]);
+        }
+        continue;
+      }
+      frames.pop();
+      const parent = frames[frames.length - 1];
+      if (!parent) continue;
+      low[parent.node] = Math.min(low[parent.node], low[f.node]);
+      if (low[f.node] >= disc[parent.node]) {
+        // The edges above f.via on the stack, and f.via, form one block.
+        for (;;) {
+          const e = stack.pop()!;
+          block[e] = blocks;
+          if (e === f.via) break;
+        }
+        blocks++;
+      }
+    }
+  }
+  return block;
+}
+
+/** A part as named in messages: its label, else its type's name. */
+function partName(p: DiagramPart): string {
+  return p.label || PART_TYPES[p.type].name;
+}
+
+/** A terminal in words, as the editor names it: "positive", "battery side" (a fuse's a), "tap t3", "terminal a". */
+export function terminalWord(type: string, terminal: string): string {
+  if (terminal === 'pos') return 'positive';
+  if (terminal === 'neg') return 'negative';
+  if (type === 'fuse' && (terminal === 'a' || terminal === 'b')) return terminal === 'a' ? 'battery side' : 'bank side';
+  if (type === 'busbar') return `tap ${terminal}`;
+  return `terminal ${terminal}`;
+}
+
+/** Open terminals in words: "negative terminal", "positive and negative terminals", "battery side". */
+function terminalWords(p: DiagramPart, open: readonly string[]): string {
+  const words = open.map((t) => terminalWord(p.type, t));
+  const joined = words.length > 1 ? `${words.slice(0, -1).join(', ')} and ${words[words.length - 1]}` : words[0];
+  return open.every((t) => t === 'pos' || t === 'neg') ? `${joined} terminal${open.length > 1 ? 's' : ''}` : joined;
 }
 
 function describe(p: DiagramPart): string {

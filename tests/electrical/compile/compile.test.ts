@@ -3,7 +3,7 @@ import {
   type DiagramDocument, type DiagramDocumentInput, busbarBankTemplate, diagramSchema, postToPostTemplate,
   seriesParallelTemplate,
 } from '../../../shared/diagram';
-import { compileDiagram } from '../../../shared/electrical/compile';
+import { SHORT_STUDY_FLOOR_OHM, compileDiagram, compileWithShorts } from '../../../shared/electrical/compile';
 import { batteryDefaults, busbarDefaults, chargerDefaults } from '../../../shared/electrical/parts';
 import { solveNetwork } from '../../../shared/electrical/network/solve';
 import type { CableRunProps } from '../../../shared/electrical/parts';
@@ -148,14 +148,14 @@ describe('structural errors name the parts', () => {
     const d = postToPostTemplate({ count: 2, takeOff: 'same-end' });
     d.cables = d.cables.filter((c) => c.id !== 'c-main-neg');
     const r = compileDiagram(d);
-    expect(!r.ok && r.errors).toEqual([expect.objectContaining({ code: 'unconnected_terminal', parts: ['inverter'], message: expect.stringMatching(/"neg"/) })]);
+    expect(!r.ok && r.errors).toEqual([expect.objectContaining({ code: 'unconnected_terminal', parts: ['inverter'], message: 'Inverter is not connected: negative terminal' })]);
   });
 
   it('a floating part; a note is not electrical', () => {
     const d = simple();
     d.parts.push({ ...battery('spare', 900), label: 'Spare', rotation: 0 }, { id: 'memo', type: 'note', label: '', rotation: 0, position: { x: 0, y: 0 }, props: { text: 'Check torque' } });
     const r = compileDiagram(d);
-    expect(!r.ok && r.errors).toEqual([expect.objectContaining({ code: 'floating_part', parts: ['spare'] })]);
+    expect(!r.ok && r.errors).toEqual([expect.objectContaining({ code: 'floating_part', parts: ['spare'], message: 'Spare is not connected: no terminal is wired' })]);
   });
 
   it('reversed polarity: one battery’s + to the other’s − in a parallel pair', () => {
@@ -170,6 +170,7 @@ describe('structural errors name the parts', () => {
     );
     const r = compileDiagram(d);
     expect(!r.ok && r.errors).toEqual([expect.objectContaining({ code: 'reversed_polarity', parts: expect.arrayContaining(['b1', 'b2']) })]);
+    expect(!r.ok && [...r.errors[0].conductors!].sort()).toEqual(['j1', 'j2']);
   });
 
   it('two batteries correctly in series are not an error', () => {
@@ -224,6 +225,8 @@ describe('structural errors name the parts', () => {
     );
     const r = compileDiagram(d);
     expect(!r.ok && r.errors).toEqual([expect.objectContaining({ code: 'shorted_source', parts: ['b1'] })]);
+    // The short runs b1 + → c1 → busbar → c2 → b1 −; the load's leads end on the load, not in the loop.
+    expect(!r.ok && [...r.errors[0].conductors!].sort()).toEqual(['bus', 'c1', 'c2']);
   });
 
   it('a zero-resistance loop between ideal sources', () => {
@@ -239,6 +242,8 @@ describe('structural errors name the parts', () => {
     );
     const r = compileDiagram(d);
     expect(!r.ok && r.errors).toEqual([expect.objectContaining({ code: 'zero_resistance_loop', parts: ['ch1', 'ch2'] })]);
+    // Two chargers in parallel: a loop of sources, but neither's own terminals are joined — not a short.
+    expect(!r.ok && r.errors[0].conductors).toBeUndefined();
     // With internal resistance the same wiring is fine.
     for (const p of d.parts) if (p.type === 'charger') p.props = { ...p.props, r_internal_ohm: 0.01 };
     expect(compileDiagram(d).ok).toBe(true);
@@ -261,5 +266,48 @@ describe('structural errors name the parts', () => {
     ]);
     expect(codes(compileDiagram(noSource))).toContain('no_source');
     expect(codes(compileDiagram(doc([], [])))).toEqual(['empty_diagram']);
+  });
+});
+
+describe('shorts: the conductors that close them, and the network with the short in it', () => {
+  const bank = (shortLength_m: number) =>
+    doc(
+      [battery('b1'), battery('b2', 200), load()],
+      [
+        { id: 'jp', from: end('b1', 'pos'), to: end('b2', 'pos'), props: cable({ role: 'jumper', length_m: 0.3 }) },
+        { id: 'jn', from: end('b1', 'neg'), to: end('b2', 'neg'), props: cable({ role: 'jumper', length_m: 0.3 }) },
+        { id: 'c1', from: end('b1', 'pos'), to: end('load', 'pos'), props: cable() },
+        { id: 'c2', from: end('b2', 'neg'), to: end('load', 'neg'), props: cable() },
+        { id: 'x', from: end('b2', 'pos'), to: end('b2', 'neg'), props: cable({ length_m: shortLength_m }) },
+      ],
+    );
+
+  it('a run across battery 2 shorts it alone; battery 1 is shorted through the jumpers and that run', () => {
+    const r = compileDiagram(bank(0.5));
+    expect(r.ok).toBe(false);
+    if (r.ok) return;
+    const by = Object.fromEntries(r.errors.map((e) => [e.parts.join(','), [...(e.conductors ?? [])].sort()]));
+    expect(by).toEqual({ b1: ['jn', 'jp', 'x'], b2: ['x'] });
+  });
+
+  it('compileWithShorts keeps the short: a 0 m run is a floor resistance, not a merged node', () => {
+    const r = compileWithShorts(bank(0));
+    expect(r.ok).toBe(true);
+    if (!r.ok) return;
+    const x = r.network.elements.find((e) => e.id === 'x');
+    expect(x?.kind === 'resistor' && x.r_ohm).toBe(SHORT_STUDY_FLOOR_OHM);
+    expect(r.shorts.map((e) => e.code)).toEqual(['shorted_source', 'shorted_source']);
+    // The network solves; the run carries current out of battery 2's positive (Kirchhoff current law at b2 +).
+    const sol = solveNetwork(r.network);
+    expect(sol.ok).toBe(true);
+    if (sol.ok) expect(sol.element_currents_A.x).toBeGreaterThan(1000);
+  });
+
+  it('compileWithShorts refuses a diagram without a short, and one with any other structural error', () => {
+    expect(compileWithShorts(simple()).ok).toBe(false);
+    const open = bank(0.5);
+    open.cables = open.cables.filter((c) => c.id !== 'c2');
+    const r = compileWithShorts(open);
+    expect(!r.ok && r.errors.map((e) => e.code)).toContain('unconnected_terminal');
   });
 });
