@@ -181,6 +181,43 @@ export const batteryDisconnectMissing: Rule = {
 export const MARINE_FUSE_DISTANCE_M = 0.175;
 const MARINE_LIMIT_TEXT = '175 mm (7 in)';
 
+/** A binary min-heap on a numeric key (Dijkstra's frontier). */
+class MinHeap<T> {
+  private items: { item: T; key: number }[] = [];
+  get size(): number {
+    return this.items.length;
+  }
+  push(item: T, key: number): void {
+    const a = this.items;
+    a.push({ item, key });
+    for (let i = a.length - 1; i > 0; ) {
+      const up = (i - 1) >> 1;
+      if (a[up].key <= a[i].key) break;
+      [a[up], a[i]] = [a[i], a[up]];
+      i = up;
+    }
+  }
+  pop(): { item: T; key: number } | undefined {
+    const a = this.items;
+    const top = a[0];
+    const last = a.pop();
+    if (a.length && last) {
+      a[0] = last;
+      for (let i = 0; ; ) {
+        const l = 2 * i + 1;
+        const r = l + 1;
+        let m = i;
+        if (l < a.length && a[l].key < a[m].key) m = l;
+        if (r < a.length && a[r].key < a[m].key) m = r;
+        if (m === i) break;
+        [a[m], a[i]] = [a[i], a[m]];
+        i = m;
+      }
+    }
+    return top;
+  }
+}
+
 /**
  * The nearest fuse to a terminal along the conductors, and the conductor length to it, m (the sum of
  * cable lengths; joints and busbars count as zero). Null when no fuse is reached.
@@ -189,11 +226,10 @@ function nearestFuse(input: RuleInput, start: TerminalRef): { fuse: string; leng
   const { topo } = input;
   const dist = new Map<string, number>([[terminalKey(start.part, start.terminal), 0]]);
   const done = new Set<string>();
-  const frontier: { t: TerminalRef; d: number }[] = [{ t: start, d: 0 }];
-  while (frontier.length) {
-    let bi = 0;
-    for (let i = 1; i < frontier.length; i++) if (frontier[i].d < frontier[bi].d) bi = i;
-    const { t, d } = frontier.splice(bi, 1)[0];
+  const frontier = new MinHeap<TerminalRef>();
+  frontier.push(start, 0);
+  while (frontier.size) {
+    const { item: t, key: d } = frontier.pop()!;
     const k = terminalKey(t.part, t.terminal);
     if (done.has(k)) continue;
     done.add(k);
@@ -203,7 +239,7 @@ function nearestFuse(input: RuleInput, start: TerminalRef): { fuse: string; leng
       const nk = terminalKey(n.part, n.terminal);
       if (done.has(nk) || (dist.get(nk) ?? Infinity) <= nd) return;
       dist.set(nk, nd);
-      frontier.push({ t: n, d: nd });
+      frontier.push(n, nd);
     };
     if (done.size > 1 && part && part.type !== 'fuse' && PART_TYPES[part.type].role === 'conductor' && closedSwitch(part)) {
       for (const other of terminalsOf(part)) relax({ part: part.id, terminal: other }, d);
