@@ -1,12 +1,18 @@
 /**
- * npm run -s check -- DIAGRAM.json [--mode load|charge|equalize|fault|discharge] [--table]
+ * npm run -s check -- DIAGRAM.json [--mode load|charge|equalize|fault|discharge] [--table] [--size] [--apply] [--units metric|us]
  *
  * Reads a diagram file, runs the analysis of the mode (default load) and the rule checks, and prints
- * the result as JSON (default) or as human-readable tables (--table). Exit status 1 when the file
- * cannot be read, is not a valid diagram (errors with JSON paths), or has structural errors; 0
- * otherwise (rule findings do not change the exit status). docs/cli.md.
+ * the result as JSON (default) or as human-readable tables (--table). `--size` adds the sizing
+ * suggestions and their checked plan; `--apply` (implies --size) adds the document with the safe
+ * suggestions applied and its findings before and after. Relative paths are taken from the directory the
+ * command was typed in. Exit status 1 when the file cannot be read, is not a valid diagram (errors with
+ * JSON paths), or has structural errors; 0 otherwise (rule findings do not change the exit status).
+ * docs/cli.md.
  */
 import { readFileSync } from 'node:fs';
+import { resolve } from 'node:path';
+import { applySafeSizing, sizeDiagram, type SizingWithPlan } from '../shared/electrical/sizing';
+import type { UnitSystem } from '../shared/units/format';
 import { parseDiagram } from '../shared/diagram/parse';
 import { analyzeDiagram } from '../shared/electrical/analysis/analyze';
 import type { AnalysisMode, AnalysisResult } from '../shared/electrical/analysis/types';
@@ -15,7 +21,7 @@ const MODES: AnalysisMode[] = ['load', 'charge', 'equalize', 'fault', 'discharge
 const CAUTION = 'Design aid only, not an approval to install: confirm against the parts\u2019 own ratings, local codes and licensed practice.';
 
 function usage(message: string): never {
-  process.stderr.write(`${message}\nusage: npm run -s check -- DIAGRAM.json [--mode ${MODES.join('|')}] [--table]\n`);
+  process.stderr.write(`${message}\nusage: npm run -s check -- DIAGRAM.json [--mode ${MODES.join('|')}] [--table] [--size] [--apply] [--units metric|us]\n`);
   process.exit(1);
 }
 
@@ -23,9 +29,19 @@ const args = process.argv.slice(2);
 let file: string | undefined;
 let mode: AnalysisMode = 'load';
 let table = false;
+let size = false;
+let apply = false;
+let units: UnitSystem | undefined;
 for (let i = 0; i < args.length; i++) {
   const a = args[i];
   if (a === '--table') table = true;
+  else if (a === '--size') size = true;
+  else if (a === '--apply') size = apply = true;
+  else if (a === '--units' || a.startsWith('--units=')) {
+    const v = a.includes('=') ? a.slice(8) : args[++i];
+    if (v !== 'metric' && v !== 'us') usage(`unknown unit system "${v ?? ''}" (metric or us)`);
+    units = v;
+  }
   else if (a === '--mode' || a.startsWith('--mode=')) {
     const v = a.includes('=') ? a.slice(7) : args[++i];
     if (!MODES.includes(v as AnalysisMode)) usage(`unknown mode "${v ?? ''}"`);
@@ -38,7 +54,8 @@ if (!file) usage('no diagram file given');
 
 let text: string;
 try {
-  text = readFileSync(file, 'utf8');
+  // npm runs scripts from the package root; INIT_CWD is where the command was typed.
+  text = readFileSync(resolve(process.env.INIT_CWD ?? process.cwd(), file), 'utf8');
 } catch (e) {
   const out = { file, ok: false, stage: 'read', errors: [{ code: 'unreadable_file', message: `cannot read ${file}: ${(e as NodeJS.ErrnoException).code ?? (e as Error).message}` }] };
   if (table) process.stderr.write(`${out.errors[0].message}\n`);
@@ -58,10 +75,23 @@ if (!parsed.ok) {
 }
 
 const result = analyzeDiagram(parsed.doc, { mode });
-const structural = !result.ok && result.stage === 'compile';
+// Structural errors (an open terminal, a short …) exit 1 even when the connected remainder was analysed.
+const structural = (!result.ok && result.stage === 'compile') || (result.ok && (result.notConnected?.length ?? 0) > 0);
+const sizing: SizingWithPlan | null = size ? sizeDiagram(parsed.doc, units ? { unitSystem: units } : {}) : null;
+let applied: { document: unknown; applied: string[]; refused: { source: string; reasons: string[] }[]; findingsBefore: unknown[]; findingsAfter: unknown[] } | null = null;
+if (apply && sizing?.ok) {
+  const document = applySafeSizing(parsed.doc, sizing);
+  const before = analyzeDiagram(parsed.doc, { mode: 'load' });
+  const after = analyzeDiagram(document, { mode: 'load' });
+  applied = { document, applied: sizing.plan.safe, refused: sizing.plan.refused, findingsBefore: before.findings, findingsAfter: after.findings };
+}
 
 if (!table) {
-  process.stdout.write(JSON.stringify({ file, caution: CAUTION, ...result }) + '\n');
+  const extra = {
+    ...(sizing ? { sizing } : {}),
+    ...(applied ? { document: applied.document, apply: { applied: applied.applied, refused: applied.refused, findingsBefore: applied.findingsBefore, findingsAfter: applied.findingsAfter } } : {}),
+  };
+  process.stdout.write(JSON.stringify({ file, caution: CAUTION, ...result, ...extra }) + '\n');
   process.exit(structural || !result.ok ? 1 : 0);
 }
 
@@ -115,4 +145,18 @@ function tables(r: AnalysisResult) {
   if (!r.findings.length) process.stdout.write('\nFindings: none\n');
 }
 tables(result);
+if (sizing) {
+  if (!sizing.ok) process.stdout.write(`\nSizing: not possible — ${sizing.errors.map((e) => e.message).join('; ')}\n`);
+  else {
+    print('Sizing (suggestions, not approval to install)', ['unit', 'share A', 'N-1 A', 'needs A', 'fuse', 'min conductor', 'status'],
+      sizing.branches.map((b) => [b.source, n(b.share_A), n(b.nMinusOne_A), n(b.required_A), `${b.fuse.rating_A} A ${b.fuse.fuseClass}`, b.minimumConductor ? `${b.minimumConductor.size} ${b.minimumConductor.system}` : '—', b.status]));
+    const plan = sizing.plan;
+    process.stdout.write(`Plan: ${plan.pending.length} to change; ${plan.all ? (plan.all.safe ? 'all safe together' : `not all safe (${plan.all.reasons.join(' ')})`) : 'nothing to change'}; safe set: ${plan.safe.join(', ') || 'none'}\n`);
+    for (const r of plan.refused) process.stdout.write(`  refused ${r.source}: ${r.reasons.join(' ')}\n`);
+  }
+}
+if (applied) {
+  const count = (fs: unknown[], sev: string) => (fs as { severity: string }[]).filter((f) => f.severity === sev).length;
+  process.stdout.write(`\nApplied ${applied.applied.length} suggestion(s): errors ${count(applied.findingsBefore, 'error')} → ${count(applied.findingsAfter, 'error')}, warnings ${count(applied.findingsBefore, 'warning')} → ${count(applied.findingsAfter, 'warning')} (the document is in the JSON output)\n`);
+}
 process.exit(structural || !result.ok ? 1 : 0);

@@ -8,8 +8,13 @@ const TSX = join(process.cwd(), 'node_modules/.bin/tsx');
 const FIX = join(process.cwd(), 'tests/fixtures/diagrams');
 
 function check(...args: string[]): { code: number; stdout: string; stderr: string } {
+  return checkIn({}, ...args);
+}
+
+/** Run the command as npm does: from the repository root, with INIT_CWD where it was typed. */
+function checkIn(env: Record<string, string>, ...args: string[]): { code: number; stdout: string; stderr: string } {
   try {
-    const stdout = execFileSync(TSX, ['scripts/check.ts', ...args], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'pipe'] });
+    const stdout = execFileSync(TSX, [join(process.cwd(), 'scripts/check.ts'), ...args], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, ...env } });
     return { code: 0, stdout, stderr: '' };
   } catch (e) {
     const err = e as { status: number; stdout: string; stderr: string };
@@ -18,6 +23,36 @@ function check(...args: string[]): { code: number; stdout: string; stderr: strin
 }
 
 describe('npm run check', () => {
+  it('takes a relative path from the directory the command was typed in', () => {
+    const r = checkIn({ INIT_CWD: FIX }, 'post-to-post-same-end.json');
+    expect(r.code).toBe(0);
+    expect(JSON.parse(r.stdout).ok).toBe(true);
+  });
+
+  it('--size adds the suggestions and their plan; --apply the applied document with findings before and after', () => {
+    const sized = JSON.parse(check(join(FIX, 'post-to-post-same-end.json'), '--size').stdout);
+    expect(sized.sizing.ok).toBe(true);
+    expect(sized.sizing.branches.map((b: { source: string }) => b.source)).toEqual(['bat1', 'bat2', 'bat3', 'bat4']);
+    expect(sized.sizing.plan.pending.length).toBeGreaterThan(0);
+    expect(sized.document).toBeUndefined();
+    const r = check(join(FIX, 'post-to-post-same-end.json'), '--apply', '--units', 'metric');
+    expect(r.code).toBe(0);
+    const out = JSON.parse(r.stdout);
+    expect(out.apply.applied.length).toBeGreaterThan(0);
+    const errors = (fs: { severity: string }[]) => fs.filter((f) => f.severity === 'error').length;
+    expect(errors(out.apply.findingsAfter)).toBeLessThanOrEqual(errors(out.apply.findingsBefore));
+    // Each applied battery has its fuse at the post: the post holds one cable, to the fuse's battery side (a).
+    for (const source of out.apply.applied as string[]) {
+      const onPost = (out.document.cables as { from: { part: string; terminal: string }; to: { part: string; terminal: string } }[])
+        .filter((c) => (c.from.part === source && c.from.terminal === 'pos') || (c.to.part === source && c.to.terminal === 'pos'));
+      expect(onPost).toHaveLength(1);
+      expect([onPost[0].from.terminal, onPost[0].to.terminal]).toContain('a');
+    }
+    const table = check(join(FIX, 'post-to-post-same-end.json'), '--table', '--apply');
+    expect(table.stdout).toMatch(/Sizing \(suggestions, not approval to install\)/);
+    expect(table.stdout).toMatch(/Applied \d+ suggestion/);
+  });
+
   it('prints one JSON document with the results and findings, exit 0', () => {
     const r = check(join(FIX, 'post-to-post-same-end.json'));
     expect(r.code).toBe(0);
@@ -57,6 +92,9 @@ describe('npm run check', () => {
     writeFileSync(f, JSON.stringify(doc));
     const r = check(f, '--mode', 'fault');
     expect(r.code).toBe(1);
-    expect(JSON.parse(r.stdout).errors[0].code).toBe('unconnected_terminal');
+    // The connected remainder is still analysed; the open terminal is an error finding and the part is listed.
+    const out = JSON.parse(r.stdout);
+    expect(out.notConnected).toContain('bat2');
+    expect(out.findings.some((f: { id: string; severity: string }) => /unconnected/.test(f.id) && f.severity === 'error')).toBe(true);
   });
 });
