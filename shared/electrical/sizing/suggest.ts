@@ -26,7 +26,8 @@ import { sizeLabel } from '../../units/format';
 import { inverterDcPowers_W } from '../analysis/bank';
 import { type AnalysisContext, type CableAmpacity, buildContext, cableAmpacity, modeNetwork } from '../analysis/context';
 import type { AnalysisIssue } from '../analysis/types';
-import { prepareNetwork, solvePrepared } from '../network/solve';
+import { prepareNetwork, type PreparedNetwork } from '../network/solve';
+import { contingencyStudy } from '../analysis/contingency';
 import { batteryCells, batteryShortCircuit_A, stringMembers } from '../parts/battery';
 import { type CableRunProps, cableRunConductorResistance_ohm, cableRunDefaults, cableTemperature_C } from '../parts/cable';
 import { CHEMISTRIES } from '../tables/batteries';
@@ -130,31 +131,19 @@ function unitShortCircuit_A(p: DiagramPart): number {
   return 0;
 }
 
-/**
- * Every unit's current in the load case with each other unit disconnected in turn: the battery
- * elements of the unit opened (1 GΩ) on one factorization of the load network.
- */
-function nMinusOne(ctx: AnalysisContext): Map<string, { current_A: number; without: string | null }> {
+/** Each unit's largest current with any one other unit disconnected (the N-1 study), and which one that was. */
+function nMinusOne(ctx: AnalysisContext, prep: PreparedNetwork): Map<string, { current_A: number; without: string | null }> {
   const out = new Map<string, { current_A: number; without: string | null }>();
   for (const u of ctx.units) out.set(u.id, { current_A: 0, without: null });
-  if (ctx.units.length < 2) return out;
-  const prep = prepareNetwork(modeNetwork(ctx, 'load'));
-  if ('ok' in prep) return out;
-  for (const off of ctx.units) {
-    const sol = solvePrepared(prep, off.elements.map((e) => ({ kind: 'short_element' as const, element: e, r_ohm: OPEN_OHM })));
-    if (!sol.ok) continue;
-    for (const u of ctx.units) {
-      if (u.id === off.id) continue;
-      const i = Math.max(0, sol.element_currents_A[u.elements[0]] ?? 0);
-      const o = out.get(u.id)!;
-      if (i > o.current_A) out.set(u.id, { current_A: i, without: off.id });
+  for (const c of contingencyStudy(ctx, prep)?.cases ?? []) {
+    if (!c.ok) continue;
+    for (const [id, i] of Object.entries(c.sources)) {
+      const o = out.get(id);
+      if (o && i > o.current_A) out.set(id, { current_A: i, without: c.unit });
     }
   }
   return out;
 }
-
-/** Resistance that stands for an open battery (its BMS or fuse open), Ω. */
-const OPEN_OHM = 1e12;
 
 const ratingLabel = (a: number) => `${a} A`;
 
@@ -171,7 +160,7 @@ export function suggestSizing(doc: DiagramDocument, options: SizingOptions = {})
   const actual = inv.reduce((a, b) => a + b.actual_W, 0);
   const rated = inv.reduce((a, b) => a + Math.max(b.rated_W, b.actual_W), 0);
   const fullScale = actual > 0 ? rated / actual : 1;
-  const n1 = nMinusOne(ctx);
+  const n1 = 'ok' in prep ? new Map<string, { current_A: number; without: string | null }>() : nMinusOne(ctx, prep);
   const bankMax_V = bankMaxVoltage_V(ctx);
   const isc = new Map(ctx.units.map((u) => [u.id, unitShortCircuit_A(ctx.topo.parts.get(u.id)!)]));
   const iscTotal = [...isc.values()].reduce((a, b) => a + b, 0);
@@ -181,7 +170,7 @@ export function suggestSizing(doc: DiagramDocument, options: SizingOptions = {})
     const label = part.label || u.id;
     const share = Math.max(0, base.element_currents_A[u.elements[0]] ?? 0);
     const full = share * fullScale;
-    const contingency = n1.get(u.id)!;
+    const contingency = n1.get(u.id) ?? { current_A: 0, without: null };
     // With one other unit out, this one carries more — but never beyond its own limit: its BMS opens first.
     const n1Capped = Math.min(contingency.current_A, u.maxContinuous_A);
     const running = Math.max(share, full);

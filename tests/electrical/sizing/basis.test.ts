@@ -51,8 +51,8 @@ describe('sizing basis', () => {
     // NEC 240.6(A) lists 45 A; Class T is made at 45 A (common practice, from memory).
     const b = sized(busbarBank(3, 90, { fuse: fuseDefaults('class_t', 200) }))[0];
     expect(b.share_A).toBeCloseTo(30, 6);
-    expect(b.nMinusOne_A).toBeCloseTo(45, 6);
-    expect(b.required_A).toBeCloseTo(45, 6);
+    expect(b.nMinusOne_A).toBeCloseTo(45, 4); // the open battery is modelled as a 10 MΩ leakage
+    expect(b.required_A).toBeCloseTo(45, 4);
     expect(b.fuse.rating_A).toBe(45);
     expect(b.fuse.fuseClass).toBe('class_t');
   });
