@@ -142,6 +142,9 @@ function bankVoltage(ctx: AnalysisContext): number {
   return ctx.bankNominal_V > 0 ? ctx.bankNominal_V : ctx.settings.systemVoltage_V;
 }
 
+/** Surge current over a fuse's rating above which the surge is a warning rather than a note (from memory). */
+const SURGE_FUSE_WARNING_RATIO = 2;
+
 export const inverterSurge: Rule = {
   id: 'inverter-surge',
   title: 'Inverter surge above a battery\u2019s pulse limit or a fuse\u2019s rating',
@@ -208,8 +211,12 @@ export const inverterSurge: Rule = {
         else if (others.has(f.id) || !flowing) continue;
         else i = Math.abs(load.parts[f.id]?.current_A ?? 0) * k;
         if (!over(i, f.props.rating_A)) continue;
+        // Up to twice its rating a fuse usually holds for longer than an inverter's surge lasts (from memory;
+        // UL 248 fuses carry 110 % indefinitely and open at 135 % within an hour or two): a note to check the
+        // curve. Above twice its rating a fast fuse can open within seconds: a warning.
+        const ratio = i / f.props.rating_A;
         out.push({
-          id: this.id, severity: this.severity, basis: this.basis, parts: [inv.id, f.id],
+          id: this.id, severity: ratio > SURGE_FUSE_WARNING_RATIO ? 'warning' : 'note', basis: this.basis, parts: [inv.id, f.id],
           message: `${head}, ${label(input, f.id)} would carry about ${amps(i)}, ${pct((i / f.props.rating_A) * 100)} of its ${amps(f.props.rating_A)} rating: its time–current curve must allow ${seconds(surge_s)} at that current.`,
           suggestion: 'Check the fuse maker\u2019s time–current curve for this current and duration; choose a time-delay fuse or a higher rating (with a cable to match) if it would open.',
         });
