@@ -13,7 +13,7 @@ import { PART_TYPES } from '../parts/registry';
 import { CHEMISTRIES } from '../tables/batteries';
 import { nextStandardRating } from '../tables/fuses';
 import { sizeLabel } from '../../units/format';
-import { amps, list, membersOf, mmAndIn, name } from './helpers';
+import { amps, cap, list, membersOf, mmAndIn, name } from './helpers';
 import type { Rule, RuleInput } from './registry';
 
 // --- Connectivity ---------------------------------------------------------------------------------------
@@ -359,7 +359,7 @@ export const shortCable: Rule = {
       if (c.props.length_m >= SHORT_CABLE_M) continue;
       out.push({
         id: this.id, severity: this.severity, basis: this.basis, parts: [c.id],
-        message: `${name(input, c.id)} between ${name(input, c.from.part)} and ${name(input, c.to.part)} is ${(c.props.length_m * 1000).toFixed(0)} mm long with a ${sizeLabel(c.props.conductor)} conductor: please confirm the length (under ${(SHORT_CABLE_M * 1000).toFixed(0)} mm).`,
+        message: `${c.label ? `${c.label}, between ${name(input, c.from.part)} and ${name(input, c.to.part)},` : cap(name(input, c.id))} is ${(c.props.length_m * 1000).toFixed(0)} mm long with a ${sizeLabel(c.props.conductor)} conductor: please confirm the length (under ${(SHORT_CABLE_M * 1000).toFixed(0)} mm).`,
         suggestion: 'Enter the measured length; if the two parts are bolted together, draw the joint as a direct connection or a lug instead of a cable.',
       });
     }

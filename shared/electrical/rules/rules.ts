@@ -9,7 +9,7 @@ import type { Finding } from '../analysis/types';
 import { CHEMISTRIES } from '../tables/batteries';
 import type { Rule, RuleInput } from './registry';
 import { inverterSurge, nMinusOne } from './contingency';
-import { allBatteries, amps, distinct, name, pct, volts } from './helpers';
+import { allBatteries, amps, cap, distinct, name, pct, volts } from './helpers';
 import {
   bankChargeVoltage, bankContinuous, bankOverContinuous, batteryDisconnectMissing, batteryFuseDistance,
   mainOvercurrentMissing, shortCable,
@@ -124,7 +124,7 @@ const parallelWithoutFuse: Rule = {
     if (!input.ctx || input.ctx.units.length < 2) return [];
     return input.ctx.units.filter((u) => u.fuses.length === 0).map((u) => ({
       id: this.id, severity: this.severity, basis: this.basis, parts: [u.id],
-      message: `${name(input, u.id)} is in parallel with ${input.ctx!.units.length - 1} other${input.ctx!.units.length > 2 ? 's' : ''} but has no fuse of its own: a fault in it would be fed by the rest of the bank.`,
+      message: `${cap(name(input, u.id))} is in parallel with ${input.ctx!.units.length - 1} other${input.ctx!.units.length > 2 ? 's' : ''} but has no fuse of its own: a fault in it would be fed by the rest of the bank.`,
       suggestion: 'Fit a fuse at its positive post (sizing suggests a rating).',
     }));
   },
@@ -173,7 +173,7 @@ const fuseAboveAmpacity: Rule = {
         if (amp === null || f.props.rating_A <= amp.amps + 1e-9) continue;
         out.push({
           id: this.id, severity: this.severity, basis: this.basis, parts: [f.id, cid],
-          message: `${name(input, f.id)} is rated ${amps(f.props.rating_A)} but ${name(input, cid)} carries only ${amps(amp.amps)} (${ampacityBasis(input, amp)}).`,
+          message: `${cap(name(input, f.id))} is rated ${amps(f.props.rating_A)} but ${name(input, cid)} carries only ${amps(amp.amps)} (${ampacityBasis(input, amp)}).`,
           suggestion: ampacitySuggestion(amp.limitedBy, terminalLimited(amp), true),
         });
       }
@@ -197,13 +197,13 @@ const fuseVoltageRating: Rule = {
       if (charge && charge.volts >= sys && v < charge.volts) {
         out.push({
           id: this.id, severity: this.severity, basis: this.basis, parts: [f.id],
-          message: `${name(input, f.id)} is rated ${v} V DC, below the bank's charging voltage of ${charge.volts.toFixed(1)} V (${charge.how}).`,
+          message: `${cap(name(input, f.id))} is rated ${v} V DC, below the bank's charging voltage of ${charge.volts.toFixed(1)} V (${charge.how}).`,
           suggestion: `Choose a fuse rated at least ${Math.ceil(charge.volts)} V DC (Class T fuses are made for 125–160 V DC and more).`,
         });
       } else if (v < sys) {
         out.push({
           id: this.id, severity: this.severity, basis: this.basis, parts: [f.id],
-          message: `${name(input, f.id)} is rated ${v} V DC, below the ${sys} V system voltage.`,
+          message: `${cap(name(input, f.id))} is rated ${v} V DC, below the ${sys} V system voltage.`,
           suggestion: 'Choose a fuse class rated for the system voltage and the charging voltage above it.',
         });
       }
@@ -249,7 +249,7 @@ const busbarLengthSpread: Rule = {
       out.push({
         id: this.id, severity: this.severity, basis: this.basis,
         parts: [bus.id, ...distinct(runs.flatMap((r) => r.cables))],
-        message: `Cable runs to ${name(input, bus.id)} range from ${lo.toFixed(2)} m (${shortest.source}) to ${hi.toFixed(2)} m (${longest.source}), ${Number.isFinite(spread) ? pct(spread) : 'unbounded'} apart (tolerance ${tol} %).`,
+        message: `Cable runs to ${name(input, bus.id)} range from ${lo.toFixed(2)} m (${name(input, shortest.source)}) to ${hi.toFixed(2)} m (${name(input, longest.source)}), ${Number.isFinite(spread) ? pct(spread) : 'unbounded'} apart (tolerance ${tol} %).`,
         suggestion: 'Make the battery cables the same length (the optimizer can equalise them).',
       });
     }
@@ -273,7 +273,7 @@ const bothLeadsOneBattery: Rule = {
       if (p.part !== n.part || !part || (part.type !== 'battery' && part.type !== 'series_string')) continue;
       out.push({
         id: this.id, severity: this.severity, basis: this.basis, parts: [load.id, p.part],
-        message: `${name(input, load.id)} takes both its positive and negative from ${name(input, p.part)}: that battery carries more than its share.`,
+        message: `${cap(name(input, load.id))} takes both its positive and negative from ${name(input, p.part)}: that battery carries more than its share.`,
         suggestion: 'Take the negative from the battery at the other end of the bank (diagonal), or use busbars.',
       });
     }
@@ -297,7 +297,7 @@ const fuseBelowDesignCurrent: Rule = {
       if (f.props.rating_A + 1e-9 >= i * margin) continue;
       out.push({
         id: this.id, severity: i > f.props.rating_A ? 'error' : this.severity, basis: this.basis, parts: [f.id],
-        message: `${name(input, f.id)} carries ${amps(i)} in the load case; × ${margin} margin needs at least ${amps(i * margin)}, but it is rated ${amps(f.props.rating_A)}.`,
+        message: `${cap(name(input, f.id))} carries ${amps(i)} in the load case; × ${margin} margin needs at least ${amps(i * margin)}, but it is rated ${amps(f.props.rating_A)}.`,
         suggestion: 'Use the next standard rating above the expected current × margin (see sizing), and a cable to match.',
       });
     }
@@ -322,7 +322,7 @@ const cableOverAmpacity: Rule = {
       out.push({
         id: this.id, severity: this.severity, parts: [id],
         basis: ampacityBasis(input, { limitedBy: limited ? 'insulation' : 'table', note: c.ampacityNote, derating: c.ampacityDerating }),
-        message: `${name(input, id)} carries ${amps(Math.abs(c.current_A))}, above its ampacity of ${amps(c.ampacity_A)} (${pct(c.utilisation_pct ?? 0)}${notes.map((n) => `; ${n}`).join('')}).`,
+        message: `${cap(name(input, id))} carries ${amps(Math.abs(c.current_A))}, above its ampacity of ${amps(c.ampacity_A)} (${pct(c.utilisation_pct ?? 0)}${notes.map((n) => `; ${n}`).join('')}).`,
         suggestion: ampacitySuggestion(limited ? 'insulation' : 'table', byTerminals, false),
       });
     }
@@ -344,7 +344,7 @@ const voltageDrop: Rule = {
       if (!f || f.drop_pct === undefined || f.drop_pct <= limit) continue;
       out.push({
         id: this.id, severity: this.severity, basis: this.basis, parts: [load.id],
-        message: `${name(input, load.id)} sees ${volts(f.voltage_V ?? 0)}: a wiring drop of ${volts(f.drop_V ?? 0)}, ${pct(f.drop_pct)} of ${input.doc.settings.systemVoltage_V} V (limit ${limit} %).`,
+        message: `${cap(name(input, load.id))} sees ${volts(f.voltage_V ?? 0)}: a wiring drop of ${volts(f.drop_V ?? 0)}, ${pct(f.drop_pct)} of ${input.doc.settings.systemVoltage_V} V (limit ${limit} %).`,
         suggestion: 'Shorten the runs or use larger conductors.',
       });
     }
@@ -370,7 +370,7 @@ const batteryOverContinuous: Rule = {
       const bankWithin = bank !== null && bank.units > 1 && bank.current_A <= bank.limit_A;
       out.push({
         id: this.id, severity: this.severity, basis: this.basis, parts: [id],
-        message: `${name(input, id)} delivers ${amps(s.current_A)} (${s.cRate.toFixed(2)} C), above its continuous limit of ${amps(s.maxContinuous_A)} (${limitC.toFixed(2)} C).${bankNote}`,
+        message: `${cap(name(input, id))} delivers ${amps(s.current_A)} (${s.cRate.toFixed(2)} C), above its continuous limit of ${amps(s.maxContinuous_A)} (${limitC.toFixed(2)} C).${bankNote}`,
         suggestion: bankWithin
           ? 'The bank is large enough: balance it so this battery carries less (equal cable runs, diagonal take-off or busbars; see the optimizer).'
           : 'Add batteries in parallel or reduce the load.',
@@ -419,7 +419,7 @@ const interruptingRating: Rule = {
       const c = sweep.cases[m.case];
       out.push({
         id: this.id, severity: this.severity, basis: this.basis, parts: [f.id, ...(c ? [c.part] : [])],
-        message: `${name(input, f.id)} may have to break ${amps(m.current_A)}${c ? ` (${c.label})` : ''}, above its interrupting rating of ${amps(f.props.interrupting_A)}.`,
+        message: `${cap(name(input, f.id))} may have to break ${amps(m.current_A)}${c ? ` (${c.label})` : ''}, above its interrupting rating of ${amps(f.props.interrupting_A)}.`,
         suggestion: 'Use a fuse class with a higher DC interrupting rating (e.g. Class T).',
       });
     }

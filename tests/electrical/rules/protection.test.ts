@@ -50,7 +50,8 @@ describe('main-overcurrent-missing', () => {
     expect(f[0].severity).toBe('error');
     expect(f[0].parts[0]).toBe('inverter');
     expect(f[0].message).toContain('No main fuse or DC circuit breaker');
-    expect(f[0].message).toContain('Inverter (inverter)');
+    expect(f[0].message).toContain('positive feed of Inverter');
+    expect(f[0].message).not.toMatch(/\(inverter\)|\bbat\d/); // named by label, never by id
     // The batteries' own fuses carry one share each, not the feed.
     expect(f[0].message).toContain("past the batteries' own fuses");
     // I_dc = P / (V × efficiency) (first principles): 2000 W at 90 % between 12.8 V nominal and 13.6 V
@@ -100,7 +101,7 @@ describe('main-overcurrent-missing', () => {
     const d = withCharger(withDisconnect(busbarBankTemplate({ count: 2 })));
     const f = findings(d, 'main-overcurrent-missing');
     expect(f.map((x) => x.parts[0])).toEqual(['charger']);
-    expect(f[0].message).toContain('positive charger output of Shore charger (charger)');
+    expect(f[0].message).toContain('positive charger output of Shore charger');
     expect(f[0].message).toContain('charger limit 40.0 A');
   });
 });
@@ -111,7 +112,8 @@ describe('battery-disconnect-missing', () => {
     expect(f).toHaveLength(1);
     expect(f[0].severity).toBe('warning');
     expect(f[0].parts).toEqual(['inverter', 'bat1', 'bat2', 'bat3', 'bat4']);
-    expect(f[0].message).toContain('Inverter (inverter)');
+    expect(f[0].message).toContain('between the bank and Inverter');
+    expect(f[0].message).toContain('Battery 1, Battery 2, Battery 3 and Battery 4');
     expect(f[0].message).toContain('12.8 V bank');
     expect(f[0].message).toContain('60 V');
   });
@@ -144,7 +146,7 @@ describe('battery-fuse-distance (marine rule set; ABYC E-11: within 7 in / 175 m
     const f = findings(marine(d), 'battery-fuse-distance');
     expect(f).toHaveLength(1);
     expect(f[0].parts).toEqual(['bat2', 'fuse2']);
-    expect(f[0].message).toContain('Battery 2 (bat2)');
+    expect(f[0].message).toContain('positive conductor of Battery 2, Fuse 2, is');
     expect(f[0].message).toContain('300 mm (11.8 in)'); // 300 / 25.4 = 11.81 in
     expect(f[0].message).toContain('175 mm (7 in)');
     expect(ids(d)).not.toContain('battery-fuse-distance');
@@ -207,7 +209,7 @@ describe('fuse-voltage-rating: against the charging voltage, not the nominal', (
     part<{ voltage_rating_V: number }>(on, 'fuse1').voltage_rating_V = 14.4;
     expect(ids(on)).not.toContain('fuse-voltage-rating');
     part<{ voltage_rating_V: number }>(on, 'fuse1').voltage_rating_V = 14;
-    expect(findings(on, 'fuse-voltage-rating')[0].message).toContain('the setpoint of Shore charger (charger)');
+    expect(findings(on, 'fuse-voltage-rating')[0].message).toContain('the setpoint of Shore charger');
     const off = withCharger(busbarBankTemplate({ count: 2 }), { voltage_setpoint_V: 14.2, enabled: false });
     part<{ voltage_rating_V: number }>(off, 'fuse1').voltage_rating_V = 14.4;
     expect(findings(off, 'fuse-voltage-rating')[0].message).toContain('14.6 V'); // LFP 3.65 V × 4
@@ -250,8 +252,8 @@ describe('short-cable (note)', () => {
     const f = findings(d, 'short-cable');
     expect(f.map((x) => [x.parts[0], x.severity])).toEqual([['c-fuse1', 'note'], ['c-fuse2', 'note']]);
     expect(f[0].message).toContain('0 mm');
-    expect(f[0].message).toContain('Battery 1 (bat1)');
-    expect(f[0].message).toContain('Fuse 1 (fuse1)');
+    // An unlabelled cable is named by its ends.
+    expect(f[0].message).toContain('The cable from Battery 1 + to Fuse 1 is 0 mm long');
     expect(f[1].message).toContain('5 mm');
     cable(d, 'c-fuse2').props.length_m = 0.01;
     expect(findings(d, 'short-cable').map((x) => x.parts[0])).toEqual(['c-fuse1']);
