@@ -360,7 +360,7 @@ export const shortCable: Rule = {
       out.push({
         id: this.id, severity: this.severity, basis: this.basis, parts: [c.id],
         message: `${c.label ? `${c.label}, between ${name(input, c.from.part)} and ${name(input, c.to.part)},` : cap(name(input, c.id))} is ${(c.props.length_m * 1000).toFixed(0)} mm long with a ${sizeLabel(c.props.conductor)} conductor: please confirm the length (under ${(SHORT_CABLE_M * 1000).toFixed(0)} mm).`,
-        suggestion: 'Enter the measured length; if the two parts are bolted together, draw the joint as a direct connection or a lug instead of a cable.',
+        suggestion: 'Enter the measured length of the run. If the two parts are bolted together (a terminal fuse on the post), 0 mm is right: the joint then has no conductor, and this note only asks you to confirm it.',
       });
     }
     return out;
