@@ -9,8 +9,12 @@
  * - Busbars: the battery runs to each busbar are evaluated as drawn, equalised to the longest run on
  *   the positive busbar, on the negative busbar, and on both (the run's busbar-end cable is lengthened;
  *   its resistance scales with length).
- * Options are ranked by bank imbalance (0.1 % steps), then total loss. `applyTakeoff` returns the
- * document with a choice applied, for the editor to preview and apply. Not an approval to install.
+ * Options are ranked by bank imbalance, then total loss, each as shown (0.1 % and 0.1 W steps), the
+ * layout as drawn first among equals. A layout is called better than the one as drawn only when its
+ * imbalance is lower by at least 0.1 percentage point as shown, or, the imbalance tied, its loss is
+ * lower by at least 0.1 W (and the explanation says the loss decided it); otherwise the layout as drawn
+ * is the best and the explanation says so. `applyTakeoff` returns the document with a choice applied,
+ * for the editor to preview and apply. Not an approval to install.
  */
 import { type DiagramDocument, diagramSchema } from '../../diagram/schema';
 import { type AnalysisContext, buildContext, modeNetwork } from '../analysis/context';
@@ -36,9 +40,82 @@ export interface TakeoffOption {
   description: string;
 }
 
+/**
+ * Why the best layout beats the one as drawn: a lower imbalance, or the same imbalance and a lower
+ * loss; null when the layout as drawn is itself the best (nothing does better).
+ */
+export type TakeoffGain = 'imbalance' | 'loss' | null;
+
 export type TakeoffResult =
-  | { ok: true; layout: 'post_to_post' | 'busbar'; options: TakeoffOption[]; best: TakeoffOption; explanation: string; document: DiagramDocument }
+  | {
+      ok: true;
+      layout: 'post_to_post' | 'busbar';
+      /** Ranked, best first. */
+      options: TakeoffOption[];
+      /** The first ranked: the layout as drawn when `gain` is null. */
+      best: TakeoffOption;
+      gain: TakeoffGain;
+      explanation: string;
+      /** The document with `best` applied (the document as given when `gain` is null). */
+      document: DiagramDocument;
+    }
   | { ok: false; errors: AnalysisIssue[] };
+
+/** What the ranking and the explanation read of a layout. */
+export interface RankedLayout {
+  description: string;
+  imbalance_pct: number;
+  losses_W: number;
+  maxCurrent_A: number;
+  current: boolean;
+}
+
+/** A figure in the steps it is shown in: imbalance to 0.1 %, loss to 0.1 W. */
+const tenths = (x: number) => Math.round(x * 10);
+const f1 = (x: number) => (Math.round(x * 10) / 10).toFixed(1);
+
+/** Imbalance as shown, then loss as shown, then the layout as drawn first, then the exact loss. */
+export const rankLayouts = (a: RankedLayout, b: RankedLayout) =>
+  tenths(a.imbalance_pct) - tenths(b.imbalance_pct) || tenths(a.losses_W) - tenths(b.losses_W) || Number(b.current) - Number(a.current) || a.losses_W - b.losses_W;
+
+const capital = (s: string) => (s ? s[0].toUpperCase() + s.slice(1) : s);
+
+/**
+ * The best of `ranked` (sorted with `rankLayouts`) against the layout as drawn, and a sentence saying
+ * why. `subject` names a layout at the start of the sentence (its description by default); `count` is
+ * how many distinct layouts were evaluated.
+ */
+export function takeoffVerdict<T extends RankedLayout>(ranked: readonly T[], count = ranked.length, subject: (o: T) => string = (o) => o.description): { best: T; gain: TakeoffGain; explanation: string } {
+  const best = ranked[0];
+  const now = ranked.find((o) => o.current);
+  const of = `best of ${count} layout${count === 1 ? '' : 's'} evaluated`;
+  if (!now) {
+    return {
+      best, gain: 'imbalance',
+      explanation: `${capital(subject(best))} gives the lowest imbalance, ${f1(best.imbalance_pct)} %, with losses of ${f1(best.losses_W)} W (${of}; the layout as drawn could not be evaluated).`,
+    };
+  }
+  if (best === now || best.current) {
+    const equals = ranked.filter((o) => o !== now && !o.current && tenths(o.imbalance_pct) === tenths(now.imbalance_pct) && tenths(o.losses_W) === tenths(now.losses_W)).length;
+    return {
+      best: now, gain: null,
+      explanation: `The layout as drawn is already the best of ${count} evaluated: imbalance ${f1(now.imbalance_pct)} %, losses ${f1(now.losses_W)} W.${
+        equals ? ` ${equals === 1 ? 'One other layout does' : `${equals} other layouts do`} as well, none better.` : ' No other layout does as well.'}`,
+    };
+  }
+  const busiest = tenths(best.maxCurrent_A) !== tenths(now.maxCurrent_A) ? `; the busiest battery carries ${f1(best.maxCurrent_A)} A instead of ${f1(now.maxCurrent_A)} A` : '';
+  if (tenths(best.imbalance_pct) < tenths(now.imbalance_pct)) {
+    const losses = tenths(best.losses_W) === tenths(now.losses_W) ? ` with the same losses, ${f1(best.losses_W)} W` : ` and the losses from ${f1(now.losses_W)} W to ${f1(best.losses_W)} W`;
+    // Another layout reaches the same imbalance: the loss chose between them.
+    const tied = ranked.filter((o) => !o.current && tenths(o.imbalance_pct) === tenths(best.imbalance_pct)).length;
+    const tie = tied > 1 ? `; ${tied} layouts reach ${f1(best.imbalance_pct)} %, and the loss decided between them` : '';
+    return { best, gain: 'imbalance', explanation: `${capital(subject(best))} brings the imbalance from ${f1(now.imbalance_pct)} % to ${f1(best.imbalance_pct)} %${losses}${busiest}${tie} (${of}).` };
+  }
+  return {
+    best, gain: 'loss',
+    explanation: `${capital(subject(best))} gives the same imbalance as the layout as drawn, ${f1(best.imbalance_pct)} %, with lower losses: ${f1(best.losses_W)} W instead of ${f1(now.losses_W)} W${busiest}. With the imbalance tied, the loss decided it (${of}).`,
+  };
+}
 
 const OPEN_OHM = 1e9;
 
@@ -51,9 +128,6 @@ function score(ctx: AnalysisContext, sol: SolveOutcome): { imbalance_pct: number
   const maxCurrent_A = Math.max(0, ...ctx.units.map((u) => Math.abs(I[u.elements[0]] ?? 0)));
   return { imbalance_pct, losses_W: losses, maxCurrent_A };
 }
-
-const rank = (a: TakeoffOption, b: TakeoffOption) =>
-  Math.round(a.imbalance_pct * 10) - Math.round(b.imbalance_pct * 10) || a.losses_W - b.losses_W || Number(b.current) - Number(a.current);
 
 const name = (ctx: AnalysisContext, id: string) => ctx.topo.parts.get(id)?.label || id;
 
@@ -113,7 +187,7 @@ function postToPost(ctx: AnalysisContext, doc: DiagramDocument): TakeoffResult |
       });
     }
   }
-  return finish(ctx, doc, 'post_to_post', options);
+  return finish(doc, 'post_to_post', options);
 }
 
 function busbars(ctx: AnalysisContext, doc: DiagramDocument): TakeoffResult | null {
@@ -155,19 +229,14 @@ function busbars(ctx: AnalysisContext, doc: DiagramDocument): TakeoffResult | nu
     if (!sc) continue;
     options.push({ choice: { kind: 'cable_lengths', label: c.label, lengths_m: c.lengths_m }, ...sc, current: Object.keys(c.lengths_m).length === 0, description: c.label });
   }
-  return finish(ctx, doc, 'busbar', options);
+  return finish(doc, 'busbar', options);
 }
 
-function finish(ctx: AnalysisContext, doc: DiagramDocument, layout: 'post_to_post' | 'busbar', options: TakeoffOption[]): TakeoffResult {
+function finish(doc: DiagramDocument, layout: 'post_to_post' | 'busbar', options: TakeoffOption[]): TakeoffResult {
   if (!options.length) return { ok: false, errors: [{ code: 'no_options', message: 'No take-off layout could be solved', parts: [] }] };
-  options.sort(rank);
-  const best = options[0];
-  const now = options.find((o) => o.current) ?? best;
-  const explanation = best.current
-    ? `The layout as drawn is already the best of ${options.length} evaluated: imbalance ${best.imbalance_pct.toFixed(1)} %, losses ${best.losses_W.toFixed(1)} W.`
-    : `${best.description[0].toUpperCase()}${best.description.slice(1)} brings the imbalance from ${now.imbalance_pct.toFixed(1)} % to ${best.imbalance_pct.toFixed(1)} % and the losses from ${now.losses_W.toFixed(1)} W to ${best.losses_W.toFixed(1)} W; the busiest battery carries ${best.maxCurrent_A.toFixed(1)} A instead of ${now.maxCurrent_A.toFixed(1)} A (best of ${options.length} layouts evaluated).`;
-  void ctx;
-  return { ok: true, layout, options, best, explanation, document: applyTakeoff(doc, best.choice) };
+  options.sort(rankLayouts);
+  const { best, gain, explanation } = takeoffVerdict(options);
+  return { ok: true, layout, options, best, gain, explanation, document: gain === null ? doc : applyTakeoff(doc, best.choice) };
 }
 
 /** Evaluate the take-off layouts of a diagram (post-to-post chain or busbar bank) and rank them. */

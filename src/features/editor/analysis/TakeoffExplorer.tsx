@@ -1,17 +1,20 @@
 /**
  * Take-off explorer: the layouts for the load's main leads — each pair of batteries for a post-to-post
  * bank, run lengths equalised and every pair of busbar taps for a busbar bank — with the bank imbalance
- * and loss of each, the layout as drawn marked. "Suggest" previews the optimizer's best against the
- * layout as drawn; "Apply" makes it ONE undoable edit.
+ * and loss of each, the layout as drawn marked. A layout is marked "best" only where it beats the one
+ * as drawn (the optimizer's verdict); otherwise the explorer says the layout as drawn is already the
+ * best. Choosing a row previews it on the canvas (ghost cables over the drawing, nothing changed);
+ * "Apply" makes it ONE undoable edit, Escape or "Close preview" clears it.
  */
-import { useState } from 'react';
+import { useRef, useState } from 'react';
 import type { DiagramDocument } from '@shared/diagram';
 import { formatLength, type UnitSystem } from '@shared/units';
 import { Button } from '@/components/Button';
 import { CheckIcon } from '@/components/icons';
 import { useEditorStore } from '../store';
+import { applyPreview, clearPreview, showPreview, usePreviewStore } from '../canvas/preview';
 import { applyDocument } from './apply';
-import type { TakeoffCandidate } from './engine';
+import type { LeadMove, TakeoffCandidate } from './engine';
 import { useLabels, type LabelOf } from './labels';
 import { useIsCurrent, useTakeoffExploration } from './useCore';
 import { fmtA, fmtPct, fmtW } from './ui';
@@ -47,20 +50,23 @@ export function describeMoves(c: TakeoffCandidate, asDrawn: TakeoffCandidate | u
   });
 }
 
-async function applyCandidate(c: TakeoffCandidate, label: string): Promise<boolean> {
-  const store = useEditorStore.getState();
-  const a = c.apply;
-  if (a.kind === 'leads') {
-    return store.edit(label, (d) => {
-      for (const m of a.moves) {
-        const cable = d.cables.find((x) => x.id === m.cable);
-        if (cable) cable[m.end] = { part: m.to.part, terminal: m.to.terminal };
-      }
-    });
-  }
-  const { applyTakeoff } = await import('@shared/electrical/optimizer');
-  return applyDocument(label, applyTakeoff(store.doc, a.choice));
+function withMoves(doc: DiagramDocument, moves: LeadMove[]): DiagramDocument {
+  const byCable = new Map(moves.map((m) => [m.cable, m]));
+  return { ...doc, cables: doc.cables.map((c) => {
+    const m = byCable.get(c.id);
+    return m ? { ...c, [m.end]: { part: m.to.part, terminal: m.to.terminal } } : c;
+  }) };
 }
+
+/** The editor's document with candidate `c` applied. */
+async function candidateDocument(doc: DiagramDocument, c: TakeoffCandidate): Promise<DiagramDocument> {
+  const a = c.apply;
+  if (a.kind === 'leads') return withMoves(doc, a.moves);
+  const { applyTakeoff } = await import('@shared/electrical/optimizer');
+  return applyTakeoff(doc, a.choice);
+}
+
+const SOURCE = 'takeoff';
 
 function Row({ c, best, selected, onSelect }: { c: TakeoffCandidate; best: boolean; selected: boolean; onSelect: () => void }) {
   return (
@@ -92,7 +98,7 @@ function Row({ c, best, selected, onSelect }: { c: TakeoffCandidate; best: boole
   );
 }
 
-function CandidateList({ title, list, bestKey, selected, onSelect }: { title: string; list: TakeoffCandidate[]; bestKey: string; selected: string | null; onSelect: (k: string) => void }) {
+function CandidateList({ title, list, bestKey, selected, onSelect }: { title: string; list: TakeoffCandidate[]; bestKey: string | null; selected: string | null; onSelect: (c: TakeoffCandidate) => void }) {
   const [all, setAll] = useState(false);
   if (!list.length) return null;
   const asDrawn = list.find((c) => c.current);
@@ -107,7 +113,7 @@ function CandidateList({ title, list, bestKey, selected, onSelect }: { title: st
       </div>
       <ul aria-label={title} className="mt-0.5 space-y-px">
         {shown.map((c) => (
-          <Row key={c.key} c={c} best={c.key === bestKey} selected={selected === c.key} onSelect={() => onSelect(c.key)} />
+          <Row key={c.key} c={c} best={bestKey !== null && c.key === bestKey} selected={selected === c.key} onSelect={() => onSelect(c)} />
         ))}
       </ul>
       {list.length > SHOWN ? (
@@ -126,8 +132,9 @@ export function TakeoffExplorer() {
   const doc = useEditorStore((s) => s.doc);
   const unitSystem = useEditorStore((s) => s.unitSystem);
   const labelOf = useLabels();
-  const [selected, setSelected] = useState<string | null>(null);
-  const [busy, setBusy] = useState(false);
+  // The row shown is the one previewed on the canvas: Escape there or an edit clears both.
+  const selected = usePreviewStore((s) => (s.preview?.source === SOURCE ? s.preview.key : null));
+  const asked = useRef(0);
   const [done, setDone] = useState<string | null>(null);
 
   if (!output) return <p className="text-[12px] text-graphite-600">{status === 'error' ? `The layouts could not be evaluated: ${message}` : 'Evaluating the take-off layouts…'}</p>;
@@ -140,18 +147,22 @@ export function TakeoffExplorer() {
   const asDrawn = pick ? candidates.find((c) => c.group === pick.group && c.current) : undefined;
   const moves = pick ? describeMoves(pick, candidates.find((c) => c.group === 'optimizer' && c.current), doc, labelOf, unitSystem) : [];
 
-  const apply = async () => {
-    if (!pick) return;
-    setBusy(true);
-    try {
-      const label = `Take-off: ${pick.description}`;
-      if (await applyCandidate(pick, label)) {
-        setDone(pick.description);
-        setSelected(null);
-      }
-    } finally {
-      setBusy(false);
-    }
+  /** Preview `c` on the canvas (the document as drawn stays as it is until Apply). */
+  const preview = async (c: TakeoffCandidate) => {
+    setDone(null);
+    const n = ++asked.current;
+    const base = useEditorStore.getState().doc;
+    const next = await candidateDocument(base, c);
+    if (n !== asked.current || useEditorStore.getState().doc !== base) return; // another row, or an edit, came first
+    const label = `Take-off: ${c.description}`;
+    showPreview({
+      source: SOURCE, key: c.key, title: c.description, doc: next,
+      apply: () => {
+        const ok = applyDocument(label, next);
+        if (ok) setDone(c.description);
+        return ok;
+      },
+    });
   };
 
   return (
@@ -161,18 +172,26 @@ export function TakeoffExplorer() {
           {output.layout === 'post_to_post' ? 'Post-to-post bank: battery pairs for the main leads.' : 'Busbar bank: run lengths and busbar taps for the main leads.'}
           {!current ? ' Updating…' : ''}
         </p>
-        <Button size="sm" variant="primary" disabled={!current} onClick={() => { setSelected(output.best); setDone(null); }}>
-          Suggest
-        </Button>
+        {output.best ? (
+          <Button size="sm" variant="primary" disabled={!current} onClick={() => { const b = candidates.find((c) => c.key === output.best); if (b) void preview(b); }}>
+            Suggest
+          </Button>
+        ) : null}
       </div>
+      {output.best === null ? (
+        <p className="rounded-md border border-graphite-200 bg-graphite-50 px-2.5 py-1.5 text-[11px] leading-[1.4] text-graphite-700" data-testid="takeoff-verdict">
+          {output.explanation}
+        </p>
+      ) : null}
       {done ? (
         <p role="status" className="text-[11px] text-ok-700">
           Applied: {done}. Undo reverts it in one step.
         </p>
       ) : null}
       {pick ? (
-        <div className="rounded-md border border-copper-300 bg-copper-50/50 px-2.5 py-2 text-[12px]" role="region" aria-label="Layout preview" data-testid="takeoff-preview">
+        <div className="rounded-md border border-note-200 bg-note-50/60 px-2.5 py-2 text-[12px]" role="region" aria-label="Layout preview" data-testid="takeoff-preview">
           <p className="font-semibold">{pick.key === output.best ? 'Suggested: ' : 'Preview: '}{pick.description}</p>
+          <p className="text-[11px] text-graphite-600">Drawn on the canvas in dashed blue; the diagram is unchanged until you apply it.</p>
           <table className="mt-1 w-full text-[11px] tabular-nums">
             <thead>
               <tr className="text-graphite-500">
@@ -214,20 +233,20 @@ export function TakeoffExplorer() {
           {pick.key === output.best ? <p className="mt-1 text-[11px] leading-[1.4] text-graphite-700">{output.explanation}</p> : null}
           <div className="mt-2 flex gap-1.5">
             {!readOnly && !pick.current ? (
-              <Button size="sm" variant="primary" pending={busy} disabled={!current} onClick={apply}>
+              <Button size="sm" variant="primary" disabled={!current} onClick={() => applyPreview()}>
                 Apply this layout
               </Button>
             ) : null}
-            <Button size="sm" variant="ghost" onClick={() => setSelected(null)}>
+            <Button size="sm" variant="ghost" onClick={() => clearPreview(SOURCE)}>
               Close preview
             </Button>
           </div>
           {readOnly ? <p className="mt-1 text-[11px] text-graphite-500">Your role can compare layouts but not change the diagram.</p> : null}
         </div>
       ) : null}
-      <CandidateList title={output.layout === 'post_to_post' ? 'Lead pairs' : 'Run lengths'} list={optimizer} bestKey={output.best} selected={selected} onSelect={(k) => { setSelected(k); setDone(null); }} />
-      <CandidateList title="Main lead taps" list={taps} bestKey={output.best} selected={selected} onSelect={(k) => { setSelected(k); setDone(null); }} />
-      <p className="text-[11px] text-graphite-500">Choose a row to preview it. Imbalance: spread of the batteries' share ÷ ideal share, in the load case.</p>
+      <CandidateList title={output.layout === 'post_to_post' ? 'Lead pairs' : 'Run lengths'} list={optimizer} bestKey={output.best} selected={selected} onSelect={(c) => void preview(c)} />
+      <CandidateList title="Main lead taps" list={taps} bestKey={output.best} selected={selected} onSelect={(c) => void preview(c)} />
+      <p className="text-[11px] text-graphite-500">Choose a row to preview it on the canvas; Escape clears the preview. Imbalance: spread of the batteries' share ÷ ideal share, in the load case.</p>
     </div>
   );
 }

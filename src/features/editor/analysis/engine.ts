@@ -9,8 +9,8 @@
  */
 import type { DiagramDocument, TerminalRef } from '@shared/diagram';
 import {
-  analyzeDiagram, buildContext, diagramTopology, optimizeTakeoff, solveLoadCase, suggestSizing,
-  type AnalysisResult, type AnalyzeOptions, type SizingResult, type TakeoffChoice,
+  analyzeDiagram, buildContext, diagramTopology, optimizeTakeoff, rankLayouts, solveLoadCase, suggestSizing, takeoffVerdict,
+  type AnalysisResult, type AnalyzeOptions, type SizingResult, type TakeoffChoice, type TakeoffGain,
 } from '@shared/electrical';
 import type { AnalysisOptions } from '../store';
 
@@ -65,16 +65,17 @@ export type TakeoffExploration =
       layout: 'post_to_post' | 'busbar';
       /** Ranked best first within each group. */
       candidates: TakeoffCandidate[];
-      /** Key of the best layout over both groups (ranked like the optimizer). */
-      best: string;
+      /**
+       * Key of the best layout over both groups (ranked like the optimizer), or null when the layout as
+       * drawn is itself the best: no layout lowers the imbalance by 0.1 % or, at the same imbalance, the loss.
+       */
+      best: string | null;
+      /** Why `best` beats the layout as drawn (null: it does not). */
+      gain: TakeoffGain;
       explanation: string;
       elapsed_ms: number;
     }
   | { ok: false; message: string; elapsed_ms: number };
-
-/** Rank like the optimizer: imbalance in 0.1 % steps, then total loss, then the layout as drawn first. */
-const rank = (a: TakeoffCandidate, b: TakeoffCandidate) =>
-  Math.round(a.imbalance_pct * 10) - Math.round(b.imbalance_pct * 10) || a.losses_W - b.losses_W || Number(b.current) - Number(a.current);
 
 /** Busbar taps tried per lead pair: all pairs up to this many, otherwise each lead alone with the other as drawn. */
 const MAX_TAP_PAIRS = 64;
@@ -157,7 +158,7 @@ function tapCandidates(doc: DiagramDocument): TakeoffCandidate[] {
       apply: { kind: 'leads', moves },
     });
   }
-  return out.sort(rank);
+  return out.sort(rankLayouts);
 }
 
 const choiceKey = (c: TakeoffChoice) =>
@@ -177,20 +178,17 @@ export function exploreTakeoff(doc: DiagramDocument): TakeoffExploration {
     current: o.current,
     apply: { kind: 'optimizer', choice: o.choice },
   }));
-  let best = candidates.find((c) => c.key === choiceKey(opt.best.choice)) ?? candidates[0];
-  let explanation = opt.explanation;
-  if (opt.layout === 'busbar') {
-    const taps = tapCandidates(doc);
-    candidates.push(...taps);
-    // Both groups score the same load case the same way, so their best layouts compare directly.
-    const tapBest = taps[0];
-    const tapNow = taps.find((c) => c.current);
-    if (tapBest && tapNow && rank(tapBest, best) < 0) {
-      best = tapBest;
-      explanation = `Main leads with the ${tapBest.description} bring the imbalance from ${tapNow.imbalance_pct.toFixed(1)} % to ${tapBest.imbalance_pct.toFixed(1)} % and the losses from ${tapNow.losses_W.toFixed(1)} W to ${tapBest.losses_W.toFixed(1)} W; the busiest battery carries ${tapBest.maxCurrent_A.toFixed(1)} A instead of ${tapNow.maxCurrent_A.toFixed(1)} A (best of ${candidates.length} layouts evaluated).`;
-    }
-  }
-  return { ok: true, layout: opt.layout, candidates, best: best.key, explanation, elapsed_ms: performance.now() - t0 };
+  if (opt.layout === 'busbar') candidates.push(...tapCandidates(doc));
+  // Both groups score the same load case the same way, so their layouts compare directly. The layout
+  // as drawn is in each group; it counts once.
+  const drawn = candidates.filter((c) => c.current).length;
+  const verdict = takeoffVerdict([...candidates].sort(rankLayouts), candidates.length - Math.max(0, drawn - 1), (c) =>
+    c.group === 'taps' ? `main leads with the ${c.description}` : c.description,
+  );
+  return {
+    ok: true, layout: opt.layout, candidates, best: verdict.gain === null ? null : verdict.best.key, gain: verdict.gain,
+    explanation: verdict.explanation, elapsed_ms: performance.now() - t0,
+  };
 }
 
 export type Job = 'analyze' | 'sizing' | 'takeoff';

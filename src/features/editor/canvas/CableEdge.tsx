@@ -18,6 +18,7 @@ import type { UnitSystem } from '@shared/units';
 import { useCanvasFigure, useCanvasView, useEditorStore, useResultsText, type CanvasView } from '../store';
 import type { CanvasSummary } from '../results/types';
 import { fmtAmps, fmtPct, lengthText, shortConductor } from '../units';
+import { PreviewEdge } from './PreviewEdge';
 
 export interface CableEdgeData extends Record<string, unknown> {
   cable: DiagramCable;
@@ -255,5 +256,5 @@ const CableLabel = memo(function CableLabel({ id, cable, selected, x, y }: { id:
 
 export const CableEdge = memo(CableEdgeView);
 
-/** React Flow edge types (module scope). */
-export const edgeTypes = { cable: CableEdge };
+/** React Flow edge types (module scope): cable runs, and the ghosts of a layout preview. */
+export const edgeTypes = { cable: CableEdge, preview: PreviewEdge };

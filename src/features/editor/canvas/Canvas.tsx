@@ -18,10 +18,13 @@ import { toast } from '../toasts';
 import { edgeTypes, type CableFlowEdge } from './CableEdge';
 import { busbarTapSides, GRID, partBox } from './geometry';
 import { LivePartsContext, nodeTypes, terminalPolarity, type PartNode } from './nodes';
+import { PreviewBar, withPreviewEdges, type PreviewFlowEdge } from './PreviewEdge';
+import { usePreviewStore } from './preview';
 
 export const PART_DRAG_MIME = 'application/x-bankwright-part';
 
 type Measured = { width: number; height: number };
+type CanvasEdge = CableFlowEdge | PreviewFlowEdge;
 
 /**
  * React Flow nodes from the parts. A node object is replaced only when what React Flow lays out
@@ -137,7 +140,11 @@ export function Canvas() {
 
   const derived = useDerivedNodes(parts, cables, selection, readOnly, measured, measureTick);
   const nodes = useDraggedNodes(derived, dragged);
-  const edges = useDerivedEdges(cables, selection);
+  const drawn = useDerivedEdges(cables, selection);
+  // A layout preview (take-off explorer) draws its ghosts over the cables; the document is untouched.
+  const preview = usePreviewStore((s) => s.preview);
+  const unitSystem = useEditorStore((s) => s.unitSystem);
+  const edges = useMemo(() => withPreviewEdges(drawn, preview, unitSystem), [drawn, preview, unitSystem]);
 
   /** Commit the drag's positions to the store (one history step) and drop the local copy. */
   const commitDrag = useCallback(() => {
@@ -184,8 +191,8 @@ export function Canvas() {
     if (dims) setMeasureTick((t) => t + 1);
   }, [measured, commitDrag]);
 
-  const onEdgesChange = useCallback((changes: EdgeChange<CableFlowEdge>[]) => {
-    const sel = changes.flatMap((c) => (c.type === 'select' ? [{ id: c.id, selected: c.selected }] : []));
+  const onEdgesChange = useCallback((changes: EdgeChange<CanvasEdge>[]) => {
+    const sel = changes.flatMap((c) => (c.type === 'select' && !c.id.startsWith('preview:') ? [{ id: c.id, selected: c.selected }] : []));
     if (sel.length) useEditorStore.getState().setSelectedMany(sel);
   }, []);
 
@@ -275,7 +282,7 @@ export function Canvas() {
   // changed) but hands React Flow the same nodes, so nothing under it needs to render again.
   const flow = useMemo(
     () => (
-      <ReactFlow<PartNode, CableFlowEdge>
+      <ReactFlow<PartNode, CanvasEdge>
         nodes={nodes}
         edges={edges}
         nodeTypes={nodeTypes}
@@ -308,6 +315,7 @@ export function Canvas() {
         <MiniMap pannable zoomable ariaLabel="Overview of the diagram" nodeStrokeWidth={2} className="bw-minimap" />
         <Controls showInteractive={false} aria-label="Zoom controls" />
         <AnnotationLayer />
+        <PreviewBar />
       </ReactFlow>
     ),
     [nodes, edges, readOnly, onNodesChange, onEdgesChange, onDragStart, onDragStop, onConnect, onReconnect, isValidConnection],
