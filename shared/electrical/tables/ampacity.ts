@@ -5,7 +5,7 @@
  * lower insulation ratings: a conductor is read at the column of its insulation when that is rated
  * below the table's temperature, and never credited above the table's own column.
  */
-import { type AwgSize, type ConductorSize, awgAtOrBelow, conductorArea_mm2 } from '../../units/conductor';
+import { type AwgSize, type ConductorSize, KCMIL_SIZES, awgAtOrBelow, conductorArea_mm2, kcmilToMm2 } from '../../units/conductor';
 
 export const AMPACITY_TABLE_IDS = [
   'nec-310.16-75C',
@@ -145,9 +145,17 @@ export function bundlingFactor(conductors: number): number {
   return 0.35;
 }
 
-function tableKey(size: ConductorSize): { key: string; readAs?: AwgSize } | null {
+/**
+ * The table row of a conductor. A mm² conductor is read at the largest row (AWG or kcmil) whose area is at
+ * or below its own, so it is never credited with more copper than it has (a 150 mm² cable at 250 kcmil,
+ * 126.7 mm²; 35 mm² at 2 AWG, 33.6 mm²).
+ */
+function tableKey(size: ConductorSize, rows: Record<string, number>): { key: string; readAs?: AwgSize; readAsKcmil?: number } | null {
   if (size.system === 'awg') return { key: size.size };
   if (size.system === 'kcmil') return { key: `${size.size}kcmil` };
+  const area = conductorArea_mm2(size) * (1 + 1e-9);
+  const kcmil = KCMIL_SIZES.filter((k) => kcmilToMm2(k) <= area && `${k}kcmil` in rows).at(-1);
+  if (kcmil !== undefined) return { key: `${kcmil}kcmil`, readAsKcmil: kcmil };
   const awg = awgAtOrBelow(conductorArea_mm2(size));
   return awg ? { key: awg, readAs: awg } : null;
 }
@@ -213,8 +221,10 @@ export type AmpacityResult =
       bundlingFactor: number;
       /** The chain from the table value to `amps`, factor by factor. */
       derating: AmpacityDerating;
-      /** Set when a mm² conductor was read at this AWG size. */
+      /** Set when a mm² conductor was read at this AWG size… */
       readAsAwg?: AwgSize;
+      /** …or at this kcmil size. */
+      readAsKcmil?: number;
     }
   | { ok: false; error: { code: 'size_not_in_table' | 'insulation_below_table'; message: string } };
 
@@ -250,7 +260,7 @@ export function ampacity(input: AmpacityInput): AmpacityResult {
       },
     };
   }
-  const key = tableKey(input.size);
+  const key = tableKey(input.size, table.columns[column_C]);
   const base = key ? table.columns[column_C][key.key] : undefined;
   if (!key || base === undefined) {
     return {
@@ -333,5 +343,6 @@ export function ampacity(input: AmpacityInput): AmpacityResult {
     bundlingFactor: bf,
     derating,
     ...(key.readAs ? { readAsAwg: key.readAs } : {}),
+    ...(key.readAsKcmil ? { readAsKcmil: key.readAsKcmil } : {}),
   };
 }

@@ -37,6 +37,18 @@ describe('ampacity tables', () => {
     expect(tiny.ok).toBe(false);
   });
 
+  it('reads a mm² conductor larger than 4/0 AWG at the kcmil row at or below its area', () => {
+    // 1 kcmil = 0.5067 mm² (circular mil definition): 250 kcmil = 126.7 mm², 300 kcmil = 152.0 mm².
+    // 150 mm² lies between them → 250 kcmil, 255 A at 75 °C (NEC Table 310.16, kcmil rows from memory).
+    const r = ampacity({ size: { system: 'mm2', size: 150 }, table: 'nec-310.16-75C' });
+    expect(r.ok && r.readAsKcmil).toBe(250);
+    expect(r.ok && r.amps).toBe(255);
+    // 120 mm² (< 126.7 mm²) is still read at 4/0 AWG (107.2 mm²), 230 A (NEC Table 310.16, 75 °C).
+    const r120 = ampacity({ size: { system: 'mm2', size: 120 }, table: 'nec-310.16-75C' });
+    expect(r120.ok && r120.readAsAwg).toBe('4/0');
+    expect(r120.ok && r120.amps).toBe(230);
+  });
+
   it('corrects for ambient with sqrt((Tc − Ta)/(Tc − 30)) (NEC 310.15(B) equation, from memory)', () => {
     // NEC 310.15(B)(1) correction table, 75 °C column, 36–40 °C: 0.88 (from memory).
     expect(ambientCorrectionFactor(75, 40)).toBeCloseTo(0.88, 2);
