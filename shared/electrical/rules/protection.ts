@@ -6,6 +6,7 @@
  */
 import type { DiagramPart } from '../../diagram/schema';
 import { terminalsOf } from '../../diagram/schema';
+import { bankChargeVoltage as chargeVoltageOf } from '../analysis/bank';
 import { ownFuses, terminalKey } from '../analysis/topology';
 import type { Finding } from '../analysis/types';
 import { batteryCells } from '../parts/battery';
@@ -280,31 +281,9 @@ export const batteryFuseDistance: Rule = {
 
 // --- Charging voltage ---------------------------------------------------------------------------------------
 
-/**
- * The bank's highest voltage in normal use: the highest setpoint of the enabled chargers, else the
- * full-charge (absorption) voltage of its chemistry × cells at the bank's voltage. Null without batteries.
- */
+/** The bank's charging voltage (analysis/bank.ts), with the charger named by label. */
 export function bankChargeVoltage(input: RuleInput): { volts: number; how: string } | null {
-  const chargers = input.topo.chargers.filter((c) => c.props.enabled);
-  if (chargers.length) {
-    const top = chargers.reduce((a, b) => (b.props.voltage_setpoint_V > a.props.voltage_setpoint_V ? b : a));
-    return { volts: top.props.voltage_setpoint_V, how: `the setpoint of ${name(input, top.id)}` };
-  }
-  let best: { ratio: number; nominal_V: number; full_V: number; chem: (typeof CHEMISTRIES)[keyof typeof CHEMISTRIES] } | null = null;
-  for (const s of input.topo.sources) {
-    const members = membersOf(s);
-    if (!members.length) continue;
-    const nominal_V = members.reduce((t, b) => t + b.nominal_V, 0);
-    const full_V = members.reduce((t, b) => t + CHEMISTRIES[b.chemistry].cellFull_V * batteryCells(b), 0);
-    const ratio = full_V / nominal_V;
-    if (!best || ratio > best.ratio) best = { ratio, nominal_V, full_V, chem: CHEMISTRIES[members[0].chemistry] };
-  }
-  if (!best) return null;
-  // Units in series (drawn as separate batteries) add up: scale the unit's ratio to the bank's nominal.
-  const bank = input.ctx?.bankNominal_V;
-  const volts = bank && bank > 0 ? bank * best.ratio : best.full_V;
-  const cells = Math.round(volts / best.chem.cellFull_V);
-  return { volts, how: `${best.chem.name} full charge, ${best.chem.cellFull_V} V per cell × ${cells} cells` };
+  return chargeVoltageOf(input.topo, input.ctx?.bankNominal_V, (id) => name(input, id));
 }
 
 // --- Bank C-rate --------------------------------------------------------------------------------------------

@@ -23,7 +23,7 @@ import { type DiagramCable, type DiagramDocument, type DiagramPart } from '../..
 import { type ConductorSize, MM2_SIZES, conductorArea_mm2, usStandardSizes } from '../../units/conductor';
 import type { UnitSystem } from '../../units/format';
 import { sizeLabel } from '../../units/format';
-import { inverterDcPowers_W } from '../analysis/bank';
+import { bankChargeVoltage, inverterDcPowers_W } from '../analysis/bank';
 import { type AnalysisContext, type CableAmpacity, buildContext, cableAmpacity, modeNetwork } from '../analysis/context';
 import type { AnalysisIssue } from '../analysis/types';
 import { prepareNetwork, type PreparedNetwork } from '../network/solve';
@@ -109,15 +109,10 @@ function branchCables(ctx: AnalysisContext, source: string): DiagramCable[] {
 
 const fmt = (x: number) => (Math.abs(x) >= 100 ? x.toFixed(0) : x.toFixed(1));
 
-/** The bank's highest voltage: the largest of the enabled chargers' setpoints and each unit's full-charge voltage, V. */
+/** The bank's highest voltage a fuse must be rated for: its charging voltage, at least the system voltage, V. */
 export function bankMaxVoltage_V(ctx: AnalysisContext): number {
-  let v = ctx.settings.systemVoltage_V;
-  for (const u of ctx.units) {
-    const full = u.members.reduce((s, b) => s + CHEMISTRIES[b.chemistry].cellFull_V * batteryCells(b), 0);
-    v = Math.max(v, full);
-  }
-  for (const c of ctx.topo.chargers) if (c.props.enabled) v = Math.max(v, c.props.voltage_setpoint_V);
-  return v;
+  const charge = bankChargeVoltage(ctx.topo, ctx.bankNominal_V, (id) => ctx.topo.parts.get(id)?.label || id);
+  return Math.max(ctx.settings.systemVoltage_V, charge?.volts ?? 0);
 }
 
 /** A unit's prospective short-circuit current at its terminals, A (a string: its OCV over its summed internal resistance). */
