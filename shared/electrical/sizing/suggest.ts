@@ -28,9 +28,8 @@ import { type AnalysisContext, type CableAmpacity, buildContext, cableAmpacity, 
 import type { AnalysisIssue } from '../analysis/types';
 import { prepareNetwork, type PreparedNetwork } from '../network/solve';
 import { contingencyStudy } from '../analysis/contingency';
-import { batteryCells, batteryShortCircuit_A, stringMembers } from '../parts/battery';
+import { batteryShortCircuit_A, stringMembers } from '../parts/battery';
 import { type CableRunProps, cableRunConductorResistance_ohm, cableRunDefaults, cableTemperature_C } from '../parts/cable';
-import { CHEMISTRIES } from '../tables/batteries';
 import { FUSE_CLASSES, type FuseClassId, STANDARD_FUSE_RATINGS_A, classListsRating } from '../tables/fuses';
 import { batteryOcv_V } from '../parts/battery';
 
