@@ -194,3 +194,16 @@ describe('properties panel: current limits, surge and fuse sides', () => {
     expect(labels.some((l) => /Fuse 1 · (a|b)$/.test(l ?? ''))).toBe(false);
   });
 });
+
+describe('properties panel: the ampacity derating chain', () => {
+  it('shows a bundled cable\u2019s ampacity factor by factor', async () => {
+    openOn('j-pos-1', 'us');
+    const user = userEvent.setup();
+    await user.selectOptions(screen.getByLabelText('Installation'), 'bundled');
+    const chain = screen.getByTestId('ampacity-chain');
+    // 4 to 6 current-carrying conductors bundled: 80 % (NEC 310.15(C)(1)); 4 is assumed when no count is given.
+    expect(chain).toHaveTextContent(/× 0\.80/);
+    expect(chain).toHaveTextContent(/NEC 310\.15\(C\)\(1\)/);
+    expect(chain).toHaveTextContent(/NEC 310\.16, 75 °C copper, 75 °C column/);
+  });
+});

@@ -12,6 +12,7 @@ import {
 import { CHEMISTRIES, CHEMISTRY_IDS } from '@shared/electrical/tables/batteries';
 import { FUSE_CLASSES, FUSE_CLASS_IDS, STANDARD_FUSE_RATINGS_A } from '@shared/electrical/tables/fuses';
 import { AMPACITY_TABLES, AMPACITY_TABLE_IDS } from '@shared/electrical/tables/ampacity';
+import { cableAmpacity } from '@shared/electrical/analysis/context';
 import type { UnitSystem } from '@shared/units';
 import { Button } from '@/components/Button';
 import { TrashIcon } from '@/components/icons';
@@ -299,7 +300,39 @@ function CableProperties({ cable, unitSystem, readOnly }: { cable: DiagramCable;
       <TerminalSelect label="To" value={`${cable.to.part}\u0000${cable.to.terminal}`} options={terminalOptions} onChange={pick('to')} disabled={readOnly} />
       {!readOnly ? <TeamLibraryPresets kind="cable" onPick={(props) => updateCable(cable.id, { props: { ...cable.props, ...props } as DiagramCable['props'] })} /> : null}
       <SpecForm key={cable.id} specs={CABLE_FIELDS} value={cable.props} schema={cableRunPropsSchema} unitSystem={unitSystem} disabled={readOnly} onCommit={onCommit} />
+      <AmpacityChain cable={cable} />
     </div>
+  );
+}
+
+/** The cable's ampacity derating chain, factor by factor: table value, ambient, bundling, engine space, termination. */
+function AmpacityChain({ cable }: { cable: DiagramCable }) {
+  const settings = useEditorStore((s) => s.doc.settings);
+  const reading = useMemo(() => cableAmpacity(cable.props, settings), [cable.props, settings]);
+  if (!reading) {
+    return (
+      <p className="text-[12px] text-graphite-600" data-testid="ampacity-chain">
+        Ampacity: {cable.props.length_m === 0 ? 'none for a bolted joint (no conductor).' : 'this size is not in the selected table.'}
+      </p>
+    );
+  }
+  const d = reading.derating;
+  if (!d) return null;
+  return (
+    <section aria-label="Ampacity derating" className="rounded border border-graphite-200 px-2 py-1.5 text-[12px]" data-testid="ampacity-chain">
+      <h4 className="font-semibold text-graphite-800">Ampacity, step by step</h4>
+      <ol className="mt-0.5 space-y-0.5 tabular-nums">
+        <li>
+          {d.base_A.toFixed(0)} A — {AMPACITY_TABLES[d.table]?.name ?? d.table}, {d.column_C} °C column
+        </li>
+        {d.factors.map((f) => (
+          <li key={f.kind} className={f.factor < 1 ? 'text-graphite-900' : 'text-graphite-500'}>
+            × {f.factor.toFixed(2)} {f.name} <span className="text-graphite-500">({f.basis})</span>
+          </li>
+        ))}
+        <li className="font-semibold">= {d.final_A.toFixed(1)} A</li>
+      </ol>
+    </section>
   );
 }
 
