@@ -1,7 +1,8 @@
 /**
  * A suggestion is a checked transaction: before the product applies any change it computed (sizing,
  * take-off layout), the design before and after is analysed and compared. A change is safe when it adds
- * no error finding and pushes no part above 100 % of its rating or ampacity (nor further above it). The
+ * no error finding and pushes no part above 100 % of its rating, ampacity or continuous limit (a part
+ * already above it is reported by an error finding before and after). The
  * comparison is also the preview the user sees: each unit's share, each changed part's loading, the
  * findings that appear and disappear.
  */
@@ -96,7 +97,8 @@ export function checkChange(before: DiagramDocument, after: DiagramDocument, ana
     const b = lb.get(id);
     const bp = b?.pct ?? null;
     const ap = a.pct;
-    if (ap !== null && ap > LIMIT_PCT && (bp === null || ap > Math.max(bp, 100) + 0.5)) {
+    // Pushed above 100 %: over after, and not over before (a part already over is an error either way).
+    if (ap !== null && ap > LIMIT_PCT && (bp === null || bp <= LIMIT_PCT)) {
       reasons.push(`${a.label} would run at ${ap.toFixed(0)} % of its ${a.kind === 'cable' ? 'ampacity' : a.kind === 'battery' ? 'continuous limit' : 'rating'}${bp !== null ? ` (now ${bp.toFixed(0)} %)` : ''}.`);
     }
     if (!b || bp === null || ap === null ? bp !== ap : Math.abs(ap - bp) > 0.5) {
