@@ -103,7 +103,10 @@ export function studyShorts(doc: DiagramDocument): ShortStudy | null {
     const through = conductors[0];
     const short: DrawnShort = { code: members[0].code as DrawnShort['code'], sources, conductors, currents_A, current_A: currents_A[through] ?? 0, through };
     out.push(short);
-    errors.push({ code: short.code, message: shortMessage(doc, short), parts: [...sources, ...conductors] });
+    // The short itself: the member closed by the fewest conductors (the run across a battery); the
+    // other sources feed it through the rest.
+    const direct = members.reduce((a, b) => ((b.conductors?.length ?? 0) < (a.conductors?.length ?? 0) ? b : a));
+    errors.push({ code: short.code, message: shortMessage(doc, short, direct.parts, direct.conductors ?? []), parts: [...sources, ...conductors] });
   }
   return { shorts: out, figures, errors };
 }
@@ -129,19 +132,22 @@ export function nameList(names: string[], max = 3): string {
   return `${names.slice(0, -1).join(', ')} and ${names[names.length - 1]}`;
 }
 
-function shortMessage(doc: DiagramDocument, s: DrawnShort): string {
-  const sources = nameList(s.sources.map((id) => itemName(doc, id)));
-  const by = nameList(s.conductors.map((id) => itemName(doc, id)));
-  const joins = s.conductors.length === 1 ? 'joins' : 'join';
+function shortMessage(doc: DiagramDocument, s: DrawnShort, directSources: string[], directConductors: string[]): string {
+  const names = (ids: string[]) => nameList(ids.map((id) => itemName(doc, id)));
+  const feeders = s.sources.filter((id) => !directSources.includes(id));
+  const feedConductors = s.conductors.filter((id) => !directConductors.includes(id));
+  const joins = directConductors.length === 1 ? 'joins' : 'join';
+  const fed = feeders.length ? `; ${names(feeders)} feed${feeders.length === 1 ? 's' : ''} it through ${names(feedConductors)}` : '';
   const basis = s.code === 'zero_resistance_loop' ? 'the charger at its current limit, with any battery on the same conductors' : 'open-circuit voltage over the internal and path resistances';
-  const figure = `about ${amps(s.current_A)} would flow through ${s.conductors.length === 1 ? 'it' : itemName(doc, s.through)} (prospective current: ${basis})`;
+  const it = s.conductors.length === 1 ? 'it' : itemName(doc, s.through);
+  const figure = `about ${amps(s.current_A)} would flow through ${it} (prospective current: ${basis})`;
   const pointer = 'The fault analysis shows the current at every fuse and cable with this short in place.';
   switch (s.code) {
     case 'shorted_source':
-      return `Short circuit: ${by} ${joins} the positive and negative of ${sources} with no load between — ${figure}. ${pointer}`;
+      return `Short circuit: ${names(directConductors)} ${joins} the positive and negative of ${names(directSources)} with no load between${fed} — ${figure}. ${pointer}`;
     case 'reversed_polarity':
-      return `Reversed polarity: ${by} ${joins} a positive of ${sources} to a negative — a short circuit through the batteries; ${figure}. ${pointer}`;
+      return `Reversed polarity: ${names(directConductors)} ${joins} a positive of ${names(directSources)} to a negative — a short circuit through the batteries${fed}; ${figure}. ${pointer}`;
     case 'zero_resistance_loop':
-      return `Short circuit: ${by} ${joins} the positive and negative of ${sources} with no resistance — ${figure}. ${pointer}`;
+      return `Short circuit: ${names(directConductors)} ${joins} the positive and negative of ${names(directSources)} with no resistance${fed} — ${figure}. ${pointer}`;
   }
 }

@@ -70,11 +70,12 @@ beforeEach(() => {
 describe('status bar, findings list and canvas badges count the same findings', () => {
   it('a short drawn in the diagram: each battery shorted is one error everywhere, not two', async () => {
     const doc = shortedBank();
-    // The core: the diagram does not compile; the structural rule reports each shorted battery once.
+    // The core: the diagram does not compile; the structural rule reports the short once (the run across
+    // battery 2, fed by battery 1 through the jumpers).
     const raw = analyzeDiagram(doc);
     expect(raw.ok).toBe(false);
     const coreErrors = raw.findings.filter((f) => f.severity === 'error');
-    expect(coreErrors.map((f) => f.id)).toEqual(['structure-shorted-source', 'structure-shorted-source']);
+    expect(coreErrors.map((f) => f.id)).toEqual(['structure-shorted-source']);
 
     openInEditor(doc);
     renderEditorPieces();
@@ -87,9 +88,11 @@ describe('status bar, findings list and canvas badges count the same findings', 
 
     // The badge on each part counts the findings the list names it in.
     const perPart = listedPerPart(doc);
-    await waitFor(() => expect(document.querySelectorAll('.bw-badge').length).toBe(perPart.size - [...perPart.keys()].filter((id) => doc.cables.some((c) => c.id === id)).length));
+    // (The short's conductors are named too; cables carry their badge on the label, counted here for parts only.)
+    const isPart = (id: string) => doc.parts.some((p) => p.id === id);
+    await waitFor(() => expect(document.querySelectorAll('.bw-badge').length).toBe([...perPart.keys()].filter(isPart).length));
     for (const [id, n] of perPart) {
-      if (doc.cables.some((c) => c.id === id)) continue;
+      if (!isPart(id)) continue;
       const badge = document.querySelector(`[data-part-id="${id}"] .bw-badge`);
       expect(badge, id).not.toBeNull();
       expect(badge!.textContent).toMatch(new RegExp(`^${n}\\b`));
@@ -136,7 +139,7 @@ describe('no raw id is shown', () => {
       expect(b).toHaveTextContent(/^Error: Short circuit/);
       expect(b.textContent).not.toMatch(/structure-|shorted[-_]source/);
     }
-    expect(errors[0]).toHaveTextContent('Battery 1: positive and negative are joined by conductors alone');
+    expect(errors[0]).toHaveTextContent('Short circuit: Spanner joins the positive and negative of Battery 2 with no load between; Battery 1 feeds it');
     const text = document.body.textContent ?? '';
     for (const id of idsOf(doc)) expect(text, id).not.toMatch(new RegExp(`(^|[^\\w-])${id}([^\\w-]|$)`));
   });

@@ -74,6 +74,9 @@ describe('a drawn short: conductors and prospective current', () => {
     expect([...s.sources].sort()).toEqual(['b1', 'b2']);
     expect([...s.conductors].sort()).toEqual(['jn', 'jp', 'x']);
     expect(s.through).toBe('x');
+    // One finding: the run across battery 2 is the short, battery 1 feeds it through the jumpers.
+    expect(r.findings.filter((f) => f.id === 'structure-shorted-source')).toHaveLength(1);
+    expect(r.errors.find((e) => e.code === 'shorted_source')!.message).toMatch(/^Short circuit: the cable from Battery positive to Battery negative joins .* with no load between; Battery feeds it through the jumper/);
     // Thevenin at b2's posts (first principles, loads off): E = 12.8 V behind r2 ∥ (r1 + 2 R_jumper).
     const rj = runOhm(35, 0.5);
     const rx = runOhm(25, 1);
