@@ -106,11 +106,15 @@ const CableStroke = memo(function CableStroke({ id, path, selected, jumper }: { 
   const s = useCanvasFigure((st) => {
     const canvas = st.results?.canvas;
     const c = canvas?.cables[id];
+    const mark = canvas?.marks[id];
+    // Left out of the figures (it leads only to a part that is not connected): dashed and grey.
+    if (!c && (mark === 'open-circuit' || mark === 'not-connected')) return { fault: false, width: 1.8, over: false, faulted: false, dir: 0, look: 'left-out' };
     if (!c || !canvas) return null;
     const fault = canvas.mode === 'fault';
     const directed = canvas.mode === 'equalize' || (canvas.modeSummary.mode === 'fault' && !!canvas.modeSummary.selected);
-    const mark = canvas.marks[id];
     return {
+      // A conductor of a drawn short stands out; figures kept from before an unsolved change are greyed.
+      look: mark === 'short' ? 'short' : canvas.stale ? 'stale' : '',
       fault,
       width: fault ? 1.8 : Math.round(Math.min(6, 1.6 + (c.loading ?? 0) * 2.5) * 4) / 4,
       over: c.loading !== null && Math.round(c.loading * 1000) / 1000 > 1,
@@ -133,7 +137,7 @@ const CableStroke = memo(function CableStroke({ id, path, selected, jumper }: { 
       <BaseEdge
         id={id}
         path={path}
-        className={`bw-cable${selected ? ' bw-cable-selected' : ''}${s?.over ? ' bw-cable-over' : ''}${jumper ? ' bw-cable-jumper' : ''}`}
+        className={`bw-cable${selected ? ' bw-cable-selected' : ''}${s?.over ? ' bw-cable-over' : ''}${jumper ? ' bw-cable-jumper' : ''}${s?.look ? ` bw-cable-${s.look}` : ''}`}
         style={{ strokeWidth: selected ? width + 1 : width, ...(s?.faulted ? { stroke: 'var(--color-fault-600)', strokeDasharray: '2 3' } : {}) }}
         interactionWidth={16}
         {...(arrow ? (s!.dir > 0 ? { markerEnd: `url(#${arrow})` } : { markerStart: `url(#${arrow})` }) : {})}
@@ -147,6 +151,7 @@ interface CableFigure {
   i: number;
   loading: number | null;
   mark: string | null;
+  stale: boolean;
 }
 
 /** A cable's figure in the live results, rounded as shown (0.1 A, 0.1 %). */
@@ -159,6 +164,7 @@ function cableFigureOf(s: CanvasView, id: string): CableFigure | null {
     i: Math.round(Math.abs(c.current_A) * 10) / 10,
     loading: c.loading === null ? null : Math.round(c.loading * 1000) / 1000,
     mark: canvas.marks[id] ?? null,
+    stale: !!canvas.stale,
   };
 }
 
@@ -166,6 +172,7 @@ const isFaulted = (r: CableFigure | null) => r?.mark === 'faulted' || r?.mark ==
 
 function figureText(r: CableFigure | null): string {
   if (!r) return '';
+  if (r.mark === 'short') return `${fmtCurrent(r.i)} short circuit`;
   if (r.mode === 'fault') return `${fmtCurrent(r.i)}${isFaulted(r) ? '' : ' prospective'}`;
   const over = r.loading !== null && r.loading > 1;
   return `${fmtAmps(r.i)}${r.loading !== null ? ` · ${over ? '▲ over ' : ''}${fmtPct(r.loading * 100)}` : ''}`;
@@ -193,7 +200,7 @@ const CableLabel = memo(function CableLabel({ id, cable, selected, x, y }: { id:
   const [hover, setHover] = useState(false);
   const shape = useCanvasFigure((s) => {
     const r = cableFigureOf(s, id);
-    return r ? { mode: r.mode, over: r.loading !== null && r.loading > 1, mark: r.mark } : null;
+    return r ? { mode: r.mode, over: (r.loading !== null && r.loading > 1) || r.mark === 'short', mark: r.mark, stale: r.stale && r.mark !== 'short' } : null;
   });
   const badge = useCanvasFigure((s) => s.results?.canvas.badges[id] ?? null);
   const labelRef = useRef<HTMLDivElement>(null);
@@ -223,7 +230,7 @@ const CableLabel = memo(function CableLabel({ id, cable, selected, x, y }: { id:
   return (
     <div
       ref={labelRef}
-      className={`bw-cable-label nodrag nopan${selected ? ' bw-cable-label-selected' : ''}${over || faulted ? ' bw-over' : ''}`}
+      className={`bw-cable-label nodrag nopan${selected ? ' bw-cable-label-selected' : ''}${over || faulted ? ' bw-over' : ''}${shape?.stale ? ' bw-figures-stale' : ''}`}
       style={{ transform: `translate(-50%, -50%) translate(${x}px, ${y}px)`, zIndex: selected || hover ? 1 : undefined }}
       data-cable-id={id}
       data-detail={shown}

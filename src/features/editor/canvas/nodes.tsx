@@ -104,9 +104,10 @@ function PartShell({ id, part, data, selected, caption, inside, children }: { id
   const box = partBox(part);
   const label = part.label || PART_TYPES[part.type].name;
   const closed = part.type === 'switch' ? part.props.closed : true;
+  const look = useCanvasView((s) => resultsLook(s, id));
   return (
     <div
-      className={`bw-part bw-part-${part.type}${selected ? ' bw-selected' : ''}`}
+      className={`bw-part bw-part-${part.type}${selected ? ' bw-selected' : ''}${look}`}
       style={{ width: box.w, height: box.h }}
       data-part-id={id}
       role="group"
@@ -142,14 +143,25 @@ const MARK_TEXT: Record<CanvasMark, string> = {
   'worst-fault': 'Worst fault',
   'first-empty': 'Empties first',
   'largest-exchange': 'Largest exchange',
+  'not-connected': 'Not connected',
+  'open-circuit': 'Open circuit',
+  short: 'Short circuit',
 };
+
+/** A part left out of the figures (not connected) is dimmed; figures kept from before an unsolved change are greyed. */
+function resultsLook(s: CanvasView, id: string): string {
+  const c = s.results?.canvas;
+  const m = c?.marks[id];
+  if (m === 'not-connected' || m === 'open-circuit') return ' bw-left-out';
+  return c?.stale && m !== 'short' ? ' bw-figures-stale' : '';
+}
 
 /** The mode's mark on a part: the faulted battery, the one that empties first, the pair exchanging most. */
 function MarkTag({ id }: { id: string }) {
   const m = useCanvasView((s) => s.results?.canvas.marks[id]);
   if (!m) return null;
   return (
-    <span className={`bw-mark bw-mark-${m} absolute -top-2.5 left-1 rounded px-1 text-[9.5px] leading-4 font-bold uppercase tracking-wide ${m === 'faulted' || m === 'worst-fault' ? 'bg-fault-700 text-white' : 'bg-caution-700 text-white'}`} data-testid={`mark-${id}`}>
+    <span className={`bw-mark bw-mark-${m} absolute -top-2.5 left-1 rounded px-1 text-[9.5px] leading-4 font-bold uppercase tracking-wide ${m === 'faulted' || m === 'worst-fault' || m === 'short' ? 'bg-fault-700 text-white' : m === 'not-connected' || m === 'open-circuit' ? 'bg-graphite-600 text-white' : 'bg-caution-700 text-white'}`} data-testid={`mark-${id}`}>
       {MARK_TEXT[m]}
     </span>
   );

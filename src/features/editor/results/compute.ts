@@ -21,6 +21,8 @@
  */
 import type { DiagramDocument } from '@shared/diagram';
 import { analyzeDiagram, type AnalysisMode, type AnalysisResult, type OperatingPoint } from '@shared/electrical/analysis';
+import { itemName } from '@shared/electrical/analysis/shorts';
+import { fmtAmps } from '../units';
 import type { AnalysisOptions } from '../store';
 import type { CanvasFinding, CanvasSummary, ModeSummary, Severity } from './types';
 import { findingsOf, solverNoteFinding } from './findings';
@@ -64,7 +66,9 @@ export function computeCanvas(doc: DiagramDocument, options: AnalysisOptions, st
 function canvasOf(doc: DiagramDocument, mode: AnalysisMode, res: AnalysisResult, loadCase: AnalysisResult | null): CanvasSummary {
   const findings = findingsOf(res);
   const canvas = emptySummary(mode, findings);
+  markNotConnected(res, canvas);
   if (!res.ok) {
+    if (res.shorts?.length) showShorts(doc, mode, res, canvas);
     if (res.stage === 'options') {
       canvas.modeIssue = res.errors.map((e) => e.message).join('; ');
       canvas.findings.push(...res.errors.map((e) => ({ code: e.code, severity: 'note' as const, message: e.message, parts: e.parts })));
@@ -125,6 +129,57 @@ function canvasOf(doc: DiagramDocument, mode: AnalysisMode, res: AnalysisResult,
   }
   canvas.badges = badgesOf(canvas.findings);
   return canvas;
+}
+
+/** Amperes, in kA from 1000 A (short-circuit currents). */
+const fmtCurrent = (a: number) => (Math.abs(a) >= 1000 ? `${(a / 1000).toFixed(2)} kA` : fmtAmps(a));
+
+/** Marks what the analysis left out: a part with an open terminal, and what leads only to one. */
+function markNotConnected(res: AnalysisResult, canvas: CanvasSummary) {
+  if (!res.notConnected?.length) return;
+  const loose = new Set(res.ok ? Object.keys(res.openTerminals ?? {}) : res.errors.filter((e) => e.code === 'floating_part' || e.code === 'unconnected_terminal').flatMap((e) => e.parts));
+  for (const id of res.notConnected) canvas.marks[id] = loose.has(id) ? 'not-connected' : 'open-circuit';
+}
+
+/**
+ * A short drawn in the diagram: its sources and conductors marked, each conductor with its prospective
+ * current. In fault mode the canvas shows every current with the short in place (fuses against their
+ * interrupting rating); in the other modes the diagram has no figures of its own (the last ones stay,
+ * greyed: stale.ts) and the status bar points at the fault mode.
+ */
+function showShorts(doc: DiagramDocument, mode: AnalysisMode, res: Extract<AnalysisResult, { ok: false }>, canvas: CanvasSummary) {
+  const shorts = res.shorts ?? [];
+  const currents: Record<string, number> = {};
+  for (const s of shorts) {
+    for (const id of s.sources) canvas.marks[id] = 'short';
+    for (const [id, i] of Object.entries(s.currents_A)) {
+      canvas.marks[id] = 'short';
+      currents[id] = i;
+    }
+  }
+  canvas.shorts = currents;
+  const worst = shorts.reduce((a, b) => (b.current_A > a.current_A ? b : a));
+  const where = `about ${fmtCurrent(worst.current_A)} through ${itemName(doc, worst.through)}`;
+  const fuses = new Map(doc.parts.flatMap((p) => (p.type === 'fuse' ? [[p.id, p.props] as const] : [])));
+  const fuseFigure = (id: string, i: number) => {
+    const f = fuses.get(id)!;
+    canvas.fuses[id] = { current_A: i, loading: i / f.rating_A, interrupting_A: f.interrupting_A, interruptingLoading: i / f.interrupting_A };
+  };
+  if (mode === 'fault' && res.shortCircuit) {
+    const sc = res.shortCircuit;
+    canvas.solved = true;
+    for (const [id, i] of Object.entries(sc.sources)) canvas.batteries[id] = { current_A: i, share: 0 };
+    for (const [id, i] of Object.entries(sc.cables)) canvas.cables[id] = { current_A: i, ampacity_A: null, loading: null };
+    for (const [id, i] of Object.entries(sc.parts)) if (fuses.has(id)) fuseFigure(id, i);
+    canvas.modeSummary = { mode, cases: 0, worst_A: worst.current_A, worstPart: worst.through, selected: null };
+    canvas.modeIssue = `Short circuit drawn in the diagram: ${where}. The figures are the currents with it in place.`;
+    return;
+  }
+  for (const [id, i] of Object.entries(currents)) {
+    if (fuses.has(id)) fuseFigure(id, i);
+    else if (doc.cables.some((c) => c.id === id)) canvas.cables[id] = { current_A: i, ampacity_A: null, loading: null };
+  }
+  canvas.modeIssue = `Short circuit drawn in the diagram: ${where}. The Fault mode shows every current with it in place.`;
 }
 
 /** Per-part and per-cable figures of one solved case. */

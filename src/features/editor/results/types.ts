@@ -51,8 +51,12 @@ export interface LoadFigure {
   current_A: number;
 }
 
-/** What the canvas marks in a mode: the faulted part or cable, the battery that empties first, the pair exchanging most. */
-export type CanvasMark = 'faulted' | 'worst-fault' | 'first-empty' | 'largest-exchange';
+/**
+ * What the canvas marks: in a mode, the faulted part or cable, the battery that empties first, the pair
+ * exchanging most; in any mode, a part with an open terminal ('not-connected'), a part or cable left out
+ * because it leads only to one ('open-circuit'), and the sources and conductors of a drawn short ('short').
+ */
+export type CanvasMark = 'faulted' | 'worst-fault' | 'first-empty' | 'largest-exchange' | 'not-connected' | 'open-circuit' | 'short';
 
 /** The mode's headline figures, for the status bar. */
 export type ModeSummary =
@@ -85,6 +89,13 @@ export interface CanvasSummary {
   findings: CanvasFinding[];
   /** Findings per part or cable id: how many and the worst severity. */
   badges: Record<string, { count: number; severity: Severity }>;
+  /**
+   * Set when this change could not be solved and the figures are the last ones that were (results/stale.ts):
+   * the canvas shows them greyed, the status bar says why.
+   */
+  stale?: { reason: string };
+  /** A short drawn in the diagram: the prospective current through each of its conductors (cables and parts), A. */
+  shorts?: Record<string, number>;
 }
 
 export interface EditorResults {

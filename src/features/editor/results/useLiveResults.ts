@@ -6,7 +6,8 @@
  *   flight, the newest state next), so an edit shows new canvas figures within one solve;
  * - the full lane: after a short pause, the analysis with every rule check, for the findings, the
  *   badges and the analysis panels.
- * Answers for older sequence numbers are dropped. Performance marks ("bw-change", "bw-figures",
+ * Answers for older sequence numbers are dropped. An answer with nothing solved keeps the last figures,
+ * greyed, with the reason (stale.ts). Performance marks ("bw-change", "bw-figures",
  * "bw-full") let the browser benchmark time an edit.
  */
 import { useEffect } from 'react';
@@ -15,6 +16,7 @@ import type { DiagramDocument } from '@shared/diagram';
 import { useEditorStore } from '../store';
 import type { ComputeRequest, ComputeResponse } from '../compute.worker';
 import type { ComputeStage } from './compute';
+import { withStale } from './stale';
 import type { EditorResults } from './types';
 
 /** Pause after the last change before the full analysis, ms (batches a burst of typing into one rule check). */
@@ -113,13 +115,15 @@ export function useLiveResults(enabled = true) {
           if (lane.stage === 'full') store.setResults(null, 'error');
           return;
         }
+        // A change that solves nothing keeps the last figures, greyed (stale.ts).
+        const results = withStale(store.results, data.results);
         if (lane.stage === 'full') {
-          store.setResults(data.results, 'ready');
+          store.setResults(results, 'ready');
           mark('bw-full', { seq, worker_ms: data.results.elapsed_ms });
           return;
         }
         if (store.results?.seq === seq) return; // the full answer came first
-        const merged = mergeFigures(store.results, data.results);
+        const merged = mergeFigures(store.results, results);
         if (!merged) return; // first results, or a new mode: wait for the full analysis
         // Rendered at once, in this task: the new figures reach the DOM without waiting for React's
         // scheduler (and a frame of the old figures) in between.
