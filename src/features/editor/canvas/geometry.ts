@@ -78,6 +78,21 @@ export function terminalPlacements(part: DiagramPart, tapSide: 'top' | 'bottom' 
   }
 }
 
+/**
+ * What a fuse's terminals face: 'a' the battery (the battery's post, or the bank's source side of a
+ * main fuse), 'b' the bank (the conductors that carry on to the rest of the bank or to the load).
+ */
+export const FUSE_TERMINAL_NAMES: Record<string, string> = { a: 'battery side', b: 'bank side' };
+
+/** A terminal in words, for tooltips and screen readers: "positive", "battery side", "tap t3", "terminal a". */
+export function terminalName(part: Pick<DiagramPart, 'type'> | undefined, terminal: string): string {
+  if (terminal === 'pos') return 'positive';
+  if (terminal === 'neg') return 'negative';
+  if (part?.type === 'fuse' && FUSE_TERMINAL_NAMES[terminal]) return FUSE_TERMINAL_NAMES[terminal];
+  if (part?.type === 'busbar') return `tap ${terminal}`;
+  return `terminal ${terminal}`;
+}
+
 const SIDES: Side[] = ['top', 'right', 'bottom', 'left'];
 
 /** A placement turned clockwise by `rotation`. */

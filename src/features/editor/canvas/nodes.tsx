@@ -15,7 +15,7 @@ import { PART_TYPES, type PartType } from '@shared/electrical/parts';
 import { ErrorIcon, NoteIcon, WarningIcon } from '@/components/icons';
 import { useCanvasFigure, useCanvasView, useEditorStore, useResultsText, type CanvasView } from '../store';
 import type { CanvasMark, CanvasSummary } from '../results/types';
-import { baseBox, partBox, POSITION, rotatePlacement, terminalPlacements, type TerminalPlacement } from './geometry';
+import { baseBox, FUSE_TERMINAL_NAMES, partBox, POSITION, rotatePlacement, terminalName, terminalPlacements, type TerminalPlacement } from './geometry';
 import { PartSymbol } from './symbols';
 import { fmtAmps, fmtPct, fmtVolts } from '../units';
 
@@ -53,7 +53,7 @@ export function terminalPolarity(part: DiagramPart | undefined, terminal: string
   return terminalPlacements(part).find((t) => t.terminal === terminal)?.polarity ?? null;
 }
 
-function TerminalHandle({ nodeId, placement, readOnly, label }: { nodeId: string; placement: TerminalPlacement; readOnly: boolean; label: string }) {
+function TerminalHandle({ nodeId, partType, placement, readOnly, label }: { nodeId: string; partType: PartType; placement: TerminalPlacement; readOnly: boolean; label: string }) {
   // A primitive key so handles re-render only when a connection starts or ends.
   const from = useConnection((c) => (c.inProgress && c.fromHandle ? `${c.fromHandle.nodeId}\u0000${c.fromHandle.id ?? ''}` : ''));
   const [fromNode, fromTerminal] = from ? from.split('\u0000') : ['', ''];
@@ -66,7 +66,11 @@ function TerminalHandle({ nodeId, placement, readOnly, label }: { nodeId: string
     placement.side === 'top' || placement.side === 'bottom' ? { left: `${placement.at * 100}%` } : { top: `${placement.at * 100}%` };
   const kind = placement.polarity === '+' ? 'pos' : placement.polarity === '−' ? 'neg' : 'pass';
   const hint = crossesPolarity ? `; joins ${fromPolarity} to ${placement.polarity} directly` : '';
+  // A fuse's terminals are named for what they face (battery side, bank side), with a small mark beside each.
+  const name = terminalName({ type: partType }, placement.terminal);
+  const side = partType === 'fuse' ? FUSE_TERMINAL_NAMES[placement.terminal] : undefined;
   return (
+    <>
     <Handle
       type="source"
       id={placement.terminal}
@@ -75,11 +79,29 @@ function TerminalHandle({ nodeId, placement, readOnly, label }: { nodeId: string
       isConnectable={!readOnly}
       className={`bw-terminal bw-terminal-${kind}${allowed ? (crossesPolarity ? ' bw-target-caution' : ' bw-target') : ''}${isSource ? ' bw-terminal-from' : ''}`}
       role="img"
-      title={`${label} terminal ${placement.terminal}${placement.polarity ? ` (${placement.polarity === '+' ? 'positive' : 'negative'})` : ''}${hint}`}
-      aria-label={`${label} ${placement.polarity === '+' ? 'positive' : placement.polarity === '−' ? 'negative' : `terminal ${placement.terminal}`}`}
+      title={`${label} ${name}${side ? ` (terminal ${placement.terminal})` : ''}${hint}`}
+      aria-label={`${label} ${name}`}
     >
       {placement.polarity ? <span aria-hidden="true" className="bw-terminal-mark">{placement.polarity}</span> : null}
     </Handle>
+    {side ? <SideMark placement={placement} text={side === 'battery side' ? 'batt' : 'bank'} /> : null}
+    </>
+  );
+}
+
+/**
+ * A small word beside a terminal ("batt", "bank"), off the cable's path and clear of the label and the
+ * findings badge (right and top-right): to the left of a top or bottom terminal, below a side one.
+ */
+function SideMark({ placement, text }: { placement: TerminalPlacement; text: string }) {
+  const style: React.CSSProperties =
+    placement.side === 'top' || placement.side === 'bottom'
+      ? { right: `calc(${(1 - placement.at) * 100}% + 9px)`, [placement.side]: '-3px' }
+      : { top: `calc(${placement.at * 100}% + 9px)`, [placement.side]: '1px' };
+  return (
+    <span aria-hidden="true" className="bw-terminal-side pointer-events-none absolute text-[8.5px] leading-none font-semibold tracking-wide text-graphite-500 uppercase" style={style}>
+      {text}
+    </span>
   );
 }
 
@@ -126,7 +148,7 @@ function PartShell({ id, part, data, selected, caption, inside, children }: { id
         </div>
       ) : null}
       {terminalPlacements(part, tapSide).map((t) => (
-        <TerminalHandle key={t.terminal} nodeId={id} placement={rotatePlacement(t, part.rotation)} readOnly={readOnly} label={label} />
+        <TerminalHandle key={t.terminal} nodeId={id} partType={part.type} placement={rotatePlacement(t, part.rotation)} readOnly={readOnly} label={label} />
       ))}
       <FindingsBadge id={id} />
       <MarkTag id={id} />
