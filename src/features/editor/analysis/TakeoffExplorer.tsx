@@ -29,8 +29,8 @@ export function describeMoves(c: TakeoffCandidate, asDrawn: TakeoffCandidate | u
     return a.moves.map((m) => {
       const pole = doc.cables.find((x) => x.id === m.cable);
       const other = pole ? (m.end === 'from' ? pole.to : pole.from) : null;
-      const name = other?.terminal === 'neg' ? POLE.neg : other?.terminal === 'pos' ? POLE.pos : 'Main';
-      return `${name} main lead (${labelOf(m.cable)}): ${labelOf(m.from.part)} tap ${m.from.terminal} → tap ${m.to.terminal}`;
+      const name = other?.terminal === 'neg' ? `${POLE.neg} main lead` : other?.terminal === 'pos' ? `${POLE.pos} main lead` : 'Main lead';
+      return `${name} (${labelOf(m.cable)}): ${labelOf(m.from.part)} tap ${m.from.terminal} → tap ${m.to.terminal}`;
     });
   }
   const ch = a.choice;

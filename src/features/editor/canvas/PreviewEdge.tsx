@@ -69,7 +69,7 @@ export function withPreviewEdges(edges: CableFlowEdge[], preview: CanvasPreview 
     const to = change.to ?? cable.to;
     const moved = change.from ? change.from : change.to;
     const text = moved
-      ? `${cable.label ? `${cable.label} ` : ''}to ${endText(preview.doc, moved)}`
+      ? `${cable.label ? `${cable.label}: ` : ''}moves to ${endText(preview.doc, moved)}`
       : change.length_m
         ? `${cable.label ? `${cable.label}: ` : ''}${lengthText(change.length_m.was, unitSystem)} → ${lengthText(change.length_m.now, unitSystem)}`
         : '';
