@@ -9,10 +9,12 @@
  */
 import type { DiagramDocument, TerminalRef } from '@shared/diagram';
 import {
-  analyzeDiagram, buildContext, diagramTopology, optimizeTakeoff, rankLayouts, solveLoadCase, suggestSizing, takeoffVerdict,
-  type AnalysisResult, type AnalyzeOptions, type SizingResult, type TakeoffChoice, type TakeoffGain,
+  analyzeDiagram, buildContext, diagramTopology, optimizeTakeoff, rankLayouts, solveLoadCase, takeoffVerdict,
+  type AnalysisResult, type AnalyzeOptions, type TakeoffChoice, type TakeoffGain,
 } from '@shared/electrical';
 import type { AnalysisOptions } from '../store';
+import { sizeDiagram, type SizingWithPlan } from '@shared/electrical/sizing';
+import type { UnitSystem } from '@shared/units';
 
 
 /** The store's analysis options as the core's: a fault target only in fault mode and only of a kind the core knows. */
@@ -27,9 +29,9 @@ export function runAnalysis(doc: DiagramDocument, options: AnalysisOptions): Ana
   return analyzeDiagram(doc, coreOptions(options));
 }
 
-/** Per-branch fuse and conductor suggestions. */
-export function runSizing(doc: DiagramDocument): SizingResult {
-  return suggestSizing(doc);
+/** Per-branch fuse and conductor suggestions in the team's size series, with their checked plan. */
+export function runSizing(doc: DiagramDocument, unitSystem?: UnitSystem): SizingWithPlan {
+  return sizeDiagram(doc, unitSystem ? { unitSystem } : {});
 }
 
 
@@ -197,15 +199,17 @@ export interface AnalysisRequest {
   seq: number;
   doc: DiagramDocument;
   options: AnalysisOptions;
+  /** The user's unit system (sizing offers conductors from its series). */
+  unitSystem?: UnitSystem;
 }
 export type AnalysisResponse = { job: Job; seq: number; ok: true; output: unknown } | { job: Job; seq: number; ok: false; message: string };
 
-export function runJob(req: Pick<AnalysisRequest, 'job' | 'doc' | 'options'>): unknown {
+export function runJob(req: Pick<AnalysisRequest, 'job' | 'doc' | 'options' | 'unitSystem'>): unknown {
   switch (req.job) {
     case 'analyze':
       return runAnalysis(req.doc, req.options);
     case 'sizing':
-      return runSizing(req.doc);
+      return runSizing(req.doc, req.unitSystem);
     case 'takeoff':
       return exploreTakeoff(req.doc);
   }
