@@ -3,6 +3,7 @@
  * keyed by diagram ids so the editor can put them on the canvas. SI units; field names end in them.
  */
 import type { PartType } from '../parts/registry';
+import type { AmpacityDerating } from '../tables/ampacity';
 
 export type Severity = 'error' | 'warning' | 'note';
 
@@ -91,6 +92,8 @@ export interface CableFigures {
   ampacityColumn_C?: number;
   /** How the insulation rating affected the ampacity ("60 °C insulation: read from the 60 °C column"). */
   ampacityNote?: string;
+  /** The ampacity's derating chain, factor by factor (table value, ambient, bundling, engine space, terminations). */
+  ampacityDerating?: AmpacityDerating;
 }
 
 export interface PartFigures {
