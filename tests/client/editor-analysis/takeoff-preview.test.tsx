@@ -69,6 +69,11 @@ describe('take-off preview on the canvas', () => {
     expect(useEditorStore.getState().past).toBe(before.past);
     expect(row).toHaveAttribute('aria-pressed', 'true');
 
+    // The panel shows the core's check of the change: findings and loading before → after.
+    const checks = await screen.findByLabelText('Checks before → after');
+    expect(checks).toHaveTextContent(/Errors \d+ → \d+, warnings \d+ → \d+/);
+    expect(screen.getByRole('button', { name: 'Apply this layout' })).toBeEnabled();
+
     // On the canvas: the bar, and a ghost for each moved lead naming where it goes.
     const bar = await screen.findByTestId('canvas-preview');
     expect(bar).toHaveTextContent('Preview, not applied');

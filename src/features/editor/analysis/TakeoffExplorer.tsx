@@ -14,8 +14,10 @@ import { CheckIcon } from '@/components/icons';
 import { useEditorStore } from '../store';
 import { applyPreview, clearPreview, showPreview, usePreviewStore } from '../canvas/preview';
 import { applyDocument } from './apply';
+import { ChangePreview } from './SizingAssistant';
+import type { DesignCheck } from '@shared/electrical/sizing';
 import type { LeadMove, TakeoffCandidate } from './engine';
-import { useLabels, type LabelOf } from './labels';
+import { useLabels, usePlainText, type LabelOf } from './labels';
 import { useIsCurrent, useTakeoffExploration } from './useCore';
 import { fmtA, fmtPct, fmtW } from './ui';
 
@@ -132,10 +134,13 @@ export function TakeoffExplorer() {
   const doc = useEditorStore((s) => s.doc);
   const unitSystem = useEditorStore((s) => s.unitSystem);
   const labelOf = useLabels();
+  const plain = usePlainText();
   // The row shown is the one previewed on the canvas: Escape there or an edit clears both.
   const selected = usePreviewStore((s) => (s.preview?.source === SOURCE ? s.preview.key : null));
   const asked = useRef(0);
   const [done, setDone] = useState<string | null>(null);
+  // The check of the previewed layout against the diagram as drawn (a take-off change is a checked transaction).
+  const [check, setCheck] = useState<{ key: string; result: DesignCheck } | null>(null);
 
   if (!output) return <p className="text-[12px] text-graphite-600">{status === 'error' ? `The layouts could not be evaluated: ${message}` : 'Evaluating the take-off layouts…'}</p>;
   if (!output.ok) return <p className="text-[12px] text-graphite-600">No take-off layouts to compare: {output.message}.</p>;
@@ -153,17 +158,24 @@ export function TakeoffExplorer() {
     const n = ++asked.current;
     const base = useEditorStore.getState().doc;
     const next = await candidateDocument(base, c);
+    const { checkChange } = await import('@shared/electrical/sizing');
+    const result = checkChange(base, next);
     if (n !== asked.current || useEditorStore.getState().doc !== base) return; // another row, or an edit, came first
+    setCheck({ key: c.key, result });
     const label = `Take-off: ${c.description}`;
     showPreview({
       source: SOURCE, key: c.key, title: c.description, doc: next,
-      apply: () => {
-        const ok = applyDocument(label, next);
-        if (ok) setDone(c.description);
-        return ok;
-      },
+      // Applied only when the check passed (no error added, nothing pushed above its rating).
+      apply: result.safe
+        ? () => {
+            const ok = applyDocument(label, next);
+            if (ok) setDone(c.description);
+            return ok;
+          }
+        : null,
     });
   };
+  const pickCheck = pick && check?.key === pick.key ? check.result : null;
 
   return (
     <div className="space-y-2" aria-busy={status === 'computing'}>
@@ -231,9 +243,19 @@ export function TakeoffExplorer() {
             </div>
           )}
           {pick.key === output.best ? <p className="mt-1 text-[11px] leading-[1.4] text-graphite-700">{output.explanation}</p> : null}
+          {pickCheck && !pick.current ? (
+            <div className="mt-1.5">
+              {!pickCheck.safe ? (
+                <p role="alert" className="mb-1 rounded border border-fault-200 bg-fault-50 px-2 py-1 text-[11px] text-fault-700">
+                  <strong>Not offered:</strong> {pickCheck.reasons.map(plain).join(' ')}
+                </p>
+              ) : null}
+              <ChangePreview check={pickCheck} labelOf={labelOf} title="Checks before → after" />
+            </div>
+          ) : null}
           <div className="mt-2 flex gap-1.5">
             {!readOnly && !pick.current ? (
-              <Button size="sm" variant="primary" disabled={!current} onClick={() => applyPreview()}>
+              <Button size="sm" variant="primary" disabled={!current || !pickCheck?.safe} onClick={() => applyPreview()}>
                 Apply this layout
               </Button>
             ) : null}
