@@ -219,7 +219,7 @@ export function suggestSizing(doc: DiagramDocument, options: SizingOptions = {})
     let minAmp = 0;
     let minBasis: CableAmpacity | null = null;
     let limitedBy: 'ampacity' | 'drop' = 'ampacity';
-    for (const size of candidateConductors(system)) {
+    for (const size of pick ? candidateConductors(system) : []) {
       const reads = runs.map((c) => cableAmpacity({ ...c, conductor: size }, s));
       const amps = Math.min(...reads.map((a) => a?.amps ?? 0));
       if (!(amps >= rating)) continue;
@@ -235,7 +235,7 @@ export function suggestSizing(doc: DiagramDocument, options: SizingOptions = {})
     // Never smaller than drawn: each cable keeps its size when that is at least the minimum's area.
     const keepOrMin = (present: ConductorSize): ConductorSize =>
       minimum && conductorArea_mm2(present) + 1e-9 < conductorArea_mm2(minimum) ? minimum : present;
-    if (!minimum && sized.length) problems.push(`No listed conductor carries ${ratingLabel(rating)} within a ${s.voltageDropLimit_pct} % drop: shorten the runs or split the load over more batteries.`);
+    if (pick && !minimum && sized.length) problems.push(`No listed conductor carries ${ratingLabel(rating)} within a ${s.voltageDropLimit_pct} % drop: shorten the runs or split the load over more batteries.`);
     const applied = cables.map((c) => ({ id: c.id, conductor: keepOrMin(c.props.conductor), present: c.props.conductor }));
     const linkConductor = minimum ? keepOrMin(firstProps.conductor) : firstProps.conductor;
     const drop = sized.length ? dropOf((c) => keepOrMin(c.conductor)) : 0;
@@ -252,7 +252,7 @@ export function suggestSizing(doc: DiagramDocument, options: SizingOptions = {})
         : `${sizeLabel(minimum)} is the smallest ${system === 'metric' ? 'IEC 60228' : 'AWG/kcmil'} conductor whose derated ampacity (${fmt(minAmp)} A, ${s.ampacityTable}${insulationNote}) carries ${ratingLabel(rating)} (NEC 240.4)${limitedBy === 'drop' ? ` and keeps the branch drop within ${s.voltageDropLimit_pct} %` : ''}${
             !cables.length ? '.' : upsized.length ? `; ${upsized.length === cables.length ? 'the branch cables are' : `${upsized.length} of the branch cables are`} enlarged to it.` : '; the cables as drawn are at least that size and are kept.'
           }`,
-      existing ? '' : `${label} has no fuse of its own: one is added at its positive post (${POST_LINK_LENGTH_M * 1000} mm of conductor assumed — set the real length), and everything now on the post moves to the fuse's bank side.`,
+      existing || !pick ? '' : `${label} has no fuse of its own: one is added at its positive post (${POST_LINK_LENGTH_M * 1000} mm of conductor assumed — set the real length), and everything now on the post moves to the fuse's bank side.`,
       ...notes,
       ...problems,
     ].filter(Boolean).join(' ');

@@ -184,6 +184,10 @@ function Branch({ b, check, unitSystem, canApply, disabled, busy, refused, onApp
       <dl className="mt-1 grid grid-cols-[auto_1fr] gap-x-2 gap-y-0.5">
         <dt className="text-graphite-600">Fuse</dt>
         <dd>
+          {b.status === 'conflict' ? (
+            <span className="text-fault-700">none can be suggested: {b.fuse.part ? `keep ${labelOf(b.fuse.part)} (${b.fuse.present_A} A) until the bank is changed` : 'the battery is loaded beyond what a fuse within its limit can carry'} — see why below</span>
+          ) : (
+          <>
           <strong>
             {b.fuse.rating_A} A {fuseClass}
           </strong>
@@ -198,6 +202,8 @@ function Branch({ b, check, unitSystem, canApply, disabled, busy, refused, onApp
             )
           ) : (
             <span className="text-caution-700"> — none of its own now: added at the positive post, the bank's conductors moved to its bank side</span>
+          )}
+          </>
           )}
         </dd>
         <dt className="text-graphite-600">Conductor</dt>
@@ -218,16 +224,17 @@ function Branch({ b, check, unitSystem, canApply, disabled, busy, refused, onApp
               {b.cables.length ? <span className="block text-[11px] text-graphite-500">{b.cables.map((c) => labelOf(c.id)).join(', ')}</span> : null}
             </>
           ) : (
-            <span className="text-graphite-600">no listed size carries the rating within the drop limit</span>
+            <span className="text-graphite-600">{b.status === 'conflict' ? 'not sized: it follows from the fuse rating' : 'no listed size carries the rating within the drop limit'}</span>
           )}
         </dd>
         <dt className="text-graphite-600">Figures</dt>
         <dd className="tabular-nums">
           share {fmtA(b.share_A)}
-          {b.nMinusOneWithout ? `, N-1 ${fmtA(b.nMinusOne_A)}` : ''}, needs {fmtA(b.required_A)}, limit {fmtA(b.maxContinuous_A)}; ampacity {fmtA(b.ampacity_A)}; branch drop {fmtPct(b.branchDrop_pct, 2)}
+          {b.nMinusOneWithout ? `, N-1 ${fmtA(b.nMinusOne_A)}` : ''}, needs {fmtA(b.required_A)}, limit {fmtA(b.maxContinuous_A)}
+          {b.minimumConductor ? `; ampacity ${fmtA(b.ampacity_A)}; branch drop ${fmtPct(b.branchDrop_pct, 2)}` : ''}
         </dd>
       </dl>
-      <p className="mt-1 text-[11px] leading-[1.4] text-graphite-700">{plain(b.reasoning)}</p>
+      <p className={`mt-1 text-[11px] leading-[1.4] ${b.status === 'conflict' ? 'text-fault-700' : 'text-graphite-700'}`}>{plain(b.reasoning)}</p>
       {changes && check && !safe ? <Refusal reasons={check.reasons} /> : null}
       {refused ? <Refusal reasons={refused} /> : null}
       {preview && check ? <ChangePreview check={check} labelOf={labelOf} title={`Preview: ${labelOf(b.source)} as suggested`} /> : null}
