@@ -63,49 +63,36 @@ export function ChangePreview({ check, labelOf, title }: { check: DesignCheck; l
         ) : null}
       </p>
       {check.shares.length ? (
-        <table className="w-full tabular-nums">
-          <caption className="sr-only">Battery currents before and after</caption>
-          <thead>
-            <tr className="text-left text-graphite-500">
-              <th className="font-normal">Battery</th>
-              <th className="text-right font-normal">before</th>
-              <th className="text-right font-normal">after</th>
-            </tr>
-          </thead>
-          <tbody>
+        <div>
+          <p className="text-graphite-500">Battery current, before → after</p>
+          <ul className="tabular-nums" aria-label="Battery currents before and after">
             {check.shares.map((s) => (
-              <tr key={s.id}>
-                <td className="truncate pr-1">{labelOf(s.id)}</td>
-                <td className="text-right">{s.before_A === null ? '—' : `${fmtA(s.before_A)} (${fmtPct(s.beforeShare_pct ?? 0, 0)})`}</td>
-                <td className="text-right">{s.after_A === null ? '—' : `${fmtA(s.after_A)} (${fmtPct(s.afterShare_pct ?? 0, 0)})`}</td>
-              </tr>
+              <li key={s.id} className="flex gap-2">
+                <span className="min-w-0 flex-1 truncate">{labelOf(s.id)}</span>
+                <span className="shrink-0 whitespace-nowrap">
+                  {s.before_A === null ? '—' : `${fmtA(s.before_A)} (${fmtPct(s.beforeShare_pct ?? 0, 0)})`} →{' '}
+                  <strong>{s.after_A === null ? '—' : `${fmtA(s.after_A)} (${fmtPct(s.afterShare_pct ?? 0, 0)})`}</strong>
+                </span>
+              </li>
             ))}
-          </tbody>
-        </table>
+          </ul>
+        </div>
       ) : null}
       {loading.length ? (
-        <table className="w-full tabular-nums">
-          <caption className="sr-only">Loading of the parts the change affects</caption>
-          <thead>
-            <tr className="text-left text-graphite-500">
-              <th className="font-normal">Changed part</th>
-              <th className="text-right font-normal">loading before</th>
-              <th className="text-right font-normal">after</th>
-            </tr>
-          </thead>
-          <tbody>
+        <div>
+          <p className="text-graphite-500">Loading of the parts it changes, before → after</p>
+          <ul className="tabular-nums" aria-label="Loading of the parts the change affects">
             {loading.map((l) => (
-              <tr key={l.id} className={(l.after_pct ?? 0) > 100 ? 'text-fault-700' : undefined}>
-                <td className="truncate pr-1">{labelOf(l.id)}</td>
-                <td className="text-right">{l.before_pct === null ? 'new' : pctText(l.before_pct)}</td>
-                <td className="text-right">
-                  {pctText(l.after_pct)}
+              <li key={l.id} className={`flex gap-2 ${(l.after_pct ?? 0) > 100 ? 'text-fault-700' : ''}`}>
+                <span className="min-w-0 flex-1 truncate" title={labelOf(l.id)}>{labelOf(l.id)}</span>
+                <span className="shrink-0 whitespace-nowrap">
+                  {l.before_pct === null ? 'new' : pctText(l.before_pct)} → <strong>{pctText(l.after_pct)}</strong>
                   {l.current_A !== null ? <span className="text-graphite-500"> · {fmtA(l.current_A)}</span> : null}
-                </td>
-              </tr>
+                </span>
+              </li>
             ))}
-          </tbody>
-        </table>
+          </ul>
+        </div>
       ) : null}
       {check.appeared.length || check.disappeared.length ? (
         <ul className="space-y-0.5">
