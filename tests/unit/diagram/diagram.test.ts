@@ -25,7 +25,7 @@ describe('diagram document schema', () => {
     if (!r.ok) return;
     expect(r.doc.settings).toEqual({
       systemVoltage_V: 12, designMargin: 1.25, voltageDropLimit_pct: 3, ampacityTable: 'nec-310.16-75C', ambient_C: 30,
-      maxPostToPost: 4, busbarLengthTolerance_pct: 10, imbalanceThreshold_pct: 10,
+      maxPostToPost: 4, busbarLengthTolerance_pct: 10, imbalanceThreshold_pct: 10, ruleSet: 'general',
     });
     expect(r.doc.parts[0]).toMatchObject({ label: '', rotation: 0 });
     expect(r.doc.annotations).toEqual([]);
