@@ -478,9 +478,8 @@ function terminalWords(p: DiagramPart, open: readonly string[]): string {
   return open.every((t) => t === 'pos' || t === 'neg') ? `${joined} terminal${open.length > 1 ? 's' : ''}` : joined;
 }
 
-function describe(p: DiagramPart): string {
-  return p.label ? `${p.label} (${p.id})` : `${PART_TYPES[p.type].name} ${p.id}`;
-}
+/** A part as named in messages: by its label, never its id (see partName). */
+const describe = partName;
 
 function unique<T>(xs: T[]): T[] {
   return [...new Set(xs)];

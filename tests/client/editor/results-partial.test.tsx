@@ -110,7 +110,7 @@ describe('nothing solves: the last figures stay, greyed, with the reason', () =>
     expect(shown.canvas.batteries).toEqual(prev.canvas.batteries);
     expect(shown.canvas.cables).toEqual(prev.canvas.cables);
     expect(shown.canvas.stale?.reason).toMatch(/apart/);
-    expect(shown.canvas.modeIssue).toMatch(/greyed figures are from before this change/);
+    expect(shown.canvas.modeIssue).toMatch(/Greyed figures: from before this change\.$/);
     // The findings are the new result's.
     expect(shown.canvas.findings).toEqual(next.canvas.findings);
     // A second unsolvable change keeps the same figures.
@@ -136,12 +136,41 @@ describe('a drawn short is highlighted with its prospective current', () => {
     expect(next.canvas.shorts!.x).toBeCloseTo(raw.shorts![0].currents_A.x, 9);
     // First principles: at least battery 2's own current into the run, 12.8 V / (10 mΩ + R_run) with R_run ≥ 0.
     expect(next.canvas.shorts!.x).toBeGreaterThan(12.8 / (0.01 + 0.01));
-    expect(next.canvas.modeIssue).toMatch(/^Short circuit drawn in the diagram: about [\d.]+ kA through Spanner.*Fault/);
+    expect(next.canvas.modeIssue).toMatch(/^Short circuit drawn: about [\d.]+ kA through Spanner; Fault mode/);
     const shown = withStale(prev, next);
     expect(shown.canvas.stale).toBeDefined();
     expect(shown.canvas.batteries).toEqual(prev.canvas.batteries);
     expect(shown.canvas.cables.x.current_A).toBeCloseTo(next.canvas.shorts!.x, 9);
     expect(shown.canvas.cables.lp).toEqual(prev.canvas.cables.lp);
+  });
+
+  it('on the canvas: the last figures greyed, the short’s run live with its current', async () => {
+    const before = pair();
+    const doc = withShort(before);
+    const store = useEditorStore.getState();
+    store.load(before, { diagramId: 'd1', readOnly: false, unitSystem: 'metric' });
+    store.setResults(results(before, 1), 'ready');
+    render(
+      <div style={{ width: 1200, height: 800 }}>
+        <ReactFlowProvider>
+          <Canvas />
+        </ReactFlowProvider>
+      </div>,
+    );
+    await waitFor(() => expect(screen.getByTestId('share-b2').textContent).toMatch(/A ·/));
+    const shownBefore = screen.getByTestId('share-b2').textContent;
+    act(() => {
+      useEditorStore.setState({ doc });
+      useEditorStore.getState().setResults(withStale(useEditorStore.getState().results, results(doc, 2)), 'ready');
+    });
+    await waitFor(() => expect(document.querySelector('[data-cable-id="x"]')?.textContent).toMatch(/kA short circuit/));
+    expect(document.querySelector('[data-cable-id="x"]')!.className).not.toContain('bw-figures-stale');
+    // Battery 2 keeps its last figure, greyed, under its short-circuit tag; so does battery 1.
+    expect(screen.getByTestId('share-b2').textContent).toBe(shownBefore);
+    expect(document.querySelector('[data-part-id="b2"]')!.className).toContain('bw-figures-stale');
+    expect(document.querySelector('[data-part-id="b1"]')!.className).toContain('bw-figures-stale');
+    expect(screen.getByTestId('mark-b2').textContent).toBe('Short circuit');
+    expect(document.querySelector('[data-cable-id="lp"]')!.className).toContain('bw-figures-stale');
   });
 
   it('fault mode: every current with the short in place, the fuse against its interrupting rating', () => {

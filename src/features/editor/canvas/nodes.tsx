@@ -175,7 +175,8 @@ function resultsLook(s: CanvasView, id: string): string {
   const c = s.results?.canvas;
   const m = c?.marks[id];
   if (m === 'not-connected' || m === 'open-circuit') return ' bw-left-out';
-  return c?.stale && m !== 'short' ? ' bw-figures-stale' : '';
+  // A short's conductors carry its current now; everything else (its batteries too) shows the last figures.
+  return c?.stale && !(c.shorts && id in c.shorts) ? ' bw-figures-stale' : '';
 }
 
 /** The mode's mark on a part: the faulted battery, the one that empties first, the pair exchanging most. */
@@ -183,7 +184,7 @@ function MarkTag({ id }: { id: string }) {
   const m = useCanvasView((s) => s.results?.canvas.marks[id]);
   if (!m) return null;
   return (
-    <span className={`bw-mark bw-mark-${m} absolute -top-2.5 left-1 rounded px-1 text-[9.5px] leading-4 font-bold uppercase tracking-wide ${m === 'faulted' || m === 'worst-fault' || m === 'short' ? 'bg-fault-700 text-white' : m === 'not-connected' || m === 'open-circuit' ? 'bg-graphite-600 text-white' : 'bg-caution-700 text-white'}`} data-testid={`mark-${id}`}>
+    <span className={`bw-mark bw-mark-${m} absolute -top-2.5 left-1 rounded px-1 text-[9.5px] leading-4 font-bold whitespace-nowrap uppercase tracking-wide ${m === 'faulted' || m === 'worst-fault' || m === 'short' ? 'bg-fault-700 text-white' : m === 'not-connected' || m === 'open-circuit' ? 'bg-graphite-600 text-white' : 'bg-caution-700 text-white'}`} data-testid={`mark-${id}`}>
       {MARK_TEXT[m]}
     </span>
   );

@@ -18,6 +18,12 @@
  *   fuse and cable; without, the largest prospective current at each fuse and cable over every case and
  *   each battery's own internal-short current; fuses against their interrupting rating;
  * - discharge: the load case at t = 0, and (full stage) the battery that reaches its cut-off first.
+ *
+ * In every mode: parts the core left out because they are not connected are marked ('not-connected' for
+ * an open terminal, 'open-circuit' for what leads only to one) and the rest has its figures; a short
+ * drawn in the diagram marks its batteries and conductors ('short'), each conductor with its prospective
+ * current (in fault mode, every current with the short in place). A result with nothing solved keeps the
+ * last figures, greyed, on the page (stale.ts).
  */
 import type { DiagramDocument } from '@shared/diagram';
 import { analyzeDiagram, type AnalysisMode, type AnalysisResult, type OperatingPoint } from '@shared/electrical/analysis';
@@ -171,15 +177,16 @@ function showShorts(doc: DiagramDocument, mode: AnalysisMode, res: Extract<Analy
     for (const [id, i] of Object.entries(sc.sources)) canvas.batteries[id] = { current_A: i, share: 0 };
     for (const [id, i] of Object.entries(sc.cables)) canvas.cables[id] = { current_A: i, ampacity_A: null, loading: null };
     for (const [id, i] of Object.entries(sc.parts)) if (fuses.has(id)) fuseFigure(id, i);
-    canvas.modeSummary = { mode, cases: 0, worst_A: worst.current_A, worstPart: worst.through, selected: null };
-    canvas.modeIssue = `Short circuit drawn in the diagram: ${where}. The figures are the currents with it in place.`;
+    // The drawn short is the one fault shown in full: the batteries' strips say what each feeds into it, the runs show the current's direction.
+    canvas.modeSummary = { mode, cases: 0, worst_A: worst.current_A, worstPart: worst.through, selected: { kind: 'cable', part: worst.through, faultCurrent_A: worst.current_A } };
+    canvas.modeIssue = `Short circuit drawn: ${where}; the figures are the currents with it in place.`;
     return;
   }
   for (const [id, i] of Object.entries(currents)) {
     if (fuses.has(id)) fuseFigure(id, i);
     else if (doc.cables.some((c) => c.id === id)) canvas.cables[id] = { current_A: i, ampacity_A: null, loading: null };
   }
-  canvas.modeIssue = `Short circuit drawn in the diagram: ${where}. The Fault mode shows every current with it in place.`;
+  canvas.modeIssue = `Short circuit drawn: ${where}; Fault mode shows every current with it in place.`;
 }
 
 /** Per-part and per-cable figures of one solved case. */

@@ -31,7 +31,7 @@ export function carryFigures(prev: CanvasSummary, next: CanvasSummary): CanvasSu
     wiringLoss_W: prev.wiringLoss_W,
     internalLoss_W: prev.internalLoss_W,
     stale: { reason },
-    modeIssue: `${reason.replace(/\.\s*$/, '')}. The greyed figures are from before this change.`,
+    modeIssue: `${reason.replace(/\.\s*$/, '')}. Greyed figures: from before this change.`,
   };
 }
 
