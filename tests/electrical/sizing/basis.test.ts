@@ -167,3 +167,27 @@ describe('apply is a checked transaction', () => {
     expect(plan.safeCheck?.safe).toBe(true);
   });
 });
+
+describe('a fuse of its own is one in series with that battery alone', () => {
+  it('a fuse in the jumper chain is nobody\u2019s own fuse; the same fuse at the post is', () => {
+    // Two batteries post to post, leads from battery 1; a fuse between battery 1's post and the jumper to battery 2.
+    const inChain = diagram(
+      [battery('b1', 0), battery('b2', 200), { id: 'f', type: 'fuse', position: { x: 100, y: -120 }, props: fuseDefaults('class_t', 100) }, currentLoad('load', 100)],
+      [
+        { id: 'l1', from: end('b1', 'pos'), to: end('f', 'a'), props: run(35, 0.1) },
+        { id: 'j', from: end('f', 'b'), to: end('b2', 'pos'), props: run(35, 0.3, { role: 'jumper' }) },
+        { id: 'jn', from: end('b1', 'neg'), to: end('b2', 'neg'), props: run(35, 0.3, { role: 'jumper' }) },
+        { id: 'lp', from: end('b1', 'pos'), to: end('load', 'pos'), props: run(50, 1) },
+        { id: 'ln', from: end('b2', 'neg'), to: end('load', 'neg'), props: run(50, 1) },
+      ],
+    );
+    const a = analyzeDiagram(inChain);
+    const without = a.findings.filter((f) => f.id === 'parallel-battery-without-fuse').flatMap((f) => f.parts);
+    // The fuse carries battery 2's current on its way to the leads at battery 1's post — not battery 1's.
+    expect(without).toContain('b1');
+    // Battery 2's post holds only the jumper from the fuse: the fuse is in series with battery 2 alone, so it is battery 2's own.
+    expect(without).not.toContain('b2');
+    if (!a.ok || !a.operating) throw new Error('no solution');
+    expect(Math.abs(a.operating.parts.f.current_A ?? 0)).toBeCloseTo(Math.abs(a.operating.sources.b2.current_A), 9); // in series (KCL)
+  });
+});
