@@ -130,11 +130,19 @@ describe('no raw id is shown', () => {
   /** Ids in the document that are not plain words (a word-like id such as "inverter" reads as the word). */
   const idsOf = (doc: DiagramDocument) => [...doc.parts, ...doc.cables].map((x) => x.id).filter((id) => /[\d_/-]/.test(id));
 
+  it('a drawn short offers the fault analysis, which shows every current with the short in place', async () => {
+    openInEditor(shortedBank());
+    render(<FindingsPanel />);
+    const link = within(screen.getByRole('region', { name: /^Errors/ })).getByRole('link', { name: 'Show the fault currents (fault analysis)' });
+    link.click();
+    await waitFor(() => expect(useEditorStore.getState().analysis.mode).toBe('fault'));
+  });
+
   it('structural findings carry a plain title and name parts by label', () => {
     const doc = shortedBank();
     openInEditor(doc);
     render(<FindingsPanel />);
-    const errors = within(screen.getByRole('region', { name: /^Errors/ })).getAllByRole('button');
+    const errors = within(screen.getByRole('region', { name: /^Errors/ })).getAllByRole('button').filter((b) => b.hasAttribute('aria-pressed'));
     for (const b of errors) {
       expect(b).toHaveTextContent(/^Error: Short circuit/);
       expect(b.textContent).not.toMatch(/structure-|shorted[-_]source/);

@@ -155,7 +155,7 @@ export function AnalysisPanel() {
         <p className="text-[12px] text-graphite-600">{doc.parts.length ? 'Analysing…' : 'Draw a bank to analyse it.'}</p>
       ) : !result.ok ? (
         <Notice signal="warning" title="Not solved:">
-          {result.errors.map((e) => e.message).join('; ')}. See Findings for the parts involved.
+          {result.errors.map((e) => e.message.replace(/\.$/, '')).join('; ')}. See Findings for the parts involved.
         </Notice>
       ) : (
         <>

@@ -13,6 +13,9 @@ import { findingsOf } from '../results/findings';
 import type { CanvasFinding } from '../results/types';
 import { findingTitle, useLabels, usePlainText, useRuleTitles } from './labels';
 import { SEVERITIES, SEVERITY } from './severity';
+
+/** Findings about fault currents: each offers the fault analysis, where the canvas shows every current with the fault in place. */
+const FAULT_FINDINGS = new Set(['structure-shorted-source', 'structure-reversed-polarity', 'structure-zero-resistance-loop', 'interrupting-rating']);
 import { useAnalysisResult } from './useCore';
 
 interface Shown extends CanvasFinding {
@@ -33,6 +36,8 @@ export function FindingsPanel() {
   const plain = usePlainText();
   const titles = useRuleTitles();
   const focusParts = useEditorStore((s) => s.focusParts);
+  const mode = useEditorStore((s) => s.analysis.mode);
+  const setAnalysis = useEditorStore((s) => s.setAnalysis);
   const nParts = useEditorStore((s) => s.doc.parts.length);
   const [active, setActive] = useState<string | null>(null);
 
@@ -106,6 +111,18 @@ export function FindingsPanel() {
                       </span>
                     ) : null}
                   </button>
+                  {FAULT_FINDINGS.has(f.code) && mode !== 'fault' ? (
+                    <a
+                      href="#fault-analysis"
+                      className="mt-0.5 inline-block text-[11px] text-copper-700 underline underline-offset-2 hover:text-copper-800"
+                      onClick={(e) => {
+                        e.preventDefault();
+                        setAnalysis({ mode: 'fault' });
+                      }}
+                    >
+                      Show the fault currents (fault analysis)
+                    </a>
+                  ) : null}
                 </li>
               ))}
             </ul>
