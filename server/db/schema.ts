@@ -19,9 +19,11 @@ export const users = pgTable(
     email: text('email').notNull(),
     name: text('name').notNull(),
     passwordHash: text('password_hash').notNull(),
+    /** The user's own unit system for their screens; null follows each team's setting. */
+    unitSystem: text('unit_system', { enum: ['metric', 'us'] }),
     createdAt: createdAt(),
   },
-  (t) => [uniqueIndex('users_email_unique').on(t.email)],
+  (t) => [uniqueIndex('users_email_unique').on(t.email), check('users_unit_system_check', sql`${t.unitSystem} is null or ${t.unitSystem} in ('metric', 'us')`)],
 );
 
 /** Lucia's session table (id, user_id, expires_at) plus our own attributes. */
@@ -148,9 +150,15 @@ export const mailOutbox = pgTable(
     text: text('text').notNull(),
     html: text('html').notNull(),
     teamId: text('team_id').references(() => teams.id, { onDelete: 'cascade' }),
+    /**
+     * The account that held the `to` address when the message was captured (null: no account had it).
+     * A user reads only the messages captured for them; an invite to an address nobody has yet stays with
+     * the team's owners.
+     */
+    recipientId: text('recipient_id').references(() => users.id, { onDelete: 'cascade' }),
     createdAt: createdAt(),
   },
-  (t) => [index('mail_outbox_team_idx').on(t.teamId)],
+  (t) => [index('mail_outbox_team_idx').on(t.teamId), index('mail_outbox_recipient_idx').on(t.recipientId)],
 );
 
 export const activity = pgTable(
@@ -309,4 +317,39 @@ export const libraryItems = pgTable(
     updatedAt: updatedAt(),
   },
   (t) => [index('library_items_team_idx').on(t.teamId, t.kind), check('library_items_kind_check', sql`${t.kind} in ('battery', 'cable', 'fuse', 'busbar')`)],
+);
+
+export const NOTIFICATION_KINDS = ['review_requested', 'changes_requested', 'approved', 'comment', 'reply'] as const;
+
+/**
+ * In-app notices of the review flow, one row per recipient: the same events the e-mails go out for, so a
+ * team without a mail server still reaches everyone. `readAt` null means unread.
+ */
+export const notifications = pgTable(
+  'notifications',
+  {
+    id: text('id').primaryKey(),
+    userId: text('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    teamId: text('team_id')
+      .notNull()
+      .references(() => teams.id, { onDelete: 'cascade' }),
+    kind: text('kind', { enum: NOTIFICATION_KINDS }).notNull(),
+    actorId: text('actor_id').references(() => users.id, { onDelete: 'set null' }),
+    diagramId: text('diagram_id')
+      .notNull()
+      .references(() => diagrams.id, { onDelete: 'cascade' }),
+    revisionNumber: integer('revision_number').notNull(),
+    /** Comment id for comment and reply notices. */
+    commentId: text('comment_id').references(() => reviewComments.id, { onDelete: 'cascade' }),
+    /** A short excerpt of the comment or decision note. */
+    excerpt: text('excerpt').notNull().default(''),
+    readAt: timestamp('read_at', { withTimezone: true, mode: 'date' }),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    index('notifications_user_idx').on(t.userId, t.createdAt),
+    check('notifications_kind_check', sql`${t.kind} in ('review_requested', 'changes_requested', 'approved', 'comment', 'reply')`),
+  ],
 );
