@@ -11,16 +11,12 @@ import { analyzeDiagram, fuseDefaults, optimizeTakeoff, suggestSizing, type Anal
 import { AnalysisPanel, FindingsPanel } from '@/features/editor/analysis';
 import { resetCoreResults } from '@/features/editor/analysis/useCore';
 import { useEditorStore } from '@/features/editor/store';
+import { openInEditor as openWithResults } from './open-in-editor';
 import { computeCanvas } from '@/features/editor/results/compute';
 
-/** Put a document in the editor with the core's analysis of it in `mode`, as the compute worker would. */
+/** Put a document in the editor with the core's analysis of it in `mode`, as the compute worker would (a US team). */
 function openInEditor(doc: DiagramDocument, mode: AnalysisMode = 'load', opts: { readOnly?: boolean } = {}) {
-  const store = useEditorStore.getState();
-  store.load(doc, { diagramId: 'd1', readOnly: opts.readOnly ?? false, unitSystem: 'us' });
-  store.setAnalysis({ mode });
-  const raw = analyzeDiagram(doc, { mode });
-  store.setResults({ seq: 1, stage: 'full', mode, canvas: computeCanvas(doc, { mode }).canvas, raw, elapsed_ms: 0 }, 'ready');
-  return raw;
+  return openWithResults(doc, { mode, readOnly: opts.readOnly ?? false, unitSystem: 'us' });
 }
 
 /** Keep the store's analysis in step with its document after an edit (the compute worker's job in the app). */

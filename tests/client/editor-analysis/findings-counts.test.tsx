@@ -6,7 +6,6 @@
  */
 import '../editor/flow-mocks';
 import { render, screen, waitFor, within } from '@testing-library/react';
-import { ReactFlowProvider } from '@xyflow/react';
 import { beforeEach, describe, expect, it } from 'vitest';
 import { busbarBankTemplate, postToPostTemplate, type DiagramDocument } from '@shared/diagram';
 import { analyzeDiagram } from '@shared/electrical';
@@ -14,18 +13,11 @@ import { cableRunDefaults } from '@shared/electrical/parts';
 import { FindingsPanel } from '@/features/editor/analysis';
 import { plainTextOf } from '@/features/editor/analysis/labels';
 import { resetCoreResults } from '@/features/editor/analysis/useCore';
-import { Canvas } from '@/features/editor/canvas/Canvas';
-import { computeCanvas } from '@/features/editor/results/compute';
 import { FindingCounts } from '@/features/editor/results/ModeStatus';
 import { useEditorStore } from '@/features/editor/store';
+import { openInEditor as openWithResults, renderWithCanvas } from './open-in-editor';
 
-function openInEditor(doc: DiagramDocument) {
-  const store = useEditorStore.getState();
-  store.load(doc, { diagramId: 'd1', readOnly: false, unitSystem: 'us' });
-  store.setAnalysis({ mode: 'load' });
-  const { canvas, raw } = computeCanvas(doc, { mode: 'load' });
-  store.setResults({ seq: 1, stage: 'full', mode: 'load', canvas, raw, elapsed_ms: 0 }, 'ready');
-}
+const openInEditor = (doc: DiagramDocument) => openWithResults(doc, { unitSystem: 'us' });
 
 /** Two batteries post to post with a conductor drawn from battery 2's positive to its negative: a short. */
 function shortedBank(): DiagramDocument {
@@ -39,15 +31,10 @@ function shortedBank(): DiagramDocument {
 const countOf = (text: string, word: 'error' | 'warning') => Number(new RegExp(`(\\d+) ${word}s?`).exec(text)?.[1] ?? 0);
 
 function renderEditorPieces() {
-  return render(
+  return renderWithCanvas(
     <>
       <FindingCounts />
       <FindingsPanel />
-      <div style={{ width: 1200, height: 800 }}>
-        <ReactFlowProvider>
-          <Canvas />
-        </ReactFlowProvider>
-      </div>
     </>,
   );
 }

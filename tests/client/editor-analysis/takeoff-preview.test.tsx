@@ -5,39 +5,20 @@
  * optimizer, never from the components under test.
  */
 import '../editor/flow-mocks';
-import { act, render, screen, waitFor, within } from '@testing-library/react';
+import { act, screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
-import { ReactFlowProvider } from '@xyflow/react';
 import { beforeEach, describe, expect, it } from 'vitest';
 import { postToPostTemplate, type DiagramDocument } from '@shared/diagram';
 import { optimizeTakeoff } from '@shared/electrical';
 import { AnalysisPanel } from '@/features/editor/analysis';
 import { resetCoreResults } from '@/features/editor/analysis/useCore';
-import { Canvas } from '@/features/editor/canvas/Canvas';
 import { clearPreview, usePreviewStore } from '@/features/editor/canvas/preview';
-import { computeCanvas } from '@/features/editor/results/compute';
 import { useEditorStore } from '@/features/editor/store';
+import { openInEditor as openWithResults, renderWithCanvas } from './open-in-editor';
 
-function openInEditor(doc: DiagramDocument) {
-  const store = useEditorStore.getState();
-  store.load(doc, { diagramId: 'd1', readOnly: false, unitSystem: 'metric' });
-  store.setAnalysis({ mode: 'load' });
-  const { canvas, raw } = computeCanvas(doc, { mode: 'load' });
-  store.setResults({ seq: 1, stage: 'full', mode: 'load', canvas, raw, elapsed_ms: 0 }, 'ready');
-}
+const openInEditor = (doc: DiagramDocument) => openWithResults(doc);
 
-function renderEditor() {
-  return render(
-    <>
-      <AnalysisPanel />
-      <div style={{ width: 1200, height: 800 }}>
-        <ReactFlowProvider>
-          <Canvas />
-        </ReactFlowProvider>
-      </div>
-    </>,
-  );
-}
+const renderEditor = () => renderWithCanvas(<AnalysisPanel />);
 
 beforeEach(() => {
   resetCoreResults();
