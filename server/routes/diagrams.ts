@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { checkOptionsSchema, duplicateDiagramSchema, restoreRevisionSchema, saveRevisionSchema, updateDiagramSchema, workingCopySchema } from '../../shared/schemas/diagrams';
+import { checkOptionsSchema, copyDiagramSchema, duplicateDiagramSchema, moveDiagramSchema, restoreRevisionSchema, saveRevisionSchema, updateDiagramSchema, workingCopySchema } from '../../shared/schemas/diagrams';
 import { requireAuth, type AppDeps } from '../http/context';
 import { ApiError, fieldErrors, notFound } from '../http/errors';
 import { parse } from '../http/validate';
@@ -7,8 +7,8 @@ import type { Permission } from '../../shared/roles';
 import type { Db } from '../db/client';
 import { commentSchema, decisionSchema, resolveCommentSchema, reviewRequestSchema } from '../../shared/schemas/reviews';
 import { addComment, decide, listComments, requestReview, setCommentResolved } from '../services/reviews';
-import { requireDiagramRole } from '../services/access';
-import { deleteDiagram, saveAnnotations, saveWorkingCopy, updateDiagram, workingCopyContent } from '../services/diagrams';
+import { requireDiagramRole, requireProjectRole } from '../services/access';
+import { copyDiagram, deleteDiagram, moveDiagram, saveAnnotations, saveWorkingCopy, updateDiagram, workingCopyContent } from '../services/diagrams';
 import { annotationsBodySchema } from '../../shared/diagram/annotations';
 import { checkDiagram } from '../services/checks';
 import { duplicateDiagram, findRevision, getDiagramWithLatest, getRevision, listRevisions, restoreRevision, savedRevisionJson, saveRevision } from '../services/revisions';
@@ -77,6 +77,24 @@ export function diagramRoutes(deps: AppDeps): Router {
     await requireDiagramRole(db, user.id, req.params.id, 'diagram.edit');
     const input = parse(duplicateDiagramSchema, req.body);
     res.status(201).json({ diagram: await duplicateDiagram(db, user.id, req.params.id, input) });
+  });
+
+  // Move or copy to another project of the same team: `diagram.edit` on the diagram's project and on
+  // the target (a target in a team the caller is not in answers 404, like any other resource there).
+  r.post('/:id/move', async (req, res) => {
+    const { user } = requireAuth(res);
+    await requireDiagramRole(db, user.id, req.params.id, 'diagram.edit');
+    const input = parse(moveDiagramSchema, req.body);
+    const target = await requireProjectRole(db, user.id, input.projectId, 'diagram.edit');
+    res.json({ diagram: await moveDiagram(db, user.id, req.params.id, target.project) });
+  });
+
+  r.post('/:id/copy', async (req, res) => {
+    const { user } = requireAuth(res);
+    await requireDiagramRole(db, user.id, req.params.id, 'diagram.edit');
+    const input = parse(copyDiagramSchema, req.body);
+    const target = await requireProjectRole(db, user.id, input.projectId, 'diagram.edit');
+    res.status(201).json({ diagram: await copyDiagram(db, user.id, req.params.id, target.project, input.name) });
   });
 
   // The analysis of sent content (unsaved edits) or of the working copy, in a worker thread; nothing is stored.

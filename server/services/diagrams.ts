@@ -12,6 +12,7 @@ import type { Db, DbOrTx } from '../db/client';
 import { activity, diagrams, projects, users } from '../db/schema';
 import { ApiError, conflict, notFound } from '../http/errors';
 import { newId } from '../ids';
+import { copyName as copyNameOf } from '../../shared/schemas/diagrams';
 
 const updater = alias(users, 'updater');
 
@@ -171,4 +172,76 @@ export async function saveAnnotations(db: Db, userId: string, diagramId: string,
       .returning({ workingCopyVersion: diagrams.workingCopyVersion, updatedAt: diagrams.updatedAt });
     return saved!;
   });
+}
+
+/** The project a diagram moves or is copied to, checked to be in the diagram's own team (400 on projectId otherwise). */
+function otherTeamError() {
+  return new ApiError(400, 'validation_failed', 'Some fields need attention.', {
+    fields: { projectId: ['The project must belong to the same team as the diagram'] },
+  });
+}
+
+/**
+ * Move a diagram to another project of the same team. The diagram keeps its id, working copy,
+ * revisions, reviews and comments (they hang off the diagram, not the project); both projects' activity
+ * records the move. The caller has checked `diagram.edit` on both projects.
+ */
+export async function moveDiagram(db: Db, userId: string, diagramId: string, target: { id: string; teamId: string; name: string }) {
+  await db.transaction(async (tx) => {
+    const [row] = await tx
+      .select({ name: diagrams.name, projectId: diagrams.projectId, teamId: projects.teamId, projectName: projects.name })
+      .from(diagrams)
+      .innerJoin(projects, eq(projects.id, diagrams.projectId))
+      .where(eq(diagrams.id, diagramId))
+      .for('update', { of: diagrams });
+    if (!row) throw notFound('No such diagram.');
+    if (row.teamId !== target.teamId) throw otherTeamError();
+    if (row.projectId === target.id) {
+      throw new ApiError(400, 'validation_failed', 'Some fields need attention.', { fields: { projectId: ['The diagram is already in this project'] } });
+    }
+    await tx.update(diagrams).set({ projectId: target.id, updatedAt: new Date(), updatedBy: userId }).where(eq(diagrams.id, diagramId));
+    const base = { diagramId, name: row.name, fromProjectId: row.projectId, fromProjectName: row.projectName, toProjectId: target.id, toProjectName: target.name };
+    await tx.insert(activity).values([
+      { id: newId(), projectId: row.projectId, userId, action: 'diagram.moved_out', detail: base },
+      { id: newId(), projectId: target.id, userId, action: 'diagram.moved_in', detail: base },
+    ]);
+  });
+  return getDiagram(db, diagramId);
+}
+
+/**
+ * Copy a diagram's working copy (not its revisions, reviews or comments) into a project of the same
+ * team, as a new diagram named "<name> (copy)" unless a name is given. The new diagram starts with no
+ * revision; the target project's activity records the copy.
+ */
+export async function copyDiagram(db: Db, userId: string, diagramId: string, target: { id: string; teamId: string; name: string }, name?: string) {
+  const id = newId();
+  await db.transaction(async (tx) => {
+    const [row] = await tx
+      .select({ name: diagrams.name, description: diagrams.description, content: diagrams.content, projectId: diagrams.projectId, teamId: projects.teamId, projectName: projects.name })
+      .from(diagrams)
+      .innerJoin(projects, eq(projects.id, diagrams.projectId))
+      .where(eq(diagrams.id, diagramId));
+    if (!row) throw notFound('No such diagram.');
+    if (row.teamId !== target.teamId) throw otherTeamError();
+    const copyName = name ?? copyNameOf(row.name);
+    const source = row.content && typeof row.content === 'object' && !Array.isArray(row.content) ? (row.content as Record<string, unknown>) : {};
+    await tx.insert(diagrams).values({
+      id,
+      projectId: target.id,
+      name: copyName,
+      description: row.description,
+      content: { ...source, name: copyName },
+      createdBy: userId,
+      updatedBy: userId,
+    });
+    await tx.insert(activity).values({
+      id: newId(),
+      projectId: target.id,
+      userId,
+      action: 'diagram.copied',
+      detail: { diagramId: id, name: copyName, sourceDiagramId: diagramId, sourceName: row.name, sourceProjectId: row.projectId, sourceProjectName: row.projectName },
+    });
+  });
+  return getDiagram(db, id);
 }

@@ -46,6 +46,24 @@ export const duplicateDiagramSchema = z.object({
 });
 export type DuplicateDiagramInput = z.input<typeof duplicateDiagramSchema>;
 
+/**
+ * POST /api/diagrams/:id/move and /copy: the project of the same team to move the diagram to, or to put
+ * the copy in. A copy is named "<name> (copy)" unless `name` is given.
+ */
+export const moveDiagramSchema = z.object({
+  projectId: z.string({ error: 'projectId is required' }).trim().min(1, 'projectId is required').max(64, 'projectId is too long'),
+});
+export type MoveDiagramInput = z.input<typeof moveDiagramSchema>;
+
+export const copyDiagramSchema = moveDiagramSchema.extend({ name: name.optional() });
+export type CopyDiagramInput = z.input<typeof copyDiagramSchema>;
+
+/** The name of a copy: "<name> (copy)", shortened so it stays within the 120-character limit. */
+export function copyName(source: string): string {
+  const suffix = ' (copy)';
+  return `${source.trim().slice(0, 120 - suffix.length).trimEnd()}${suffix}`;
+}
+
 export const REVISION_STATES = ['draft', 'in_review', 'changes_requested', 'approved'] as const;
 export type RevisionState = (typeof REVISION_STATES)[number];
 

@@ -347,6 +347,18 @@ const ROUTES: RouteCase[] = [
     call: async () => ({ method: 'post', url: `/api/diagrams/${diagramId}/duplicate`, body: { name: unique('Duplicated diagram ') } }),
   },
   {
+    route: 'POST /api/diagrams/:id/move',
+    requires: { kind: 'permission', permission: 'diagram.edit' },
+    success: 200,
+    call: async () => ({ method: 'post', url: `/api/diagrams/${await freshDiagram()}/move`, body: { projectId: await freshProject() } }),
+  },
+  {
+    route: 'POST /api/diagrams/:id/copy',
+    requires: { kind: 'permission', permission: 'diagram.edit' },
+    success: 201,
+    call: async () => ({ method: 'post', url: `/api/diagrams/${diagramId}/copy`, body: { projectId: await freshProject() } }),
+  },
+  {
     route: 'POST /api/diagrams/:id/check',
     requires: { kind: 'permission', permission: 'project.read' },
     success: 200,
@@ -510,8 +522,8 @@ afterAll(async () => {
 });
 
 describe('authorization matrix', () => {
-  it('lists all 57 routes (add each new route here)', () => {
-    expect(ROUTES.map((r) => r.route)).toHaveLength(57);
+  it('lists all 59 routes (add each new route here)', () => {
+    expect(ROUTES.map((r) => r.route)).toHaveLength(59);
   });
 
   for (const c of ROUTES) {

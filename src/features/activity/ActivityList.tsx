@@ -25,6 +25,9 @@ export function describeActivity(e: ActivityEntry): ReactNode {
     case 'diagram.created': return <>created the diagram {diagramLink}</>;
     case 'diagram.duplicated': return <>duplicated {str(d.sourceName) || 'a diagram'}{num(d.sourceRevision) ? ` (r${num(d.sourceRevision)})` : ''} as {diagramLink}</>;
     case 'diagram.renamed': return <>renamed a diagram to {diagramLink}</>;
+    case 'diagram.moved_in': return <>moved {diagramLink} here from {str(d.fromProjectName) || 'another project'}</>;
+    case 'diagram.moved_out': return <>moved {diagramLink} to {str(d.toProjectName) || 'another project'}</>;
+    case 'diagram.copied': return <>copied {str(d.sourceName) || 'a diagram'}{str(d.sourceProjectName) ? ` from ${str(d.sourceProjectName)}` : ''} as {diagramLink}</>;
     case 'diagram.updated': return <>edited the description of {diagramLink}</>;
     case 'diagram.deleted': return <>deleted the diagram <span className="font-medium">{name}</span></>;
     case 'revision.saved': return <>saved {rev()} of {diagramLink}{str(d.message) ? <> — “{str(d.message)}”</> : null}</>;
