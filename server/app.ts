@@ -23,6 +23,7 @@ import { projectRoutes } from './routes/projects';
 import { diagramRoutes } from './routes/diagrams';
 import { uploadRoutes } from './routes/uploads';
 import { libraryRoutes } from './routes/library';
+import { notificationRoutes } from './routes/notifications';
 import { createStorage } from './storage';
 import type { UploadStorage } from './storage/types';
 import { analysisPool, type AnalysisPool } from './services/analysis-pool';
@@ -113,6 +114,7 @@ export function createApp(options: CreateAppOptions): Express {
   api.use('/diagrams', diagramRoutes(deps));
   api.use(uploadRoutes(deps));
   api.use(libraryRoutes(deps));
+  api.use(notificationRoutes(deps));
   api.use(apiNotFound);
   api.use(errorHandler);
   app.use('/api', api);

@@ -5,6 +5,7 @@
  */
 import nodemailer from 'nodemailer';
 import type { Db } from '../db/client';
+import { sql } from 'drizzle-orm';
 import { mailOutbox } from '../db/schema';
 import { newId } from '../ids';
 
@@ -15,6 +16,8 @@ export interface OutgoingMail {
   html: string;
   /** The team the message is about (invites); null for account mail. */
   teamId: string | null;
+  /** The account the message is for, when the sender knows it; otherwise the outbox looks the address up. */
+  recipientId?: string;
 }
 
 export interface Mailer {
@@ -36,6 +39,8 @@ export function createOutboxMailer(db: Db): Mailer {
         text: mail.text,
         html: mail.html,
         teamId: mail.teamId,
+        // Whose own outbox shows it: the account holding the address now (an address nobody has: nobody's).
+        recipientId: mail.recipientId ?? sql`(select "id" from "users" where "email" = ${mail.to})`,
       });
     },
     async close() {},

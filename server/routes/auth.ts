@@ -4,6 +4,7 @@ import type { ActiveSession } from '../auth/sessions';
 import { authOf, requireAuth, secureCookies, type AppDeps } from '../http/context';
 import { parse } from '../http/validate';
 import { checkCredentials, publicUser, signUp, userTeams } from '../services/accounts';
+import { getPreferences } from '../services/preferences';
 
 export function clientIp(req: Request): string {
   return req.ip ?? req.socket.remoteAddress ?? 'unknown';
@@ -47,7 +48,7 @@ export function authRoutes(deps: AppDeps): Router {
 
   r.get('/me', async (_req, res) => {
     const { user } = requireAuth(res);
-    res.json({ user: publicUser(user), teams: await userTeams(db, user.id), demo: config.demo, mailMode: mailer.mode });
+    res.json({ user: publicUser(user), preferences: await getPreferences(db, user.id), teams: await userTeams(db, user.id), demo: config.demo, mailMode: mailer.mode });
   });
 
   return r;

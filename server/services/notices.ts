@@ -11,7 +11,7 @@ export function revisionLink(appOrigin: string, diagramId: string, revision: num
 }
 
 export type ReviewNotice = {
-  to: { email: string; name: string };
+  to: { id?: string; email: string; name: string };
   actor: { name: string };
   diagram: { id: string; name: string };
   projectName: string;
@@ -52,5 +52,5 @@ export function reviewNotice(appOrigin: string, n: ReviewNotice): OutgoingMail {
     `<p>${escapeHtml(lead)}</p>` +
     (quote ? `<blockquote>${escapeHtml(quote).replace(/\n/g, '<br>')}</blockquote>` : '') +
     `<p><a href="${escapeHtml(link)}">Open it in Bankwright</a></p><p><small>${escapeHtml(SAFETY)}</small></p>`;
-  return { to: n.to.email, subject, text, html, teamId: n.teamId };
+  return { to: n.to.email, subject, text, html, teamId: n.teamId, ...(n.to.id ? { recipientId: n.to.id } : {}) };
 }

@@ -16,6 +16,7 @@ import { newId } from '../ids';
 import type { Mailer } from '../mail/mailer';
 import type { DiagramRow, ProjectRow } from './access';
 import { reviewNotice } from './notices';
+import { notify } from './notifications';
 
 export interface RevisionContext {
   diagram: DiagramRow;
@@ -113,6 +114,7 @@ export async function requestReview(
       action: 'review.requested',
       detail: { diagramId: diagram.id, name: diagram.name, number: revision.number, reviewerIds },
     });
+    await notify(tx, reviewerIds, { kind: 'review_requested', teamId: project.teamId, actorId: user.id, diagramId: diagram.id, revisionNumber: revision.number });
   });
 
   const recipients = await emailsOf(db, reviewerIds);
@@ -211,6 +213,7 @@ export async function addComment(
   }
 
   const id = newId();
+  const ids = new Set<string>();
   await db.transaction(async (tx) => {
     await tx.insert(reviewComments).values({ id, revisionId: revision.id, authorId: user.id, parentId: threadId, partId, body: input.body });
     await tx.insert(activity).values({
@@ -220,13 +223,21 @@ export async function addComment(
       action: 'review.commented',
       detail: { diagramId: diagram.id, name: diagram.name, number: revision.number, commentId: id, ...(partId ? { partId } : {}), ...(threadId ? { parentId: threadId } : {}) },
     });
+    // The revision's author and everyone else taking part: requested reviewers and earlier commenters.
+    const requested = await tx.select({ id: reviewRequests.reviewerId }).from(reviewRequests).where(eq(reviewRequests.revisionId, revision.id));
+    const commenters = await tx.selectDistinct({ id: reviewComments.authorId }).from(reviewComments).where(eq(reviewComments.revisionId, revision.id));
+    for (const x of [revision.authorId, ...requested.map((r) => r.id), ...commenters.map((c) => c.id)]) if (x && x !== user.id) ids.add(x);
+    await notify(tx, ids, {
+      kind: threadId ? 'reply' : 'comment',
+      teamId: project.teamId,
+      actorId: user.id,
+      diagramId: diagram.id,
+      revisionNumber: revision.number,
+      commentId: id,
+      excerpt: input.body,
+    });
   });
 
-  // The revision's author and everyone else taking part: requested reviewers and earlier commenters.
-  const requested = await db.select({ id: reviewRequests.reviewerId }).from(reviewRequests).where(eq(reviewRequests.revisionId, revision.id));
-  const commenters = await db.selectDistinct({ id: reviewComments.authorId }).from(reviewComments).where(eq(reviewComments.revisionId, revision.id));
-  const ids = new Set<string>();
-  for (const x of [revision.authorId, ...requested.map((r) => r.id), ...commenters.map((c) => c.id)]) if (x && x !== user.id) ids.add(x);
   const recipients = await emailsOf(db, [...ids]);
   await sendAll(
     mailer,
@@ -302,6 +313,16 @@ export async function decide(
       action: 'review.decided',
       detail: { diagramId: diagram.id, name: diagram.name, number: revision.number, decision: input.decision, ...(input.note ? { note: input.note } : {}) },
     });
+    if (revision.authorId) {
+      await notify(tx, [revision.authorId], {
+        kind: approve ? 'approved' : 'changes_requested',
+        teamId: project.teamId,
+        actorId: user.id,
+        diagramId: diagram.id,
+        revisionNumber: revision.number,
+        excerpt: input.note,
+      });
+    }
   });
   if (revision.authorId && revision.authorId !== user.id) {
     const recipients = await emailsOf(db, [revision.authorId]);
