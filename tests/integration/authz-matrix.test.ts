@@ -255,6 +255,19 @@ const ROUTES: RouteCase[] = [
     success: 200,
     call: async () => ({ method: 'get', url: `/api/teams/${teamId}/outbox` }),
   },
+  // The caller's own notices, work list, captured mail and preferences: any signed-in user, keyed by the session's user.
+  { route: 'GET /api/notifications', requires: { kind: 'signedIn' }, success: 200, call: async () => ({ method: 'get', url: '/api/notifications?unread=1' }) },
+  { route: 'POST /api/notifications/read', requires: { kind: 'signedIn' }, success: 200, call: async () => ({ method: 'post', url: '/api/notifications/read', body: { all: true } }) },
+  { route: 'GET /api/work', requires: { kind: 'signedIn' }, success: 200, call: async () => ({ method: 'get', url: '/api/work' }) },
+  { route: 'GET /api/account/outbox', requires: { kind: 'signedIn' }, success: 200, call: async () => ({ method: 'get', url: '/api/account/outbox' }) },
+  { route: 'GET /api/account/preferences', requires: { kind: 'signedIn' }, success: 200, call: async () => ({ method: 'get', url: '/api/account/preferences' }) },
+  {
+    route: 'PATCH /api/account/preferences',
+    requires: { kind: 'signedIn' },
+    success: 200,
+    // Null (follow the team) leaves every account as the other cells expect it.
+    call: async () => ({ method: 'patch', url: '/api/account/preferences', body: { unitSystem: null } }),
+  },
   {
     route: 'GET /api/invites/:token',
     requires: { kind: 'signedIn' },
@@ -522,8 +535,8 @@ afterAll(async () => {
 });
 
 describe('authorization matrix', () => {
-  it('lists all 59 routes (add each new route here)', () => {
-    expect(ROUTES.map((r) => r.route)).toHaveLength(59);
+  it('lists all 65 routes (add each new route here)', () => {
+    expect(ROUTES.map((r) => r.route)).toHaveLength(65);
   });
 
   for (const c of ROUTES) {
