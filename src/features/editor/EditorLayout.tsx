@@ -12,6 +12,7 @@ import { Notice } from '@/components/Notice';
 import { formatDateTime } from '@/lib/format';
 import { AnnotationsPanel } from '@/features/annotations/AnnotationsPanel';
 import { BriefingToolbar } from '@/features/export/BriefingToolbar';
+import { DiagramMenu } from '@/features/projects/DiagramMenu';
 import { RevisionStateBadge, SaveRevisionButton } from '@/features/revisions';
 import { AnalysisPanel, FindingsPanel } from './analysis';
 import type { DiagramRecord } from './api';
@@ -23,6 +24,7 @@ import { useLiveResults } from './results/useLiveResults';
 import { SHORTCUTS, useEditorShortcuts } from './shortcuts';
 import { selectCanRedo, selectCanUndo, useEditorStore } from './store';
 import { TemplateDialog } from './TemplateDialog';
+import { RequestReviewButton } from '@/features/review/RequestReviewButton';
 import { useToasts } from './toasts';
 import { useSaveState, workingCopyActions } from './workingCopy';
 import { fmtPct, fmtVolts, fmtWatts } from './units';
@@ -387,6 +389,7 @@ export function EditorLayout({ diagram, role, restoredFrom, filledDefaults, onDi
                   </>
                 )}
               </Menu>
+              <DiagramMenu diagram={diagram} />
             </>
           ) : null}
           <BriefingToolbar diagram={diagram} role={role} />
@@ -398,6 +401,7 @@ export function EditorLayout({ diagram, role, restoredFrom, filledDefaults, onDi
           {!readOnly ? (
             <SaveRevisionButton diagramId={diagram.id} getContent={getContent} baseRevision={baseRevision} onSaved={(r) => setBaseRevision(r.number)} />
           ) : null}
+          <RequestReviewButton diagram={diagram} role={role} />
           <Button size="sm" variant="ghost" onClick={() => useEditorStore.getState().requestFit()} title="Zoom to fit (F)">
             Fit
           </Button>

@@ -7,15 +7,15 @@ import { Dialog, DialogActions } from '@/components/Dialog';
 import { Notice } from '@/components/Notice';
 import { useEditorStore } from './store';
 
-type Kind = 'post' | 'busbar' | 'series';
+export type Kind = 'post' | 'busbar' | 'series';
 
-const KINDS: { id: Kind; title: string; text: string }[] = [
+export const KINDS: { id: Kind; title: string; text: string }[] = [
   { id: 'post', title: 'Batteries post to post', text: 'Jumpered neighbour to neighbour; take-off at the same end, diagonally, or at inner batteries.' },
   { id: 'busbar', title: 'Batteries on busbars', text: 'Each battery on its own equal-length, fused cable to a positive and a negative busbar.' },
   { id: 'series', title: 'Series-parallel strings', text: 'Strings of batteries in series (e.g. 4S2P at 48 V), a fuse per string, on busbars.' },
 ];
 
-const DEFAULT_PRESET = BATTERY_PRESETS.find((p) => p.id.startsWith('lfp-') && p.props.capacity_Ah === 100)?.id ?? BATTERY_PRESETS[0].id;
+export const DEFAULT_PRESET = BATTERY_PRESETS.find((p) => p.id.startsWith('lfp-') && p.props.capacity_Ah === 100)?.id ?? BATTERY_PRESETS[0].id;
 
 export function buildTemplate(kind: Kind, o: { count: number; takeOff: TakeOff; pos: number; neg: number; series: number; parallel: number; presetId: string }): DiagramDocument {
   const battery = BATTERY_PRESETS.find((p) => p.id === o.presetId)?.props;

@@ -11,7 +11,7 @@ import { isApiError } from '@/lib/api';
 import { rememberTeam } from '@/lib/currentTeam';
 import { formatDateTime, plural } from '@/lib/format';
 import { useSignedInMe } from '../auth/hooks';
-import { ImportDiagramButton } from '../diagram-files/ImportButton';
+import { NewDiagramButton } from './NewDiagramButton';
 import { ActivityList } from '../activity/ActivityList';
 import { UploadsSection } from '../uploads/UploadsSection';
 import { RevisionStateBadge } from '../revisions/RevisionStateBadge';
@@ -73,7 +73,7 @@ function ProjectView({ project, teamName, mayEdit, mayImport }: { project: Proje
         actions={
           mayEdit || mayImport ? (
             <>
-              {mayImport ? <ImportDiagramButton projectId={project.id} /> : null}
+              {mayImport ? <NewDiagramButton projectId={project.id} /> : null}
               {mayEdit ? <>
               <Button onClick={() => setEditing(true)}>
                 <PencilIcon size={14} /> Edit
@@ -107,6 +107,7 @@ function ProjectView({ project, teamName, mayEdit, mayImport }: { project: Proje
         ) : diagrams.data.length === 0 ? (
           <EmptyState icon={<DiagramIcon size={32} />} title="No diagrams in this project">
             Diagrams of the bank — batteries, busbars, fuses and cable runs — will be listed here.
+            {mayImport ? <> Start one with <strong className="font-semibold">New diagram…</strong>: blank, from a template, or from a file.</> : null}
           </EmptyState>
         ) : (
           <ul aria-label="Diagrams" className="grid gap-3 sm:grid-cols-2 lg:grid-cols-3">

@@ -39,3 +39,17 @@ export const updateProject = (projectId: string, body: ProjectPatch) =>
 export const deleteProject = (projectId: string) => api<void>(p(projectId), { method: 'DELETE' });
 export const fetchDiagrams = (projectId: string, signal?: AbortSignal) =>
   api<{ diagrams: DiagramSummary[] }>(`${p(projectId)}/diagrams`, { signal }).then((r) => r.diagrams);
+
+/** A diagram as the create, move and copy routes answer it (the fields the client uses). */
+export interface CreatedDiagram {
+  id: string;
+  projectId: string;
+  name: string;
+}
+
+export const createDiagramIn = (projectId: string, body: { name: string; content?: unknown }) =>
+  api<{ diagram: CreatedDiagram }>(`${p(projectId)}/diagrams`, { method: 'POST', body }).then((r) => r.diagram);
+export const moveDiagram = (diagramId: string, projectId: string) =>
+  api<{ diagram: CreatedDiagram }>(`/api/diagrams/${encodeURIComponent(diagramId)}/move`, { method: 'POST', body: { projectId } }).then((r) => r.diagram);
+export const copyDiagram = (diagramId: string, projectId: string) =>
+  api<{ diagram: CreatedDiagram }>(`/api/diagrams/${encodeURIComponent(diagramId)}/copy`, { method: 'POST', body: { projectId } }).then((r) => r.diagram);
