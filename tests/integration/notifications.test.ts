@@ -37,7 +37,9 @@ async function diagramWithRevisions(count: number, name: string): Promise<string
   const id = (await designer.post(`/api/projects/${stationId}/diagrams`).send({ name, content: smallBank(name) })).body.diagram.id;
   let base: number | null = null;
   for (let i = 1; i <= count; i++) {
-    const res = await designer.post(`/api/diagrams/${id}/revisions`).send({ baseRevision: base, message: `Revision ${i}`, content: smallBank(`${name} ${i}`) });
+    const res: { status: number; body: { revision: { number: number } } } = await designer
+      .post(`/api/diagrams/${id}/revisions`)
+      .send({ baseRevision: base, message: `Revision ${i}`, content: smallBank(`${name} ${i}`) });
     expect(res.status).toBe(201);
     base = res.body.revision.number;
   }

@@ -25,6 +25,7 @@ import { SHORTCUTS, useEditorShortcuts } from './shortcuts';
 import { selectCanRedo, selectCanUndo, useEditorStore } from './store';
 import { TemplateDialog } from './TemplateDialog';
 import { RequestReviewButton } from '@/features/review/RequestReviewButton';
+import { RequestReviewButton } from '@/features/review/RequestReviewButton';
 import { useToasts } from './toasts';
 import { useSaveState, workingCopyActions } from './workingCopy';
 import { fmtPct, fmtVolts, fmtWatts } from './units';
@@ -401,6 +402,7 @@ export function EditorLayout({ diagram, role, restoredFrom, filledDefaults, onDi
           {!readOnly ? (
             <SaveRevisionButton diagramId={diagram.id} getContent={getContent} baseRevision={baseRevision} onSaved={(r) => setBaseRevision(r.number)} />
           ) : null}
+          <RequestReviewButton diagram={diagram} role={role} />
           <RequestReviewButton diagram={diagram} role={role} />
           <Button size="sm" variant="ghost" onClick={() => useEditorStore.getState().requestFit()} title="Zoom to fit (F)">
             Fit
