@@ -17,14 +17,13 @@ import { RevisionStateBadge, SaveRevisionButton } from '@/features/revisions';
 import { AnalysisPanel, FindingsPanel } from './analysis';
 import type { DiagramRecord } from './api';
 import { Canvas } from './canvas/Canvas';
-import { Palette } from './Palette';
+import { Palette, usePartDragActive } from './Palette';
 import { PropertiesPanel } from './properties/PropertiesPanel';
 import { FindingCounts, ModeStatus } from './results/ModeStatus';
 import { useLiveResults } from './results/useLiveResults';
 import { SHORTCUTS, useEditorShortcuts } from './shortcuts';
 import { selectCanRedo, selectCanUndo, useEditorStore } from './store';
 import { TemplateDialog } from './TemplateDialog';
-import { RequestReviewButton } from '@/features/review/RequestReviewButton';
 import { RequestReviewButton } from '@/features/review/RequestReviewButton';
 import { useToasts } from './toasts';
 import { useSaveState, workingCopyActions } from './workingCopy';
@@ -269,16 +268,18 @@ function HelpOverlay({ open, onClose }: { open: boolean; onClose: () => void }) 
 function EmptyCanvas({ onTemplate }: { onTemplate: () => void }) {
   const empty = useEditorStore((s) => s.doc.parts.length === 0);
   const readOnly = useEditorStore((s) => s.readOnly);
+  // Only the card's button takes the pointer, and not during a part drag: a drop anywhere reaches the canvas.
+  const dragging = usePartDragActive();
   if (!empty) return null;
   return (
     <div className="pointer-events-none absolute inset-0 z-10 flex items-center justify-center">
-      <div className="pointer-events-auto max-w-sm rounded-lg border border-graphite-200 bg-white/95 p-5 text-center shadow-md">
+      <div className={`pointer-events-none max-w-sm rounded-lg border border-graphite-200 bg-white/95 p-5 text-center shadow-md ${dragging ? 'opacity-40' : '[&_button]:pointer-events-auto'}`} data-testid="empty-canvas">
         <h2 className="text-[15px] font-semibold">An empty bank</h2>
         {readOnly ? (
           <p className="mt-1 text-[13px] text-graphite-600">Nothing has been drawn in this diagram yet.</p>
         ) : (
           <>
-            <p className="mt-1 text-[13px] text-graphite-600">Start from a common layout, or drag parts from the palette (or focus one and press Enter).</p>
+            <p className="mt-1 text-[13px] text-graphite-600">Start from a common layout, or click a part in the palette to place it here (or drag it onto the canvas).</p>
             <Button variant="primary" className="mt-3" onClick={onTemplate}>
               New from template…
             </Button>
@@ -402,7 +403,6 @@ export function EditorLayout({ diagram, role, restoredFrom, filledDefaults, onDi
           {!readOnly ? (
             <SaveRevisionButton diagramId={diagram.id} getContent={getContent} baseRevision={baseRevision} onSaved={(r) => setBaseRevision(r.number)} />
           ) : null}
-          <RequestReviewButton diagram={diagram} role={role} />
           <RequestReviewButton diagram={diagram} role={role} />
           <Button size="sm" variant="ghost" onClick={() => useEditorStore.getState().requestFit()} title="Zoom to fit (F)">
             Fit

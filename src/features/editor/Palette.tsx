@@ -1,9 +1,10 @@
 /**
- * Parts palette: drag a part onto the canvas, or focus it and press Enter (or Space) to place it at
- * the centre of the view. Below the parts, the team parts library: click a battery, fuse or busbar
+ * Parts palette: drag a part onto the canvas, or click it (or focus it and press Enter or Space) to
+ * place it at the centre of the view; placing again without moving the view cascades each new part
+ * down and right of the last, so repeated clicks never stack parts. Below the parts, the team parts library: click a battery, fuse or busbar
  * preset to place one with the preset's props; click a cable preset to apply it to the selected cables.
  */
-import { memo, useCallback, useContext, type DragEvent, type KeyboardEvent } from 'react';
+import { memo, useCallback, useContext, useEffect, useState, type DragEvent } from 'react';
 import { useParams } from 'react-router';
 import { QueryClientContext, useQuery } from '@tanstack/react-query';
 import { useReactFlow } from '@xyflow/react';
@@ -44,28 +45,66 @@ function useViewCentre() {
   }, [rf]);
 }
 
+/** Offset between cascaded placements, canvas units (two grid steps down and right). */
+export const CASCADE_STEP = GRID * 2;
+/** After this many cascaded placements the next one starts again at the centre (offset by the taken-spot check). */
+const CASCADE_LENGTH = 8;
+let cascade = { key: '', n: 0 };
+
+/**
+ * Where the next click-placed part is centred: the view's centre, stepped down and right by one
+ * CASCADE_STEP for each placement since the view last moved.
+ */
+export function cascadedCentre(centre: { x: number; y: number }): { x: number; y: number } {
+  const key = `${Math.round(centre.x)},${Math.round(centre.y)}`;
+  cascade = cascade.key === key ? { key, n: (cascade.n + 1) % CASCADE_LENGTH } : { key, n: 0 };
+  return { x: centre.x + cascade.n * CASCADE_STEP, y: centre.y + cascade.n * CASCADE_STEP };
+}
+
+/** For tests: forget the last placement. */
+export function resetCascade() {
+  cascade = { key: '', n: 0 };
+}
+
+/**
+ * True while a palette part is being dragged anywhere on the page: overlays on the canvas (the
+ * empty-canvas card) let the drop through to the canvas meanwhile.
+ */
+export function usePartDragActive(): boolean {
+  const [active, setActive] = useState(false);
+  useEffect(() => {
+    const start = (e: globalThis.DragEvent) => {
+      if (e.dataTransfer?.types.includes(PART_DRAG_MIME)) setActive(true);
+    };
+    const end = () => setActive(false);
+    document.addEventListener('dragstart', start);
+    document.addEventListener('dragend', end);
+    document.addEventListener('drop', end);
+    return () => {
+      document.removeEventListener('dragstart', start);
+      document.removeEventListener('dragend', end);
+      document.removeEventListener('drop', end);
+    };
+  }, []);
+  return active;
+}
+
 const PaletteItem = memo(function PaletteItem({ type, hint, onPlace }: { type: PartType; hint: string; onPlace: (t: PartType) => void }) {
   const onDragStart = useCallback((e: DragEvent) => {
     e.dataTransfer.setData(PART_DRAG_MIME, type);
     e.dataTransfer.effectAllowed = 'copy';
   }, [type]);
-  const onKeyDown = useCallback((e: KeyboardEvent) => {
-    if (e.key === 'Enter' || e.key === ' ') {
-      e.preventDefault();
-      onPlace(type);
-    }
-  }, [type, onPlace]);
+  // A button: a click, Enter and Space all place the part (a drag fires no click).
   return (
     <li>
       <button
         type="button"
         draggable
         onDragStart={onDragStart}
-        onKeyDown={onKeyDown}
-        onDoubleClick={() => onPlace(type)}
-        className="bw-palette-item"
+        onClick={() => onPlace(type)}
+        className="bw-palette-item cursor-pointer"
         aria-describedby="palette-how-to-place"
-        title={`${hint}: drag onto the canvas, or press Enter`}
+        title={`${hint}: click to place at the centre of the view, or drag onto the canvas`}
       >
         <PaletteGlyph type={type} />
         <span className="min-w-0">
@@ -163,7 +202,7 @@ function TeamLibrary({ centre }: { centre: () => { x: number; y: number } }) {
                   type="button"
                   className="bw-palette-item cursor-pointer disabled:cursor-not-allowed disabled:opacity-50"
                   disabled={disabled}
-                  onClick={() => (cable ? applyCablePreset(item) : placePreset(item, centre()))}
+                  onClick={() => (cable ? applyCablePreset(item) : placePreset(item, cascadedCentre(centre())))}
                   aria-describedby="palette-how-to-place"
                   title={`${itemSummary(item)}. ${action}.`}
                 >
@@ -188,13 +227,13 @@ export function Palette() {
   // The library needs the server (a query client); a palette rendered on its own shows the parts only.
   const online = useContext(QueryClientContext) !== undefined;
   const onPlace = useCallback((type: PartType) => {
-    placePart(type, centre());
+    placePart(type, cascadedCentre(centre()));
   }, [centre]);
   if (readOnly) return null;
   return (
     <nav aria-label="Parts palette" className="bw-palette">
       <p id="palette-how-to-place" className="sr-only">
-        Press Enter to place the part at the centre of the view, or drag it onto the canvas. A cable preset applies to the selected cables.
+        Click or press Enter to place the part at the centre of the view, or drag it onto the canvas. A cable preset applies to the selected cables.
       </p>
       <h2 className="px-2 pt-2 pb-1 text-[11px] font-semibold tracking-wide text-graphite-500 uppercase">Parts</h2>
       <ul className="space-y-0.5 px-1 pb-2">
