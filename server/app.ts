@@ -87,14 +87,15 @@ function securityHeaders(config: Config, dev: boolean): RequestHandler {
 export function createApp(options: CreateAppOptions): Express {
   const { db, mailer, config, client } = options;
   const sessions = createSessions(db);
-  const limiter = createSignInLimiter(options.limiter);
+  const limiter = createSignInLimiter(db, options.limiter);
   const storage = options.storage ?? createStorage(config);
   const analysis = options.analysis ?? analysisPool(config.analysis);
   const deps: AppDeps = { db, mailer, config, sessions, limiter, storage, analysis };
 
   const app = express();
   app.disable('x-powered-by');
-  app.set('trust proxy', false);
+  // TRUST_PROXY = n: the client's address is the one n proxies back in X-Forwarded-For (0: the socket's).
+  app.set('trust proxy', config.trustProxy > 0 ? config.trustProxy : false);
   app.use(securityHeaders(config, client?.mode === 'vite'));
 
   const api = express.Router();

@@ -40,6 +40,8 @@ const envSchema = z
       .default(0),
     BACKUP_DIR: z.string().min(1).optional(),
     BACKUP_KEEP: z.coerce.number('BACKUP_KEEP must be a number').int('BACKUP_KEEP must be a whole number').min(1, 'BACKUP_KEEP must be at least 1').max(10_000, 'BACKUP_KEEP must be at most 10000').default(14),
+    /** Reverse proxies in front of the server whose X-Forwarded-For is believed (0: use the socket's address). */
+    TRUST_PROXY: z.coerce.number('TRUST_PROXY must be a number of proxies').int('TRUST_PROXY must be a whole number of proxies').min(0, 'TRUST_PROXY must be 0–10').max(10, 'TRUST_PROXY must be 0–10').default(0),
     /** Analysis worker threads (default: one per core, at most 4), jobs allowed to wait, and a job's time limit. */
     ANALYSIS_WORKERS: z.coerce.number('ANALYSIS_WORKERS must be a number').int('ANALYSIS_WORKERS must be a whole number').min(1, 'ANALYSIS_WORKERS must be 1–16').max(16, 'ANALYSIS_WORKERS must be 1–16').optional(),
     ANALYSIS_QUEUE: z.coerce.number('ANALYSIS_QUEUE must be a number').int('ANALYSIS_QUEUE must be a whole number').min(0, 'ANALYSIS_QUEUE must be 0–10000').max(10_000, 'ANALYSIS_QUEUE must be 0–10000').default(100),
@@ -64,6 +66,8 @@ const envSchema = z
     appOrigin: new URL(e.APP_ORIGIN ?? `http://localhost:${e.PORT}`).origin,
     demo: e.DEMO !== '0',
     demoPassword: e.DEMO_PASSWORD,
+    /** Express's `trust proxy` hop count (server/app.ts); 0 = off. */
+    trustProxy: e.TRUST_PROXY,
     uploadMaxBytes: Math.round(e.UPLOAD_MAX_MB * 1024 * 1024),
     /** Where uploaded files go: DATA_DIR/uploads, or an S3-compatible bucket when S3_BUCKET is set. */
     storage: e.S3_BUCKET

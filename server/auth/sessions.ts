@@ -6,17 +6,21 @@
  * - Absolute expiry: ABSOLUTE_DAYS after the session was created, however active it is.
  * - A new session on every sign-in; sign-out deletes the row, so a copied cookie stops working too.
  * - Sessions are listed to their user under a public id (a hash of the session id), never the id itself.
- * - A validated session is remembered for SESSION_CACHE_MS, so a burst of requests costs one database
- *   lookup, not one each. Everything that ends a session or changes its user goes through this module
- *   and forgets the entries at once; only a change made by another server process on a shared
- *   PostgreSQL (or by hand in the database) waits out the SESSION_CACHE_MS (docs/decisions/009).
+ * - On embedded PGlite (one process owns the data) a validated session is remembered for
+ *   SESSION_CACHE_MS, so a burst of requests costs one database lookup, not one each. Everything that
+ *   ends a session or changes its user goes through this module and forgets the entries at once
+ *   (docs/decisions/009).
+ * - On a PostgreSQL server (DATABASE_URL) other app servers may end a session this process has seen,
+ *   so nothing is cached: every request validates against the database, and a sign-out on one server
+ *   ends the session on all of them at once (docs/decisions/013, with the measured cost).
  */
 import { DrizzlePostgreSQLAdapter } from '@lucia-auth/adapter-drizzle';
-import { Lucia, TimeSpan, type Session } from 'lucia';
+import { Lucia, TimeSpan, generateIdFromEntropySize, type Session } from 'lucia';
 import { and, eq, ne } from 'drizzle-orm';
 import type { Db } from '../db/client';
 import { sessions, users } from '../db/schema';
 import { sha256Hex } from '../ids';
+import { isSharedDatabase } from './shared-store';
 
 export const SESSION_COOKIE = 'bw_session';
 export const IDLE_DAYS = 7;
@@ -90,7 +94,7 @@ declare module 'lucia' {
 
 export function createSessions(db: Db, options: { cacheMs?: number } = {}) {
   const lucia = makeLucia(db);
-  const cacheMs = options.cacheMs ?? SESSION_CACHE_MS;
+  const cacheMs = options.cacheMs ?? (isSharedDatabase(db) ? 0 : SESSION_CACHE_MS);
   const cache = new Map<string, { at: number; value: { session: ActiveSession; user: SessionUser } }>();
   const forgetUser = (userId: string) => {
     for (const [id, e] of cache) if (e.value.user.id === userId) cache.delete(id);
@@ -192,6 +196,18 @@ export function createSessions(db: Db, options: { cacheMs?: number } = {}) {
         name: SESSION_COOKIE,
         value: session.id,
         options: { httpOnly: true, sameSite: 'lax', secure, path: '/', expires: session.expiresAt },
+      };
+    },
+
+    /**
+     * A cookie shaped like a new session's (same name, length, alphabet and expiry) that matches no
+     * session: what a sign-up with an address that already has an account answers with (ASVS 5.0 6.3.8).
+     */
+    decoyCookie(secure: boolean): CookieSpec {
+      return {
+        name: SESSION_COOKIE,
+        value: generateIdFromEntropySize(25),
+        options: { httpOnly: true, sameSite: 'lax', secure, path: '/', expires: new Date(Date.now() + IDLE_DAYS * DAY_MS) },
       };
     },
 

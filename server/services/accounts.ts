@@ -5,6 +5,8 @@ import { newId } from '../ids';
 import { hashPassword, verifyDummyPassword, verifyPassword } from '../auth/passwords';
 import type { SignInLimiter } from '../auth/rate-limit';
 import { ApiError, conflict } from '../http/errors';
+import type { Mailer } from '../mail/mailer';
+import { signUpAttemptMail, welcomeMail } from '../mail/account-mail';
 import type { SessionUser } from '../auth/sessions';
 import type { Role } from '../../shared/roles';
 
@@ -20,20 +22,52 @@ function isUniqueViolation(err: unknown): boolean {
   return e?.code === '23505' || e?.cause?.code === '23505';
 }
 
-export async function signUp(db: Db, input: { email: string; password: string; name: string }): Promise<SessionUser> {
+/**
+ * Sign-up. The answer is the same for a new and a known e-mail (OWASP ASVS 5.0 6.3.8): both hash the
+ * password, send one message (a welcome, or "someone tried to sign up with this address" to the owner of
+ * the known address) and return a user of the same shape; for a known address that user is a decoy
+ * (a fresh id that belongs to no account) and nothing is stored but the message. `created` tells the
+ * route whether to start a real session.
+ */
+export async function signUp(
+  db: Db,
+  mailer: Mailer,
+  appOrigin: string,
+  input: { email: string; password: string; name: string },
+): Promise<{ user: SessionUser; created: boolean }> {
   const [existing] = await db.select({ id: users.id }).from(users).where(eq(users.email, input.email));
-  if (existing) throw conflict('email_taken', 'An account with this e-mail already exists.', { fields: { email: ['An account with this e-mail already exists'] } });
   const passwordHash = await hashPassword(input.password);
-  try {
-    const [row] = await db
-      .insert(users)
-      .values({ id: newId(), email: input.email, name: input.name, passwordHash })
-      .returning({ id: users.id, email: users.email, name: users.name, createdAt: users.createdAt });
-    return row;
-  } catch (err) {
-    if (isUniqueViolation(err)) throw conflict('email_taken', 'An account with this e-mail already exists.', { fields: { email: ['An account with this e-mail already exists'] } });
-    throw err;
+  let row: SessionUser | undefined;
+  if (!existing) {
+    try {
+      [row] = await db
+        .insert(users)
+        .values({ id: newId(), email: input.email, name: input.name, passwordHash })
+        .returning({ id: users.id, email: users.email, name: users.name, createdAt: users.createdAt });
+    } catch (err) {
+      // Taken between the lookup and the insert: answered like any known address.
+      if (!isUniqueViolation(err)) throw err;
+    }
   }
+  const mail = row ? welcomeMail(input.email, input.name, appOrigin) : signUpAttemptMail(input.email, appOrigin);
+  try {
+    await mailer.sendMail(mail);
+  } catch (err) {
+    // The account stands either way; a lost message must not turn into a different answer.
+    console.error('[mail] sign-up message could not be sent:', (err as Error).message);
+  }
+  if (row) return { user: row, created: true };
+  return { user: { id: newId(), email: input.email, name: input.name, createdAt: new Date() }, created: false };
+}
+
+export function tooManySignUps(retryAfter: number): ApiError {
+  return new ApiError(
+    429,
+    'too_many_sign_ups',
+    `Too many sign-ups from this address. Try again in ${retryAfter} seconds.`,
+    { retryAfterSeconds: retryAfter },
+    { 'Retry-After': String(retryAfter) },
+  );
 }
 
 function tooManyAttempts(retryAfter: number): ApiError {
@@ -47,25 +81,31 @@ function tooManyAttempts(retryAfter: number): ApiError {
 }
 
 /**
- * Checks e-mail and password under the brute-force limiter. Unknown e-mail and wrong password give
- * the same 401 and take the same time (a dummy hash is verified for unknown e-mails).
+ * Checks e-mail and password under the sign-in limiter (server/auth/rate-limit.ts, OWASP ASVS 5.0 6.3.1).
+ * Unknown e-mail and wrong password give the same 401 and take the same time (a dummy hash is verified
+ * for unknown e-mails). `deviceCookie` is the browser's device cookie: when it was signed for this
+ * account, the attempt counts on that device and not on the address or the account, so a stranger's
+ * guesses do not lock the owner's browser out. Routes that re-check the password of a signed-in user
+ * pass none. `trusted` says which counters the attempt used.
  */
 export async function checkCredentials(
   db: Db,
   limiter: SignInLimiter,
   input: { email: string; password: string },
   ip: string,
-): Promise<SessionUser> {
-  const wait = limiter.retryAfterSeconds(input.email, ip);
-  if (wait > 0) throw tooManyAttempts(wait);
+  deviceCookie?: string,
+): Promise<SessionUser & { trusted: boolean }> {
   const [row] = await db.select().from(users).where(eq(users.email, input.email));
+  const deviceId = row && deviceCookie ? await limiter.verifyDevice(deviceCookie, row.id) : null;
+  const gate = await limiter.check({ email: input.email, ip, deviceId });
+  if (gate.retryAfterSeconds > 0) throw tooManyAttempts(gate.retryAfterSeconds);
   const ok = row ? await verifyPassword(row.passwordHash, input.password) : await verifyDummyPassword(input.password);
   if (!row || !ok) {
-    limiter.recordFailure(input.email, ip);
+    await gate.fail();
     throw new ApiError(401, 'invalid_credentials', INVALID_CREDENTIALS_MESSAGE);
   }
-  limiter.recordSuccess(input.email);
-  return { id: row.id, email: row.email, name: row.name, createdAt: row.createdAt };
+  await gate.succeed();
+  return { id: row.id, email: row.email, name: row.name, createdAt: row.createdAt, trusted: gate.trusted };
 }
 
 export async function updateName(db: Db, userId: string, name: string | undefined): Promise<SessionUser> {

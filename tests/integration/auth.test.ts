@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { count, eq } from 'drizzle-orm';
-import { sessions, users } from '../../server/db/schema';
+import { mailOutbox, sessions, users } from '../../server/db/schema';
 import { makeTestApp, DEMO_PASSWORD, TEST_ORIGIN, type TestApp } from '../helpers/app';
 
 let t: TestApp;
@@ -59,13 +59,52 @@ describe('sign-up', () => {
     expect(row.passwordHash).toMatch(/^\$argon2id\$v=19\$m=19456,t=2,p=1\$/);
   });
 
-  it('refuses a taken e-mail with 409 email_taken and stores nothing', async () => {
+  it('answers a known e-mail exactly as a new one (status, body shape, cookie), stores nothing and mails the owner', async () => {
     const [before] = await t.db.select({ n: count() }).from(users);
-    const res = await t.agent().post('/api/auth/sign-up').send({ email: 'owner@demo.test', password: 'another password', name: 'Impostor' });
-    expect(res.status).toBe(409);
-    expect(res.body.error.code).toBe('email_taken');
-    const [after] = await t.db.select({ n: count() }).from(users);
-    expect(after.n).toBe(before.n);
+    const known = await t.agent().post('/api/auth/sign-up').send({ email: ' Owner@Demo.test', password: 'another password', name: 'Impostor' });
+    const fresh = await t.agent().post('/api/auth/sign-up').send({ email: 'tevita.lolohea@example.test', password: 'another password', name: 'Impostor' });
+    expect(known.status).toBe(201);
+    expect(fresh.status).toBe(201);
+    const shape = (r: request.Response) => ({
+      keys: Object.keys(r.body.user).sort(),
+      id: typeof r.body.user.id === 'string' && r.body.user.id.length,
+      createdAt: typeof r.body.user.createdAt === 'string' && !Number.isNaN(Date.parse(r.body.user.createdAt)),
+      name: r.body.user.name,
+      cookie: sessionCookie(r)?.replace(/^bw_session=[a-z2-7]{40};/, 'bw_session=…;').replace(/Expires=[^;]+/, 'Expires=…'),
+      cookies: (r.headers['set-cookie'] as unknown as string[]).length,
+      type: r.headers['content-type'],
+    });
+    expect(shape(known)).toEqual(shape(fresh));
+    expect(known.body.user.email).toBe('owner@demo.test');
+    // One new account (the fresh address); the known one is untouched and still signs in with its own password.
+    expect((await t.db.select({ n: count() }).from(users))[0].n).toBe(before.n + 1);
+    expect((await t.agent().post('/api/auth/sign-in').send({ email: 'owner@demo.test', password: DEMO_PASSWORD })).status).toBe(200);
+    // The decoy cookie is no session.
+    const decoy = sessionIdOf(sessionCookie(known));
+    expect((await request(t.server).get('/api/auth/me').set('Cookie', `bw_session=${decoy}`)).status).toBe(401);
+    // Each address got one message: the owner of the known one is told someone tried.
+    const mail = await t.db.select().from(mailOutbox).where(eq(mailOutbox.to, 'owner@demo.test'));
+    expect(mail.map((m) => m.subject)).toEqual(['Someone tried to sign up with this address']);
+    expect(mail[0].text).toContain('http://bankwright.test/sign-in');
+    const welcome = await t.db.select().from(mailOutbox).where(eq(mailOutbox.to, 'tevita.lolohea@example.test'));
+    expect(welcome.map((m) => m.subject)).toEqual(['Your Bankwright account']);
+  });
+
+  it('limits sign-ups per client address, known and new e-mails alike, with 429 and Retry-After', async () => {
+    const s = await makeTestApp({ limiter: { signUpMax: 3 } });
+    try {
+      const emails = ['owner@demo.test', 'new.one@example.test', 'viewer@demo.test'];
+      for (const email of emails) expect((await s.agent().post('/api/auth/sign-up').send({ email, password: 'long enough pw', name: 'N' })).status).toBe(201);
+      const res = await s.agent().post('/api/auth/sign-up').send({ email: 'new.two@example.test', password: 'long enough pw', name: 'N' });
+      expect(res.status).toBe(429);
+      expect(res.body.error.code).toBe('too_many_sign_ups');
+      expect(Number(res.headers['retry-after'])).toBeGreaterThan(0);
+      expect((await s.db.select().from(users).where(eq(users.email, 'new.two@example.test'))).length).toBe(0);
+      // A request the schema refuses is not counted, and is still answered 400.
+      expect((await s.agent().post('/api/auth/sign-up').send({ email: 'x', password: 'short', name: '' })).status).toBe(400);
+    } finally {
+      await s.close();
+    }
   });
 
   it('reports every invalid field in details.fields', async () => {
@@ -130,7 +169,7 @@ describe('sign-in', () => {
 });
 
 describe('brute-force limit', () => {
-  it('answers 429 with Retry-After after 5 failures for one account, even for the right password', async () => {
+  it('answers 429 with Retry-After after 5 failures for one account from one address, even for the right password', async () => {
     const email = 'designer@demo.test';
     for (let i = 0; i < 5; i++) {
       const res = await t.agent().post('/api/auth/sign-in').send({ email, password: `guess number ${i}` });
@@ -142,7 +181,7 @@ describe('brute-force limit', () => {
     const retryAfter = Number(blocked.headers['retry-after']);
     expect(retryAfter).toBeGreaterThanOrEqual(1);
     expect(retryAfter).toBeLessThanOrEqual(30);
-    // Another account from the same IP is not locked by this account's failures.
+    // Another account from the same address is not locked by this account's failures.
     const other = await t.agent().post('/api/auth/sign-in').send({ email: 'owner@demo.test', password: DEMO_PASSWORD });
     expect(other.status).toBe(200);
   });
@@ -153,10 +192,10 @@ describe('brute-force limit', () => {
     expect(res.status).toBe(429);
   });
 
-  it('limits one IP across accounts after 20 failures', async () => {
-    const s = await makeTestApp();
+  it('limits one address across accounts at ipMaxFailures (the default is in tests/integration/auth-throttling.test.ts)', async () => {
+    const s = await makeTestApp({ limiter: { ipMaxFailures: 25 } });
     try {
-      for (let i = 0; i < 20; i++) {
+      for (let i = 0; i < 25; i++) {
         const res = await s.agent().post('/api/auth/sign-in').send({ email: `spray${i}@demo.test`, password: 'bankwright-demo' });
         expect(res.status).toBe(401);
       }
