@@ -13,7 +13,8 @@ import type { Mailer } from './mail/mailer';
 import { createSessions } from './auth/sessions';
 import { createSignInLimiter, type LimiterOptions } from './auth/rate-limit';
 import { apiNotFound, errorHandler } from './http/errors';
-import { noStore, originCheck, rejectNul, sessionLoader } from './http/middleware';
+import { inputRules, noStore, originCheck, sessionLoader } from './http/middleware';
+import { createLogger, requestLogging, type Logger } from './http/logger';
 import type { AppDeps } from './http/context';
 import { authRoutes } from './routes/auth';
 import { accountRoutes } from './routes/account';
@@ -55,6 +56,8 @@ export interface CreateAppOptions {
   storage?: UploadStorage;
   /** Worker threads for analyses; by default the process's pool, configured from `config.analysis`. */
   analysis?: AnalysisPool;
+  /** Structured log (server/http/logger.ts); by default one at `config.logLevel` on stdout. */
+  logger?: Logger;
 }
 
 function securityHeaders(config: Config, dev: boolean): RequestHandler {
@@ -94,6 +97,8 @@ export function createApp(options: CreateAppOptions): Express {
 
   const app = express();
   app.disable('x-powered-by');
+  // One log line per request with its id (X-Request-Id), route pattern, status and duration; no query, body or document.
+  app.use(requestLogging(options.logger ?? createLogger(config.logLevel)));
   // TRUST_PROXY = n: the client's address is the one n proxies back in X-Forwarded-For (0: the socket's).
   app.set('trust proxy', config.trustProxy > 0 ? config.trustProxy : false);
   app.use(securityHeaders(config, client?.mode === 'vite'));
@@ -102,7 +107,7 @@ export function createApp(options: CreateAppOptions): Express {
   api.use(noStore);
   api.use(originCheck(config, sessions));
   api.use(jsonBodies());
-  api.use(rejectNul);
+  api.use(inputRules);
   api.use(sessionLoader(config, sessions));
   api.get('/health', (_req, res) => {
     res.json({ ok: true });

@@ -26,6 +26,17 @@ const envSchema = z
       .min(0.001, 'UPLOAD_MAX_MB must be more than 0')
       .max(200, 'UPLOAD_MAX_MB must be at most 200')
       .default(20),
+    /** Storage quota per team for attached files (MB, default 2048 = 2 GB). */
+    UPLOAD_TEAM_QUOTA_MB: z.coerce
+      .number('UPLOAD_TEAM_QUOTA_MB must be a number of megabytes')
+      .min(1, 'UPLOAD_TEAM_QUOTA_MB must be 1–10000000')
+      .max(10_000_000, 'UPLOAD_TEAM_QUOTA_MB must be 1–10000000')
+      .default(2048),
+    /** Uploads one person may start per UPLOAD_RATE_MINUTES (default 30 per 10 minutes). */
+    UPLOAD_RATE_MAX: z.coerce.number('UPLOAD_RATE_MAX must be a number').int('UPLOAD_RATE_MAX must be a whole number').min(1, 'UPLOAD_RATE_MAX must be 1–100000').max(100_000, 'UPLOAD_RATE_MAX must be 1–100000').default(30),
+    UPLOAD_RATE_MINUTES: z.coerce.number('UPLOAD_RATE_MINUTES must be a number').int('UPLOAD_RATE_MINUTES must be a whole number').min(1, 'UPLOAD_RATE_MINUTES must be 1–1440').max(1440, 'UPLOAD_RATE_MINUTES must be 1–1440').default(10),
+    /** pino log level; tests default to silent. */
+    LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent'], { error: 'LOG_LEVEL must be one of fatal, error, warn, info, debug, trace, silent' }).optional(),
     S3_BUCKET: z.string().regex(/^[a-z0-9][a-z0-9.-]{1,61}[a-z0-9]$/, 'S3_BUCKET must be a bucket name (3–63 lower-case letters, digits, dots, hyphens)').optional(),
     S3_ENDPOINT: z.url('S3_ENDPOINT must be a URL such as https://s3.example.com').optional(),
     S3_REGION: z.string().min(1).default('us-east-1'),
@@ -69,6 +80,13 @@ const envSchema = z
     /** Express's `trust proxy` hop count (server/app.ts); 0 = off. */
     trustProxy: e.TRUST_PROXY,
     uploadMaxBytes: Math.round(e.UPLOAD_MAX_MB * 1024 * 1024),
+    /** Per-team storage quota and per-user upload rate (server/services/upload-limits.ts). */
+    uploadQuota: {
+      teamBytes: Math.round(e.UPLOAD_TEAM_QUOTA_MB * 1024 * 1024),
+      ratePerUser: e.UPLOAD_RATE_MAX,
+      rateWindowSeconds: e.UPLOAD_RATE_MINUTES * 60,
+    },
+    logLevel: e.LOG_LEVEL ?? (e.NODE_ENV === 'test' ? ('silent' as const) : ('info' as const)),
     /** Where uploaded files go: DATA_DIR/uploads, or an S3-compatible bucket when S3_BUCKET is set. */
     storage: e.S3_BUCKET
       ? {

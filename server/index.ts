@@ -17,6 +17,7 @@ import { createMailer } from './mail/mailer';
 import { createSessions } from './auth/sessions';
 import { analysisPool } from './services/analysis-pool';
 import { scheduleBackups, type RunningBackups } from './db/backups';
+import { createLogger, setProcessLogger } from './http/logger';
 
 export const ROOT_DIR = fileURLToPath(new URL('..', import.meta.url));
 export const CLIENT_DIST_DIR = path.join(ROOT_DIR, 'dist', 'client');
@@ -70,7 +71,10 @@ export async function runServer(options: RunOptions = {}) {
 
   const mailer = createMailer({ db, smtpUrl: config.smtpUrl });
   const client = await options.client?.(config);
-  const app = createApp({ db, mailer, config, client, analysis });
+  // Structured JSON logs on stdout at LOG_LEVEL (server/http/logger.ts); the lines above and below are the start-up banner.
+  const logger = createLogger(config.logLevel);
+  setProcessLogger(logger);
+  const app = createApp({ db, mailer, config, client, analysis, logger });
 
   const server = app.listen(config.port);
   await new Promise<void>((resolve) => {

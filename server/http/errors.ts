@@ -34,6 +34,7 @@ export function validationFailed(error: z.ZodError): ApiError {
   return new ApiError(400, 'validation_failed', 'Some fields need attention.', { fields: fieldErrors(error) });
 }
 
+/** The request's id travels in the X-Request-Id header (server/http/logger.ts); the body keeps its one shape. */
 function send(res: Parameters<RequestHandler>[1], status: number, body: ApiErrorBody) {
   res.status(status).json(body);
 }
@@ -43,13 +44,15 @@ export const apiNotFound: RequestHandler = (_req, res) => {
 };
 
 /** Last handler: maps everything thrown to the error shape. Never sends a stack trace. */
-export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
+export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
   if (res.headersSent) {
     res.end();
     return;
   }
   if (err instanceof ApiError) {
     if (err.headers) res.set(err.headers);
+    // A server-side failure (502, 503, 504 …) is logged with its summary by the request log line.
+    if (err.status >= 500) (res as { err?: unknown }).err = err;
     send(res, err.status, { error: { code: err.code, message: err.message, details: err.details } });
     return;
   }
@@ -70,6 +73,8 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
     send(res, status, { error: { code, message: status === 404 ? 'Not found.' : 'The request could not be read.' } });
     return;
   }
-  console.error(`[api] ${req.method} ${req.originalUrl} failed:`, err);
+  // Logged once, by the request's log line (server/http/logger.ts): the error's class, codes and code
+  // path with the request id, route pattern and ids — never its message, query parameters or the body.
+  (res as { err?: unknown }).err = err;
   send(res, 500, { error: { code: 'internal', message: 'Something went wrong on the server. Try again.' } });
 };

@@ -9,12 +9,13 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import http from 'node:http';
-import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { createApp } from '../../server/app';
 import { testConfig } from '../../server/config';
 import { createOutboxMailer } from '../../server/mail/mailer';
 import { seedDemo } from '../../server/db/demo-data';
+import { createLogger } from '../../server/http/logger';
 import { createTestDatabase, type TestDatabase } from '../helpers/db';
 import { makeTestApp, DEMO_PASSWORD, TEST_ORIGIN, type TestApp } from '../helpers/app';
 
@@ -116,10 +117,12 @@ describe('no leaks in error answers', () => {
     let database: TestDatabase;
     let server: http.Server;
     let cookie: string;
+    const logged: { level: number; reqId: string; err?: { type?: string; frames?: string[] } }[] = [];
     beforeAll(async () => {
       database = await createTestDatabase();
       await seedDemo(database.db, DEMO_PASSWORD);
-      const app = createApp({ db: database.db, mailer: createOutboxMailer(database.db), config: testConfig({ appOrigin: TEST_ORIGIN }) });
+      const logger = createLogger('error', { write: (line: string) => void logged.push(JSON.parse(line)) });
+      const app = createApp({ db: database.db, mailer: createOutboxMailer(database.db), config: testConfig({ appOrigin: TEST_ORIGIN }), logger });
       server = http.createServer(app);
       const signIn = await request(server).post('/api/auth/sign-in').set('Origin', TEST_ORIGIN).send({ email: 'owner@demo.test', password: DEMO_PASSWORD });
       cookie = (signIn.headers['set-cookie'] as unknown as string[])[0].split(';')[0];
@@ -130,17 +133,15 @@ describe('no leaks in error answers', () => {
     });
 
     it('answers 500 internal with a generic message, logs the cause on the server, and leaks nothing', async () => {
-      const logged = vi.spyOn(console, 'error').mockImplementation(() => {});
-      try {
-        for (const req of [request(server).get('/api/auth/me').set('Cookie', cookie), request(server).post('/api/auth/sign-in').set('Origin', TEST_ORIGIN).send({ email: 'owner@demo.test', password: DEMO_PASSWORD })]) {
-          const res = await req;
-          expect(res.status).toBe(500);
-          expect(res.body).toEqual({ error: { code: 'internal', message: 'Something went wrong on the server. Try again.' } });
-          expect(res.text).not.toMatch(LEAK);
-        }
-        expect(logged).toHaveBeenCalled();
-      } finally {
-        logged.mockRestore();
+      for (const req of [request(server).get('/api/auth/me').set('Cookie', cookie), request(server).post('/api/auth/sign-in').set('Origin', TEST_ORIGIN).send({ email: 'owner@demo.test', password: DEMO_PASSWORD })]) {
+        const res = await req;
+        expect(res.status).toBe(500);
+        expect(res.body).toEqual({ error: { code: 'internal', message: 'Something went wrong on the server. Try again.' } });
+        expect(res.text).not.toMatch(LEAK);
+        // The structured log has the fault under the request's id, with its code path (server/http/logger.ts).
+        const line = logged.find((l) => l.reqId === res.headers['x-request-id']);
+        expect(line?.level).toBe(50);
+        expect(line?.err?.frames?.length).toBeGreaterThan(0);
       }
     });
   });
