@@ -10,6 +10,8 @@ import { requireAuth, type AppDeps } from '../http/context';
 import { ApiError, notFound } from '../http/errors';
 import { requireProjectRole, requireUploadRole } from '../services/access';
 import { createUpload, deleteUpload, listUploads, UPLOAD_PERMISSION } from '../services/uploads';
+import { checkQuotaRoom, createUploadRateLimiter } from '../services/upload-limits';
+import { errorSummary, log } from '../http/logger';
 import { StorageNotFoundError } from '../storage';
 
 const mb = (bytes: number) => `${Math.round((bytes / (1024 * 1024)) * 10) / 10} MB`;
@@ -46,6 +48,7 @@ export function uploadRoutes(deps: AppDeps): Router {
   const { db, storage, config } = deps;
   const r = Router();
   const receive = singleFile(config.uploadMaxBytes);
+  const uploadRate = createUploadRateLimiter(db, config.uploadQuota);
 
   r.get('/projects/:id/uploads', async (req, res) => {
     const { user } = requireAuth(res);
@@ -55,10 +58,13 @@ export function uploadRoutes(deps: AppDeps): Router {
 
   r.post(
     '/projects/:id/uploads',
-    // Sign-in and role are checked before a single byte of the body is read.
+    // Sign-in, role, the person's upload rate and the team's room are checked before a single byte of the body is read.
     async (req, res, next) => {
       const { user } = requireAuth(res);
-      await requireProjectRole(db, user.id, String(req.params.id), UPLOAD_PERMISSION);
+      const { project } = await requireProjectRole(db, user.id, String(req.params.id), UPLOAD_PERMISSION);
+      await uploadRate.consume(user.id);
+      await checkQuotaRoom(db, config.uploadQuota, project.teamId);
+      res.locals.uploadTeamId = project.teamId;
       next();
     },
     receive,
@@ -67,7 +73,8 @@ export function uploadRoutes(deps: AppDeps): Router {
       const file = req.file;
       if (!file) throw new ApiError(400, 'validation_failed', 'Choose a file to attach.', { fields: { file: ['Choose a file to attach'] } });
       const bytes = new Uint8Array(file.buffer.buffer, file.buffer.byteOffset, file.buffer.byteLength);
-      res.status(201).json({ upload: await createUpload(db, storage, user.id, String(req.params.id), { originalName: file.originalname, bytes }) });
+      const quota = { teamId: String(res.locals.uploadTeamId), limits: config.uploadQuota };
+      res.status(201).json({ upload: await createUpload(db, storage, user.id, String(req.params.id), { originalName: file.originalname, bytes }, quota) });
     },
   );
 
@@ -96,7 +103,7 @@ export function uploadRoutes(deps: AppDeps): Router {
       'Cache-Control': 'private, no-store',
     });
     stream.on('error', (err) => {
-      console.error(`[uploads] reading ${upload.key} failed:`, err.message);
+      log().error({ uploadId: upload.id, key: upload.key, err: errorSummary(err) }, 'uploads: reading a stored file failed');
       res.destroy(err);
     });
     stream.pipe(res);

@@ -124,7 +124,8 @@ const WINDOWS_DEVICE = /^(con|prn|aux|nul|com[0-9]|lpt[0-9])$/i;
  * (so "report.pdf.exe" that is really a PDF becomes "report.pdf.exe.pdf"; "photo.jpeg" stays).
  */
 export function sanitizeFileName(raw: string, ext: string): string {
-  let name = raw.normalize('NFC').replace(CONTROL, '');
+  // A lone surrogate becomes U+FFFD first (the input rules of shared/schemas/text.ts): the name must be storable.
+  let name = (raw as string & { toWellFormed(): string }).toWellFormed().normalize('NFC').replace(CONTROL, '');
   name = name.split(/[/\\]/).pop() ?? '';
   name = name.replace(RESERVED, '_').replace(/\s+/g, ' ').trim();
   name = name.replace(/\.{2,}/g, '.').replace(/^[.\s_-]+/, '').replace(/[.\s]+$/, '');

@@ -17,6 +17,8 @@ import { newId } from '../ids';
 import { newStorageKey, type UploadStorage } from '../storage';
 import type { UploadRow } from './access';
 import { sanitizeFileName, sniffUpload } from './upload-checks';
+import { reserveQuota, type UploadQuotaConfig } from './upload-limits';
+import { errorSummary, log } from '../http/logger';
 
 /** The permission to upload (owners, designers, trainers). */
 export const UPLOAD_PERMISSION: Permission = 'diagram.annotate';
@@ -75,6 +77,8 @@ export async function createUpload(
   userId: string,
   projectId: string,
   file: { originalName: string; bytes: Uint8Array },
+  /** The project's team and its storage quota, checked with the team's row locked (server/services/upload-limits.ts). */
+  quota?: { teamId: string; limits: UploadQuotaConfig },
 ): Promise<UploadRecord> {
   const sniffed = await sniffUpload(file.bytes);
   const fileName = sanitizeFileName(file.originalName, sniffed.ext);
@@ -83,6 +87,7 @@ export async function createUpload(
   await storage.put(key, file.bytes, sniffed.contentType);
   try {
     await db.transaction(async (tx) => {
+      if (quota) await reserveQuota(tx, quota.limits, quota.teamId, file.bytes.byteLength);
       await tx.insert(uploads).values({
         id,
         projectId,
@@ -118,7 +123,7 @@ export async function removeStored(storage: UploadStorage, keys: readonly string
     try {
       await storage.delete(key);
     } catch (err) {
-      console.error(`[uploads] could not remove stored file ${key}:`, (err as Error).message);
+      log().error({ key, err: errorSummary(err) }, 'uploads: could not remove a stored file (left as an orphan)');
     }
   }
 }

@@ -353,3 +353,117 @@ describe('storage adapters', () => {
     expect(() => loadConfig({ NODE_ENV: 'test', S3_BUCKET: 'Not A Bucket' })).toThrow(/S3_BUCKET/);
   });
 });
+
+describe('team storage quota and per-user upload rate', () => {
+  /** A PDF of exactly `size` bytes. */
+  const pdfOf = (size: number) => {
+    const bytes = pdf('x'.repeat(size - pdf('').length));
+    expect(bytes.length).toBe(size);
+    return bytes;
+  };
+
+  describe('storage quota per team (1,000 bytes here)', () => {
+    let q: TestApp;
+    let qDir: string;
+    let ownTeamProject: string;
+    let otherTeamProject: string;
+    const files = () => (fs.existsSync(path.join(qDir, 'uploads')) ? (fs.readdirSync(path.join(qDir, 'uploads'), { recursive: true }) as string[]).filter((p) => fs.statSync(path.join(qDir, 'uploads', p)).isFile()).length : 0);
+
+    beforeAll(async () => {
+      qDir = fs.mkdtempSync(path.join(os.tmpdir(), 'bw-quota-'));
+      q = await makeTestApp({ config: { dataDir: qDir, uploadQuota: { teamBytes: 1000, ratePerUser: 1000, rateWindowSeconds: 600 } } });
+      const owner = await q.agentFor('owner');
+      const teamId = (await owner.get('/api/teams')).body.teams[0].id;
+      ownTeamProject = (await owner.post('/api/projects').send({ teamId, name: 'Quota project' })).body.project.id;
+      const otherTeam = (await owner.post('/api/teams').send({ name: 'Second quota team' })).body.team.id;
+      otherTeamProject = (await owner.post('/api/projects').send({ teamId: otherTeam, name: 'Other team project' })).body.project.id;
+    });
+    afterAll(async () => {
+      await q?.close();
+      fs.rmSync(qDir, { recursive: true, force: true });
+    });
+
+    it('refuses a file that would take the team over its quota with 413 quota_exceeded, naming the limit and what to do; stores nothing', async () => {
+      const owner = await q.agentFor('owner');
+      expect((await send(owner, 'first.pdf', pdfOf(600), 'application/pdf', ownTeamProject)).status).toBe(201);
+      const rowsBefore = (await q.db.select({ id: uploads.id }).from(uploads)).length;
+      const filesBefore = files();
+      const res = await send(owner, 'second.pdf', pdfOf(600), 'application/pdf', ownTeamProject);
+      expect(res.status).toBe(413);
+      expect(res.body.error.code).toBe('quota_exceeded');
+      expect(res.body.error.message).toBe(
+        "This 600 bytes file does not fit in your team's 1000 bytes storage quota (600 bytes already used). Delete files the team no longer needs, or ask the server's administrator to raise UPLOAD_TEAM_QUOTA_MB.",
+      );
+      expect(res.body.error.details).toEqual({ quotaBytes: 1000, usedBytes: 600, fileBytes: 600 });
+      expect((await q.db.select({ id: uploads.id }).from(uploads)).length).toBe(rowsBefore);
+      expect(files()).toBe(filesBefore);
+      // The quota is the team's: another team of the same person has its own.
+      expect((await send(owner, 'elsewhere.pdf', pdfOf(600), 'application/pdf', otherTeamProject)).status).toBe(201);
+    });
+
+    it('fills up to the quota exactly, then refuses before reading the body; deleting a file makes room again', async () => {
+      const owner = await q.agentFor('owner');
+      const fits = await send(owner, 'exact.pdf', pdfOf(400), 'application/pdf', ownTeamProject);
+      expect(fits.status).toBe(201);
+      const full = await send(owner, 'small.pdf', pdfOf(pdf('').length), 'application/pdf', ownTeamProject);
+      expect(full.status).toBe(413);
+      expect(full.body.error.code).toBe('quota_exceeded');
+      expect(full.body.error.message).toContain('use 1000 bytes of its 1000 bytes storage quota');
+      expect(full.body.error.details).toEqual({ quotaBytes: 1000, usedBytes: 1000 });
+      expect((await owner.delete(`/api/uploads/${fits.body.upload.id}`)).status).toBe(204);
+      expect((await send(owner, 'again.pdf', pdfOf(400), 'application/pdf', ownTeamProject)).status).toBe(201);
+    });
+
+    it('two uploads at the same moment cannot both squeeze under the quota', async () => {
+      const owner = await q.agentFor('owner');
+      const teamId = (await owner.post('/api/teams').send({ name: 'Race quota team' })).body.team.id;
+      const project = (await owner.post('/api/projects').send({ teamId, name: 'Race project' })).body.project.id;
+      const results = await Promise.all([send(owner, 'a.pdf', pdfOf(600), 'application/pdf', project), send(owner, 'b.pdf', pdfOf(600), 'application/pdf', project)]);
+      expect(results.map((r) => r.status).sort()).toEqual([201, 413]);
+      expect((await owner.get(`/api/projects/${project}/uploads`)).body.uploads).toHaveLength(1);
+    });
+  });
+
+  describe('upload rate per person (3 per 10 minutes here)', () => {
+    let r: TestApp;
+    let rDir: string;
+    let project: string;
+    beforeAll(async () => {
+      rDir = fs.mkdtempSync(path.join(os.tmpdir(), 'bw-rate-'));
+      r = await makeTestApp({ config: { dataDir: rDir, uploadQuota: { teamBytes: 1024 ** 3, ratePerUser: 3, rateWindowSeconds: 600 } } });
+      const owner = await r.agentFor('owner');
+      const teamId = (await owner.get('/api/teams')).body.teams[0].id;
+      project = (await owner.get(`/api/projects?teamId=${teamId}`)).body.projects[0].id;
+    });
+    afterAll(async () => {
+      await r?.close();
+      fs.rmSync(rDir, { recursive: true, force: true });
+    });
+
+    it('answers 429 too_many_uploads with Retry-After after the limit, per person; refused uploads count too', async () => {
+      const designer = await r.agentFor('designer');
+      expect((await send(designer, 'one.pdf', pdf('one'), 'application/pdf', project)).status).toBe(201);
+      expect((await send(designer, 'page.html', html(), 'text/html', project)).status).toBe(415);
+      expect((await send(designer, 'three.pdf', pdf('three'), 'application/pdf', project)).status).toBe(201);
+      const rowsBefore = (await r.db.select({ id: uploads.id }).from(uploads)).length;
+      const res = await send(designer, 'four.pdf', pdf('four'), 'application/pdf', project);
+      expect(res.status).toBe(429);
+      expect(res.body.error.code).toBe('too_many_uploads');
+      expect(res.body.error.message).toBe('You have started 3 uploads in the last 10 minutes, the most allowed. Wait 10 minutes and try again; an administrator can raise UPLOAD_RATE_MAX.');
+      const retryAfter = Number(res.headers['retry-after']);
+      expect(retryAfter).toBeGreaterThan(590);
+      expect(retryAfter).toBeLessThanOrEqual(600);
+      expect(res.body.error.details).toEqual({ limit: 3, windowSeconds: 600, retryAfterSeconds: retryAfter });
+      expect((await r.db.select({ id: uploads.id }).from(uploads)).length).toBe(rowsBefore);
+      // Another person on the same team is not held back.
+      expect((await send(await r.agentFor('owner'), 'owners.pdf', pdf('owner'), 'application/pdf', project)).status).toBe(201);
+    });
+  });
+
+  it('configuration: UPLOAD_TEAM_QUOTA_MB, UPLOAD_RATE_MAX and UPLOAD_RATE_MINUTES, with defaults of 2 GB and 30 per 10 minutes', () => {
+    expect(loadConfig({ NODE_ENV: 'test' }).uploadQuota).toEqual({ teamBytes: 2 * 1024 ** 3, ratePerUser: 30, rateWindowSeconds: 600 });
+    expect(loadConfig({ NODE_ENV: 'test', UPLOAD_TEAM_QUOTA_MB: '500', UPLOAD_RATE_MAX: '5', UPLOAD_RATE_MINUTES: '60' }).uploadQuota).toEqual({ teamBytes: 500 * 1024 ** 2, ratePerUser: 5, rateWindowSeconds: 3600 });
+    expect(() => loadConfig({ NODE_ENV: 'test', UPLOAD_TEAM_QUOTA_MB: '0' })).toThrow(/UPLOAD_TEAM_QUOTA_MB/);
+    expect(() => loadConfig({ NODE_ENV: 'test', UPLOAD_RATE_MAX: 'many' })).toThrow(/UPLOAD_RATE_MAX/);
+  });
+});
