@@ -103,3 +103,57 @@ export function parseTemperature(input: string): ParseResult<number> {
   const value = (m[1] ? -1 : 1) * num(m[2]);
   return { ok: true, value: m[4] === 'f' ? fToC(value) : value };
 }
+
+/** SI prefixes a quantity may be typed with ("2 kW", "120 mΩ", "50 µΩ"). Case matters: m is milli, M is mega. */
+const SI_PREFIX: Record<string, number> = { G: 1e9, M: 1e6, k: 1e3, K: 1e3, c: 1e-2, m: 1e-3, µ: 1e-6, μ: 1e-6, u: 1e-6 };
+/** Units that take an SI prefix, with the spellings people type for them. */
+const BASE_UNITS: Record<string, string[]> = {
+  Ω: ['Ω', 'Ω', 'ohm', 'ohms', 'Ohm', 'Ohms', 'R'],
+  V: ['V'],
+  A: ['A'],
+  W: ['W'],
+  s: ['s'],
+  m: ['m'],
+  Ah: ['Ah'],
+};
+
+function splitUnit(unit: string): { prefix: number; base: string } | null {
+  for (const base of Object.keys(BASE_UNITS)) {
+    if (unit === base) return { prefix: 1, base };
+    if (unit.endsWith(base) && unit.length === base.length + 1 && unit[0] in SI_PREFIX) return { prefix: SI_PREFIX[unit[0]], base };
+  }
+  return null;
+}
+
+/**
+ * Read a number typed for a field shown in `unit`: a bare number is in that unit; "120 mΩ", "0.12 Ω" and
+ * "0.12 ohm" all read as 120 in a mΩ field; "2 kW" as 2000 in a W field; a mm field also takes any
+ * length ("0.35 m", "1 in", "3 ft 6 in"). Answers the value in `unit`, or a message naming `label`.
+ */
+export function parseQuantity(input: string, unit: string | undefined, label: string): ParseResult<number> {
+  const s = input.trim().replace(/(\d),(\d)/, '$1.$2');
+  const numeric = /^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i;
+  if (numeric.test(s)) return { ok: true, value: Number(s) };
+  const bad = fail<number>('unreadable_number', `${label} must be a number${unit ? ` (${unit})` : ''}`);
+  if (!unit) return bad;
+  const m = /^([-+]?(?:\d+\.?\d*|\.\d+)(?:e[-+]?\d+)?)\s*(\S.*)$/i.exec(s);
+  if (!m) return bad;
+  const value = Number(m[1]);
+  const typed = m[2].trim();
+  if (typed === unit || typed.toLowerCase() === unit.toLowerCase()) return { ok: true, value };
+  const field = splitUnit(unit);
+  if (!field) return fail('wrong_unit', `${label} is in ${unit}; "${typed}" is not`);
+  if (field.base === 'm') {
+    const len = parseLength(s);
+    if (len.ok) return { ok: true, value: Number((len.value / field.prefix).toPrecision(12)) };
+  }
+  for (const spelling of BASE_UNITS[field.base]) {
+    if (!typed.endsWith(spelling)) continue;
+    const p = typed.slice(0, -spelling.length).trim();
+    if (p !== '' && !(p in SI_PREFIX)) continue;
+    const factor = p === '' ? 1 : SI_PREFIX[p];
+    // Rounded to 12 significant digits: "1.1 kW" is 1100 W, not 1100.0000000000002.
+    return { ok: true, value: Number(((value * factor) / field.prefix).toPrecision(12)) };
+  }
+  return fail('wrong_unit', `${label} is in ${unit}; write e.g. "${value} ${unit}"`);
+}

@@ -8,6 +8,7 @@ import { SignedInMeContext, useMe, useSignOut, useSignedInMe } from '@/features/
 import { useCurrentTeam } from '@/features/teams/hooks';
 import { TeamSwitcher } from '@/features/teams/TeamSwitcher';
 import { CreateTeamForm } from '@/features/teams/CreateTeamForm';
+import { NotificationsMenu } from '@/features/home/NotificationsMenu';
 import { NotFoundPage } from './NotFound';
 
 function LibraryIcon() {
@@ -117,7 +118,9 @@ export function AppShell() {
   const me = useSignedInMe();
   const { team } = useCurrentTeam();
   const { pathname } = useLocation();
-  const showOutbox = !!team && me.mailMode === 'outbox' && can(team.role, 'outbox.read');
+  // Without a mail server every member reads their own captured mail; owners also the team's whole outbox.
+  const showOutbox = !!team && me.mailMode === 'outbox';
+  const teamOutbox = !!team && can(team.role, 'outbox.read');
   return (
     <div className="flex min-h-screen flex-col">
       <a href="#main" className="sr-only focus:not-sr-only focus:fixed focus:top-2 focus:left-2 focus:z-50 focus:rounded focus:bg-white focus:px-3 focus:py-2">
@@ -147,7 +150,7 @@ export function AppShell() {
               </NavLink>
               {showOutbox ? (
                 <NavLink to={`/teams/${team.id}/outbox`} className={navClass}>
-                  <InboxIcon size={14} /> Outbox
+                  <InboxIcon size={14} /> {teamOutbox ? 'Outbox' : 'Your mail'}
                 </NavLink>
               ) : null}
             </nav>
@@ -158,6 +161,7 @@ export function AppShell() {
                 Demo data
               </span>
             ) : null}
+            <NotificationsMenu />
             <AccountMenu />
           </div>
         </div>
@@ -174,7 +178,7 @@ export function AppShell() {
   );
 }
 
-/** `/`: the current team's projects, or the first-team screen. */
+/** `/`: the current team's projects (with the work waiting for the user on top), or the first-team screen. */
 export function HomeRedirect() {
   const { team } = useCurrentTeam();
   if (team) return <Navigate to={`/teams/${team.id}/projects`} replace />;

@@ -2,7 +2,7 @@ import { useState, type FormEvent } from 'react';
 import { changeEmailSchema, changePasswordSchema, updateAccountSchema } from '@shared/schemas/auth';
 import type { FieldErrors } from '@shared/schemas/errors';
 import { Button } from '@/components/Button';
-import { CheckboxField, TextField } from '@/components/Field';
+import { CheckboxField, SelectField, TextField } from '@/components/Field';
 import { KeyIcon, MailIcon, MonitorIcon, UserIcon } from '@/components/icons';
 import { Notice } from '@/components/Notice';
 import { PageHeader } from '@/components/PageHeader';
@@ -11,7 +11,8 @@ import { errorMessage, isApiError } from '@/lib/api';
 import { formatDate, formatDateTime } from '@/lib/format';
 import { parseForm, serverFormErrors } from '@/lib/forms';
 import { useSignedInMe } from '../auth/hooks';
-import { useChangeEmail, useChangePassword, useRevokeSession, useSessions, useUpdateAccount } from './hooks';
+import { useChangeEmail, useChangePassword, useRevokeSession, useSessions, useUpdateAccount, useUpdatePreferences } from './hooks';
+import { UNIT_SYSTEM_LABELS } from './units';
 
 export function AccountPage() {
   const me = useSignedInMe();
@@ -27,6 +28,9 @@ export function AccountPage() {
         </Card>
         <Card icon={<KeyIcon size={16} />} title="Change password">
           <PasswordForm />
+        </Card>
+        <Card icon={<RulerIcon />} title="Units">
+          <UnitsForm />
         </Card>
         <Card icon={<MonitorIcon size={16} />} title="Sessions">
           <SessionList />
@@ -246,5 +250,53 @@ function SessionList() {
         ))}
       </ul>
     </>
+  );
+}
+
+function RulerIcon() {
+  return (
+    <svg width={16} height={16} viewBox="0 0 16 16" fill="none" stroke="currentColor" strokeWidth={1.5} strokeLinecap="round" aria-hidden="true" focusable="false">
+      <path d="m2 11 9-9 3 3-9 9z" />
+      <path d="m5 8 1.5 1.5M7 6l1 1M9 4l1.5 1.5" />
+    </svg>
+  );
+}
+
+/** The user's own unit system for their screens, or follow each team's setting. */
+function UnitsForm() {
+  const me = useSignedInMe();
+  const update = useUpdatePreferences();
+  const saved = me.preferences?.unitSystem ?? null;
+  const [choice, setChoice] = useState<'team' | 'metric' | 'us'>(saved ?? 'team');
+  const current = saved ?? 'team';
+  return (
+    <form
+      className="max-w-md space-y-3"
+      onSubmit={(e: FormEvent) => {
+        e.preventDefault();
+        update.mutate({ unitSystem: choice === 'team' ? null : choice });
+      }}
+    >
+      <SelectField
+        label="Units on your screens"
+        name="unitSystem"
+        value={choice}
+        onChange={(e) => setChoice(e.target.value as 'team' | 'metric' | 'us')}
+        hint="Canvas labels, properties, findings, bills of materials and exports. Only your own screens change; the team's setting stays."
+      >
+        <option value="team">Follow each team’s setting</option>
+        <option value="metric">{UNIT_SYSTEM_LABELS.metric}</option>
+        <option value="us">{UNIT_SYSTEM_LABELS.us}</option>
+      </SelectField>
+      {update.isError ? <Notice signal="error">{errorMessage(update.error)}</Notice> : null}
+      {update.isSuccess && choice === current ? (
+        <p role="status" className="text-xs text-graphite-600">
+          Saved.
+        </p>
+      ) : null}
+      <Button type="submit" size="sm" pending={update.isPending} disabled={choice === current}>
+        Save units
+      </Button>
+    </form>
   );
 }

@@ -18,3 +18,9 @@ export const changePassword = (body: { currentPassword: string; newPassword: str
 export const fetchSessions = (signal?: AbortSignal) =>
   api<{ sessions: SessionInfo[] }>('/api/account/sessions', { signal }).then((r) => r.sessions);
 export const revokeSession = (id: string) => api<void>(`/api/account/sessions/${encodeURIComponent(id)}`, { method: 'DELETE' });
+
+export interface Preferences {
+  unitSystem: 'metric' | 'us' | null;
+}
+export const updatePreferences = (body: Preferences) =>
+  api<{ preferences: Preferences }>('/api/account/preferences', { method: 'PATCH', body }).then((r) => r.preferences);

@@ -1,7 +1,7 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { Me } from '../auth/api';
 import { authKeys } from '../auth/hooks';
-import { changeEmail, changePassword, fetchSessions, revokeSession, updateAccount } from './api';
+import { changeEmail, changePassword, fetchSessions, revokeSession, updateAccount, updatePreferences } from './api';
 
 export const accountKeys = {
   sessions: ['account', 'sessions'] as const,
@@ -40,5 +40,14 @@ export function useRevokeSession() {
   return useMutation({
     mutationFn: revokeSession,
     onSuccess: () => queryClient.invalidateQueries({ queryKey: accountKeys.sessions }),
+  });
+}
+
+/** The user's own unit system (null: follow each team's); /me carries it, so the screens follow at once. */
+export function useUpdatePreferences() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: updatePreferences,
+    onSuccess: (preferences) => queryClient.setQueryData<Me | null>(authKeys.me, (me) => (me ? { ...me, preferences } : me)),
   });
 }

@@ -18,6 +18,8 @@ export interface MembershipSummary {
 
 export interface Me {
   user: User;
+  /** The user's own settings; unitSystem null follows each team's. */
+  preferences?: { unitSystem: UnitSystem | null };
   teams: MembershipSummary[];
   demo: boolean;
   mailMode: 'smtp' | 'outbox';

@@ -36,6 +36,7 @@ import { ResultsTable } from './ResultsTable';
 import { parseSide, sideLabel, sideParam, useSide, type SideData, type SideSpec } from './sides';
 import { asResultsSummary, summarizeDocument } from './summary';
 import { useSharedViewport, useViewOnlyEditorStore } from './viewport';
+import { effectiveUnitSystem } from '@/features/account/units';
 
 export default function ComparePage() {
   const { diagramId = '' } = useParams();
@@ -85,7 +86,7 @@ function Compare({ diagramId, a, b, revisions, role }: { diagramId: string; a: S
   const [, setParams] = useSearchParams();
   const info = useDiagramInfo(diagramId);
   const diagram = info.data!.diagram;
-  const unitSystem: UnitSystem = (me.teams.find((t) => t.id === diagram.teamId)?.unitSystem as UnitSystem | undefined) ?? 'metric';
+  const unitSystem: UnitSystem = effectiveUnitSystem(me, diagram.teamId);
   useViewOnlyEditorStore(unitSystem);
   const sideA = useSide(diagramId, a);
   const sideB = useSide(diagramId, b);

@@ -20,6 +20,7 @@ import { parseStoredDiagram } from './loadDocument';
 import { useEditorStore } from './store';
 import { localCopyToRestore, useSaveState, useWorkingCopySync } from './workingCopy';
 import { EditorLayout } from './EditorLayout';
+import { effectiveUnitSystem } from '@/features/account/units';
 
 interface Opened {
   id: string;
@@ -45,7 +46,7 @@ export default function EditorRoute() {
     const data: DiagramResponse | undefined = query.data;
     if (!data || opened?.id === diagramId) return;
     const { diagram, role } = data;
-    const unitSystem: UnitSystem = (me.teams.find((t) => t.id === diagram.teamId)?.unitSystem as UnitSystem | undefined) ?? 'metric';
+    const unitSystem: UnitSystem = effectiveUnitSystem(me, diagram.teamId);
     const readOnly = !can(role as Role, 'diagram.edit');
     const local = readOnly ? null : localCopyToRestore(diagramId, diagram.updatedAt, diagram.content);
     const parsed = parseStoredDiagram(local ? local.doc : diagram.content);
@@ -65,6 +66,12 @@ export default function EditorRoute() {
     });
     setOpened({ id: diagramId, restoredFrom: local ? local.savedAt : null, filledDefaults: parsed.filledDefaults });
   }, [query.data, diagramId, opened?.id, me.teams]);
+
+  // The unit system follows a change made while the diagram is open (the user's preference or the team's).
+  const liveUnits = query.data ? effectiveUnitSystem(me, query.data.diagram.teamId) : null;
+  useEffect(() => {
+    if (liveUnits && opened?.id === diagramId) useEditorStore.getState().setUnitSystem(liveUnits);
+  }, [liveUnits, opened?.id, diagramId]);
 
   const ready = opened?.id === diagramId && !!query.data;
   const readOnly = useEditorStore((s) => s.readOnly);

@@ -32,6 +32,7 @@ import { captureDiagram, nextPaint, type DiagramImage } from './capture';
 import { sheetSize } from './layout';
 import { useSheetMeta } from './meta';
 import { analysisLabel, annotationKindsIn, partTypesIn, stepsOf, unitLabel } from './sheetProps';
+import { effectiveUnitSystem } from '@/features/account/units';
 
 /** Printable width of an A4 / Letter landscape page at 96 px per inch, less 10 mm margins (about 1040 px). */
 const PRINT_WIDTH_PX = 1040;
@@ -157,7 +158,7 @@ export default function PrintRoute() {
       setParseErrors(parsed.errors.map((e) => `${e.path}: ${e.message}`));
       return;
     }
-    const unitSystem = (me.teams.find((t) => t.id === data.diagram.teamId)?.unitSystem as UnitSystem | undefined) ?? 'metric';
+    const unitSystem = effectiveUnitSystem(me, data.diagram.teamId);
     useEditorStore.getState().load(parsed.doc, { diagramId, readOnly: true, unitSystem });
     setLoaded(diagramId);
   }, [query.data, diagramId, loaded, me.teams]);

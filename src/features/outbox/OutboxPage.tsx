@@ -11,14 +11,20 @@ import { useSignedInMe } from '../auth/hooks';
 import { useCurrentTeam } from '../teams/hooks';
 import type { OutboxMessage } from './api';
 import { useOutbox } from './hooks';
+import { useOwnOutbox } from '../home/hooks';
 
 /** Mail this server would have sent, captured locally because no SMTP server is configured. */
 export function OutboxPage() {
   const me = useSignedInMe();
   const { team } = useCurrentTeam();
   const current = team!;
-  const allowed = me.mailMode === 'outbox' && can(current.role, 'outbox.read');
-  const outbox = useOutbox(current.id, allowed);
+  const allowed = me.mailMode === 'outbox';
+  // Every user reads the mail captured for them; owners may also read the team's whole outbox.
+  const teamScope = allowed && can(current.role, 'outbox.read');
+  const [view, setView] = useState<'mine' | 'team'>('mine');
+  const teamOutbox = useOutbox(current.id, teamScope && view === 'team');
+  const ownOutbox = useOwnOutbox(allowed && view === 'mine');
+  const outbox = view === 'team' ? teamOutbox : ownOutbox;
   const [openId, setOpenId] = useState<string | null>(null);
 
   if (!allowed) return <NotFoundPage />;
@@ -30,16 +36,36 @@ export function OutboxPage() {
     <>
       <PageHeader
         eyebrow={current.name}
-        title="Outbox"
+        title={teamScope ? 'Outbox' : 'Your mail'}
         actions={
+          <>
+            {teamScope ? (
+              <div role="group" aria-label="Whose mail" className="inline-flex overflow-hidden rounded-md border border-graphite-300">
+                {(['mine', 'team'] as const).map((v) => (
+                  <button
+                    key={v}
+                    type="button"
+                    aria-pressed={view === v}
+                    onClick={() => {
+                      setView(v);
+                      setOpenId(null);
+                    }}
+                    className={`h-9 px-3 text-sm font-medium ${view === v ? 'bg-graphite-900 text-white' : 'bg-white text-graphite-800 hover:bg-graphite-50'}`}
+                  >
+                    {v === 'mine' ? 'Your mail' : 'All team mail'}
+                  </button>
+                ))}
+              </div>
+            ) : null}
           <Button onClick={() => outbox.refetch()} pending={outbox.isFetching && !outbox.isPending}>
             {outbox.isFetching && !outbox.isPending ? null : <RefreshIcon size={14} />} Refresh
           </Button>
+          </>
         }
       />
       <Notice signal="note" className="mb-4">
-        This server has no mail server configured, so e-mails (invites and notices) are kept here instead of being sent. Copy an
-        invite link from a message to hand it over.
+        This server has no mail server configured, so e-mails (invites and review notices) are kept here instead of being sent.
+        {view === 'mine' ? ' These are the messages addressed to you.' : ' Copy an invite link from a message to hand it over.'}
       </Notice>
       {outbox.isPending ? (
         <LoadingRegion label="Loading messages">
@@ -53,7 +79,7 @@ export function OutboxPage() {
         <ErrorState title="Could not load the outbox" error={outbox.error} onRetry={() => outbox.refetch()} retrying={outbox.isFetching} />
       ) : messages.length === 0 ? (
         <EmptyState icon={<InboxIcon size={32} />} title="No messages">
-          Invites you send to this team appear here.
+          {view === 'mine' ? 'Review requests, comments and decisions addressed to you appear here.' : 'Invites you send to this team appear here.'}
         </EmptyState>
       ) : (
         <div className="grid items-start gap-4 lg:grid-cols-[22rem_1fr]">

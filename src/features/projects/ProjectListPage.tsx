@@ -4,6 +4,7 @@ import { can } from '@shared/roles';
 import { Button } from '@/components/Button';
 import { ChevronRightIcon, DiagramIcon, FolderIcon, PlusIcon } from '@/components/icons';
 import { PageHeader } from '@/components/PageHeader';
+import { WorkPanel } from '@/features/home/WorkPanel';
 import { EmptyState, ErrorState, LoadingRegion, Skeleton } from '@/components/States';
 import { formatDate, plural } from '@/lib/format';
 import { useCurrentTeam } from '../teams/hooks';
@@ -28,6 +29,7 @@ export function ProjectListPage() {
   return (
     <>
       <PageHeader eyebrow={current.name} title="Projects" actions={newButton} />
+      <WorkPanel />
       {projects.isPending ? (
         <LoadingRegion label="Loading projects">
           <ul className="divide-y divide-graphite-100 overflow-hidden rounded-lg border border-graphite-200 bg-white">

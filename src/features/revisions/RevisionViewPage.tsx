@@ -24,6 +24,7 @@ import { ReviewPanel } from '@/features/review/ReviewPanel';
 import type { Revision } from './api';
 import { useComments, useDiagramInfo, useRevision, useRevisions } from './hooks';
 import { RevisionStateBadge } from './RevisionStateBadge';
+import { effectiveUnitSystem } from '@/features/account/units';
 
 export default function RevisionViewPage() {
   const { diagramId = '', n: raw = '' } = useParams();
@@ -45,7 +46,7 @@ function RevisionView({ diagramId, revision }: { diagramId: string; revision: Re
   const info = useDiagramInfo(diagramId);
   const revisions = useRevisions(diagramId);
   const { diagram, role } = info.data!;
-  const unitSystem: UnitSystem = (me.teams.find((t) => t.id === diagram.teamId)?.unitSystem as UnitSystem | undefined) ?? 'metric';
+  const unitSystem: UnitSystem = effectiveUnitSystem(me, diagram.teamId);
   useViewOnlyEditorStore(unitSystem);
   const doc = revision.content;
   const bounds = useMemo(() => partsBounds(doc), [doc]);

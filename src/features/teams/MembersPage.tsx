@@ -14,6 +14,7 @@ import { useSignedInMe } from '../auth/hooks';
 import type { Invite, Member } from './api';
 import { useChangeRole, useCurrentTeam, useMembers, useRemoveMember, useRevokeInvite } from './hooks';
 import { InviteForm } from './InviteForm';
+import { TeamSettings } from './TeamSettings';
 
 export function MembersPage() {
   const { team } = useCurrentTeam();
@@ -53,14 +54,27 @@ export function MembersPage() {
           )}
         </div>
         {manage ? (
-          <aside className="rounded-lg border border-graphite-200 bg-white p-4 shadow-xs">
-            <h2 className="mb-3 flex items-center gap-2 text-sm font-semibold">
-              <MailIcon size={16} className="text-copper-600" /> Invite by e-mail
-            </h2>
-            <InviteForm teamId={current.id} />
-          </aside>
+          <div className="space-y-6">
+            <aside aria-labelledby="invite-heading" className="rounded-lg border border-graphite-200 bg-white p-4 shadow-xs">
+              <h2 id="invite-heading" className="mb-3 flex items-center gap-2 text-sm font-semibold">
+                <MailIcon size={16} className="text-copper-600" /> Invite by e-mail
+              </h2>
+              <InviteForm teamId={current.id} />
+            </aside>
+            <section aria-labelledby="team-settings-heading" className="rounded-lg border border-graphite-200 bg-white p-4 shadow-xs">
+              <h2 id="team-settings-heading" className="mb-3 text-sm font-semibold">
+                Team settings
+              </h2>
+              <TeamSettings key={current.id} team={current} manage />
+            </section>
+          </div>
         ) : null}
       </div>
+      {!manage ? (
+        <section aria-label="Team settings" className="mt-6">
+          <TeamSettings team={current} manage={false} />
+        </section>
+      ) : null}
       {!manage ? <RoleLegend /> : null}
     </>
   );

@@ -55,3 +55,6 @@ export const fetchInvite = (token: string, signal?: AbortSignal) =>
   api<{ invite: InvitePreview }>(`/api/invites/${encodeURIComponent(token)}`, { signal }).then((r) => r.invite);
 export const acceptInvite = (token: string) =>
   api<{ team: Team }>('/api/invites/accept', { method: 'POST', body: { token } }).then((r) => r.team);
+
+export const updateTeam = (teamId: string, body: { name?: string; unitSystem?: UnitSystem }) =>
+  api<{ team: Team }>(t(teamId), { method: 'PATCH', body }).then((r) => r.team);

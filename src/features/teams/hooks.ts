@@ -15,7 +15,9 @@ import {
   removeMember,
   revokeInvite,
   sendInvite,
+  updateTeam,
 } from './api';
+import type { UnitSystem } from '@shared/schemas/auth';
 
 export const teamKeys = {
   all: ['teams'] as const,
@@ -89,6 +91,18 @@ export function useAcceptInvite() {
     onSuccess: async (team) => {
       rememberTeam(team.id);
       await queryClient.invalidateQueries({ queryKey: authKeys.me });
+    },
+  });
+}
+
+/** Owners: the team's settings (its unit system). Every member's screens follow it unless they set their own. */
+export function useUpdateTeam(teamId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (body: { unitSystem: UnitSystem }) => updateTeam(teamId, body),
+    onSuccess: async () => {
+      await queryClient.invalidateQueries({ queryKey: authKeys.me });
+      await queryClient.invalidateQueries({ queryKey: teamKeys.all });
     },
   });
 }

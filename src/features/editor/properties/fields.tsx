@@ -5,7 +5,7 @@
  */
 import { useEffect, useId, useRef, useState, type ReactNode } from 'react';
 import type { z } from 'zod';
-import { formatConductor, formatLength, formatTemperature, parseTemperature, sizeLabel, type ConductorSize, type UnitSystem } from '@shared/units';
+import { formatConductor, formatLength, formatTemperature, parseQuantity, parseTemperature, sizeLabel, type ConductorSize, type UnitSystem } from '@shared/units';
 import { ErrorIcon } from '@/components/icons';
 import { parseConductorInput, parseLengthInput } from '../units';
 
@@ -143,28 +143,12 @@ export function DraftField<T>({ label, value, format, parse, onCommit, disabled,
   );
 }
 
-/** SI prefixes a value may be typed with before its unit ("2 kW", "500 ms", "1.2 kA"). */
-const SI_PREFIXES: Record<string, number> = { k: 1e3, M: 1e6, m: 1e-3, µ: 1e-6, u: 1e-6 };
-/** Units whose fields take an SI prefix (units such as mΩ or Ah already carry one, or take none). */
-const PREFIXED_UNITS = new Set(['A', 'V', 'W', 's']);
-
-/** Read a number typed with or without its unit ("100", "100 Ah", "3,5"), or with a prefixed unit ("2 kW"). */
+/** Read a number typed with or without its unit ("100", "100 Ah", "3,5"), or with a prefixed unit ("2 kW", "0.12 Ω" in a mΩ field). */
 export function parseNumber(text: string, label: string, unit?: string, integer?: boolean): Parsed<number> {
-  let s = text.trim().replace(',', '.');
-  let factor = 1;
-  if (unit && s.toLowerCase().endsWith(unit.toLowerCase())) {
-    s = s.slice(0, -unit.length).trim();
-    const prefix = s.slice(-1);
-    if (PREFIXED_UNITS.has(unit) && prefix in SI_PREFIXES && /[\d.]$/.test(s.slice(0, -1).trim())) {
-      factor = SI_PREFIXES[prefix];
-      s = s.slice(0, -1).trim();
-    }
-  }
-  if (!/^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i.test(s)) return { ok: false, message: `${label} must be a number${unit ? ` (${unit})` : ''}` };
-  // Rounded to 12 significant digits: "1.1 kW" is 1100 W, not 1100.0000000000002.
-  const n = factor === 1 ? Number(s) : Number((Number(s) * factor).toPrecision(12));
-  if (integer && !Number.isInteger(n)) return { ok: false, message: `${label} must be a whole number` };
-  return { ok: true, value: n };
+  const p = parseQuantity(text, unit, label);
+  if (!p.ok) return { ok: false, message: p.error.message };
+  if (integer && !Number.isInteger(p.value)) return { ok: false, message: `${label} must be a whole number` };
+  return { ok: true, value: p.value };
 }
 
 export interface SpecFormProps<V> {
