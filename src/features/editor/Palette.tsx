@@ -8,11 +8,11 @@ import { memo, useCallback, useContext, useEffect, useState, type DragEvent } fr
 import { useParams } from 'react-router';
 import { QueryClientContext, useQuery } from '@tanstack/react-query';
 import { useReactFlow } from '@xyflow/react';
-import { PART_TYPES, type PartType } from '@shared/electrical/parts';
+import { defaultPartProps, PART_TYPES, type PartType } from '@shared/electrical/parts';
 import type { DiagramPart } from '@shared/diagram/schema';
 import type { LibraryRecord } from '@shared/schemas/library';
 import { PaletteGlyph } from './canvas/symbols';
-import { PART_DRAG_MIME, placePart } from './canvas/Canvas';
+import { PART_DRAG_MIME } from './canvas/Canvas';
 import { GRID, partBox } from './canvas/geometry';
 import { diagramKeys, fetchDiagram } from './api';
 import { useEditorStore } from './store';
@@ -118,7 +118,28 @@ const PaletteItem = memo(function PaletteItem({ type, hint, onPlace }: { type: P
 
 const snap = (v: number) => Math.round(v / GRID) * GRID;
 
-/** Place a library preset (battery, fuse, busbar) at the centre of the view, as placePart does, with the preset's props. */
+/**
+ * The top-left corner for a part of size `box` centred on `centre` (snapped to the grid), stepped down
+ * and right by CASCADE_STEP until it overlaps no part already drawn (with a grid step of clearance);
+ * after 100 steps, the first spot.
+ */
+export function freeSpot(box: { w: number; h: number }, centre: { x: number; y: number }, parts: readonly DiagramPart[]): { x: number; y: number } {
+  const first = { x: snap(centre.x - box.w / 2), y: snap(centre.y - box.h / 2) };
+  const boxes = parts.map((p) => ({ ...p.position, ...partBox(p) }));
+  const overlaps = (at: { x: number; y: number }) =>
+    boxes.some((b) => at.x < b.x + b.w + GRID && b.x < at.x + box.w + GRID && at.y < b.y + b.h + GRID && b.y < at.y + box.h + GRID);
+  for (let i = 0, at = first; i < 100; i++, at = { x: at.x + CASCADE_STEP, y: at.y + CASCADE_STEP }) if (!overlaps(at)) return at;
+  return first;
+}
+
+/** Place a part of the palette centred on `centre`, clear of the parts already drawn (see freeSpot). */
+export function placePalettePart(type: PartType, centre: { x: number; y: number }): string | null {
+  const store = useEditorStore.getState();
+  const props = defaultPartProps(type);
+  return store.addPart(type, freeSpot(partBox({ type, rotation: 0, props } as DiagramPart), centre, store.doc.parts), { props });
+}
+
+/** Place a library preset (battery, fuse, busbar) at the centre of the view, as a palette part, with the preset's props. */
 export function placePreset(item: LibraryRecord, centre: { x: number; y: number }): string | null {
   if (item.kind === 'cable') return null;
   const store = useEditorStore.getState();
@@ -126,10 +147,7 @@ export function placePreset(item: LibraryRecord, centre: { x: number; y: number 
   // A battery's make and model go to the bill of materials.
   if (item.kind === 'battery' && !props.model) props.model = [item.manufacturer, item.partNumber].filter(Boolean).join(' ') || item.name;
   const box = partBox({ type: item.kind, rotation: 0, props } as DiagramPart);
-  let at = { x: snap(centre.x - box.w / 2), y: snap(centre.y - box.h / 2) };
-  const taken = new Set(store.doc.parts.map((p) => `${p.position.x},${p.position.y}`));
-  for (let i = 0; i < 50 && taken.has(`${at.x},${at.y}`); i++) at = { x: at.x + GRID * 3, y: at.y + GRID * 3 };
-  return store.addPart(item.kind, at, { props });
+  return store.addPart(item.kind, freeSpot(box, centre, store.doc.parts), { props });
 }
 
 /** Apply a cable preset (conductor, material, stranding, insulation) to the selected cables, as one undo step. */
@@ -227,7 +245,7 @@ export function Palette() {
   // The library needs the server (a query client); a palette rendered on its own shows the parts only.
   const online = useContext(QueryClientContext) !== undefined;
   const onPlace = useCallback((type: PartType) => {
-    placePart(type, cascadedCentre(centre()));
+    placePalettePart(type, cascadedCentre(centre()));
   }, [centre]);
   if (readOnly) return null;
   return (

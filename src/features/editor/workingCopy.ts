@@ -3,12 +3,18 @@
  * localStorage whenever there are changes the server has not confirmed, a restore of that copy on
  * load when it is newer, a warning when another tab edits the same diagram, and a conflict state that
  * never drops the user's edits.
+ *
+ * Closing the tab a moment after an edit loses nothing: the local copy is written synchronously in the
+ * change itself (while that write stays cheap; a large diagram's is debounced and flushed when the page
+ * hides), and when the page is hidden or left (`visibilitychange` to hidden, `pagehide`) the unsaved
+ * copy is sent to the server at once with `fetch(…, { keepalive: true })`, which the browser finishes
+ * after the page is gone.
  */
 import { useEffect } from 'react';
 import { create } from 'zustand';
 import type { DiagramDocument } from '@shared/diagram';
-import { isApiError } from '@/lib/api';
-import { fetchDiagram, saveWorkingCopy, type ConflictDetails } from './api';
+import { ApiError, isApiError } from '@/lib/api';
+import { fetchDiagram, saveWorkingCopy, type ConflictDetails, type SavedWorkingCopy } from './api';
 import { parseStoredDiagram } from './loadDocument';
 import { useEditorStore } from './store';
 
@@ -32,6 +38,13 @@ export const useSaveState = create<SaveState>()((set) => ({
 /** Wait after the last change before saving to the server, ms. */
 export const SAVE_DEBOUNCE_MS = 1000;
 const LOCAL_DEBOUNCE_MS = 250;
+/** A local write that took longer than this (a large diagram) is debounced from then on, ms. */
+const SYNC_LOCAL_WRITE_BUDGET_MS = 4;
+/**
+ * Browsers cap the bodies of keepalive requests in flight at 64 KiB in all; a larger copy is left to
+ * the local copy and the next open (restored with a notice).
+ */
+export const KEEPALIVE_MAX_BYTES = 60_000;
 const RETRY_MS = 5000;
 /** Tell other tabs about edits at most this often, ms. */
 const EDITED_NOTICE_MS = 1000;
@@ -84,6 +97,33 @@ export function localCopyToRestore(diagramId: string, serverUpdatedAt: string, s
   return local;
 }
 
+/**
+ * Send the working copy with `keepalive`, so the request outlives the page. Resolves with the saved
+ * version, or rejects like the API client (ApiError for an error answer, status 0 when unreachable).
+ * Returns null without sending when the body is over KEEPALIVE_MAX_BYTES.
+ */
+export function sendWorkingCopyKeepalive(diagramId: string, content: DiagramDocument, baseVersion: number): Promise<SavedWorkingCopy> | null {
+  const body = JSON.stringify({ content, baseVersion });
+  if (body.length > KEEPALIVE_MAX_BYTES) return null;
+  return fetch(`/api/diagrams/${encodeURIComponent(diagramId)}/working-copy`, {
+    method: 'PUT',
+    headers: { Accept: 'application/json', 'Content-Type': 'application/json' },
+    body,
+    credentials: 'same-origin',
+    keepalive: true,
+  }).then(
+    async (res) => {
+      const data = (await res.json().catch(() => null)) as { error?: { code?: string; message?: string; details?: unknown } } | SavedWorkingCopy | null;
+      if (res.ok && data && 'workingCopyVersion' in data) return data;
+      const error = data && 'error' in data ? data.error : undefined;
+      throw new ApiError(res.status, error?.code ?? 'http_error', error?.message ?? `The server answered ${res.status}.`, error?.details);
+    },
+    () => {
+      throw new ApiError(0, 'network', 'The server could not be reached. Check the connection and try again.');
+    },
+  );
+}
+
 interface Controller {
   saveNow: () => void;
   keepMine: () => void;
@@ -109,7 +149,10 @@ export function useWorkingCopySync(diagramId: string, enabled: boolean, initialD
     let saveTimer: ReturnType<typeof setTimeout> | undefined;
     let localTimer: ReturnType<typeof setTimeout> | undefined;
     let inFlight = false;
+    /** The document the request in flight carries. */
+    let inFlightDoc: DiagramDocument | null = null;
     let dirty = initialDirty;
+    let lastLocalWriteMs = 0;
     let disposed = false;
     let loading = false;
     const tabId = Math.random().toString(36).slice(2);
@@ -118,19 +161,24 @@ export function useWorkingCopySync(diagramId: string, enabled: boolean, initialD
     const writeLocal = () => {
       clearTimeout(localTimer);
       if (!dirty) return;
+      const started = performance.now();
       writeLocalCopy(diagramId, { doc: useEditorStore.getState().doc, baseVersion: useSaveState.getState().baseVersion, savedAt: Date.now() });
+      lastLocalWriteMs = performance.now() - started;
     };
 
-    const save = async () => {
+    const save = async (opts: { keepalive?: boolean } = {}) => {
       clearTimeout(saveTimer);
       if (disposed || inFlight || !dirty) return;
       const st = useSaveState.getState();
       if (st.status === 'conflict') return;
-      inFlight = true;
       const doc = useEditorStore.getState().doc;
+      const request = opts.keepalive ? sendWorkingCopyKeepalive(diagramId, doc, st.baseVersion) : saveWorkingCopy(diagramId, doc, st.baseVersion);
+      if (!request) return; // too large for keepalive: the local copy holds it
+      inFlight = true;
+      inFlightDoc = doc;
       st.set({ status: 'saving' });
       try {
-        const res = await saveWorkingCopy(diagramId, doc, st.baseVersion);
+        const res = await request;
         if (disposed) return;
         const changedSince = useEditorStore.getState().doc !== doc;
         dirty = changedSince;
@@ -151,7 +199,24 @@ export function useWorkingCopySync(diagramId: string, enabled: boolean, initialD
         }
       } finally {
         inFlight = false;
+        inFlightDoc = null;
       }
+    };
+
+    /**
+     * The page is being hidden or left: write the local copy now and send unsaved changes to the server
+     * with keepalive. While a save is in flight, a newer copy is sent on the version that save will
+     * make (when it fails, this one is refused with 409 and stores nothing; the local copy still has it).
+     */
+    const flush = (leaving: boolean) => {
+      writeLocal();
+      if (!dirty || useSaveState.getState().status === 'conflict') return;
+      if (!inFlight) {
+        void save({ keepalive: true });
+        return;
+      }
+      const doc = useEditorStore.getState().doc;
+      if (leaving && doc !== inFlightDoc) void sendWorkingCopyKeepalive(diagramId, doc, useSaveState.getState().baseVersion + 1)?.catch(() => {});
     };
 
     const schedule = () => {
@@ -165,8 +230,13 @@ export function useWorkingCopySync(diagramId: string, enabled: boolean, initialD
       dirty = true;
       const st = useSaveState.getState();
       if (st.status !== 'conflict' && st.status !== 'offline' && st.status !== 'pending') st.set({ status: 'pending' });
-      clearTimeout(localTimer);
-      localTimer = setTimeout(writeLocal, LOCAL_DEBOUNCE_MS);
+      // Written in the change itself, so a tab closed a moment later keeps it; debounced only when a
+      // write has become slow (a large diagram), and then flushed when the page hides.
+      if (lastLocalWriteMs <= SYNC_LOCAL_WRITE_BUDGET_MS) writeLocal();
+      else {
+        clearTimeout(localTimer);
+        localTimer = setTimeout(writeLocal, LOCAL_DEBOUNCE_MS);
+      }
       const now = Date.now();
       if (now - lastEditedNotice >= EDITED_NOTICE_MS) {
         lastEditedNotice = now;
@@ -193,12 +263,16 @@ export function useWorkingCopySync(diagramId: string, enabled: boolean, initialD
       if (useSaveState.getState().status === 'offline') void save();
     };
     const onUnload = () => {
-      writeLocal();
+      flush(true);
       channel?.postMessage({ type: 'bye', tabId });
+    };
+    const onVisibility = () => {
+      if (document.visibilityState === 'hidden') flush(false);
     };
     window.addEventListener('online', onOnline);
     window.addEventListener('pagehide', onUnload);
     window.addEventListener('beforeunload', onUnload);
+    document.addEventListener('visibilitychange', onVisibility);
 
     controller = {
       saveNow: () => void save(),
@@ -243,6 +317,7 @@ export function useWorkingCopySync(diagramId: string, enabled: boolean, initialD
       window.removeEventListener('online', onOnline);
       window.removeEventListener('pagehide', onUnload);
       window.removeEventListener('beforeunload', onUnload);
+      document.removeEventListener('visibilitychange', onVisibility);
       channel?.postMessage({ type: 'bye', tabId });
       channel?.close();
       controller = null;

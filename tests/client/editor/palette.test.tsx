@@ -42,7 +42,7 @@ describe('parts palette', () => {
     expect(b.position).not.toEqual(a.position);
   });
 
-  it('places any part with a click, centred on the view, and cascades repeated clicks down and right', async () => {
+  it('places any part with a click at the centre of the view, each repeat cascading down and right, clear of the others', async () => {
     resetEditor();
     resetCascade();
     renderPalette();
@@ -50,18 +50,31 @@ describe('parts palette', () => {
     await user.click(screen.getByRole('button', { name: /^Inverter / }));
     await user.click(screen.getByRole('button', { name: /^DC load / }));
     await user.click(screen.getByRole('button', { name: /^Busbar / }));
+    await user.click(screen.getByRole('button', { name: /^Busbar / }));
     const parts = editor().doc.parts;
-    expect(parts.map((p) => p.type)).toEqual(['inverter', 'dc_load', 'busbar']);
-    // Centres (jsdom has no laid-out canvas, so the view centre is the origin): 0, then one step, then two.
-    const centre = (p: (typeof parts)[number]) => {
-      const box = partBox(p);
-      return { x: p.position.x + box.w / 2, y: p.position.y + box.h / 2 };
-    };
-    parts.forEach((p, i) => {
-      expect(Math.abs(centre(p).x - i * CASCADE_STEP)).toBeLessThanOrEqual(10); // snapped to the 10-unit grid
-      expect(Math.abs(centre(p).y - i * CASCADE_STEP)).toBeLessThanOrEqual(10);
-    });
-    expect(editor().selection).toEqual([parts[2].id]);
+    expect(parts.map((p) => p.type)).toEqual(['inverter', 'dc_load', 'busbar', 'busbar']);
+    const boxes = parts.map((p) => ({ ...p.position, ...partBox(p) }));
+    // The first is centred on the view (jsdom lays nothing out, so the view centre is the origin), within the 10-unit grid.
+    expect(Math.abs(boxes[0].x + boxes[0].w / 2)).toBeLessThanOrEqual(10);
+    expect(Math.abs(boxes[0].y + boxes[0].h / 2)).toBeLessThanOrEqual(10);
+    for (let i = 1; i < boxes.length; i++) {
+      expect(boxes[i].x).toBeGreaterThan(boxes[i - 1].x - boxes[i].w); // moved on, down and right
+      expect(boxes[i].y).toBeGreaterThan(boxes[i - 1].y);
+      expect((boxes[i].x - boxes[0].x) % CASCADE_STEP).toBe(0);
+    }
+    for (const a of boxes) for (const b of boxes) if (a !== b) expect(a.x < b.x + b.w && b.x < a.x + a.w && a.y < b.y + b.h && b.y < a.y + a.h).toBe(false);
+    expect(editor().selection).toEqual([parts[3].id]);
+  });
+
+  it('steps a clicked part off a part already at the centre of the view', async () => {
+    resetEditor();
+    resetCascade();
+    renderPalette();
+    const user = userEvent.setup();
+    editor().addPart('battery', { x: -60, y: -40 });
+    await user.click(screen.getByRole('button', { name: /^Fuse / }));
+    const [battery, fuse] = editor().doc.parts.map((p) => ({ ...p.position, ...partBox(p) }));
+    expect(fuse.x < battery.x + battery.w && battery.x < fuse.x + fuse.w && fuse.y < battery.y + battery.h && battery.y < fuse.y + fuse.h).toBe(false);
   });
 
   it('places with Space as well as Enter, one part per key press', async () => {

@@ -8,7 +8,7 @@ import { act, renderHook } from '@testing-library/react';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { postToPostTemplate, type DiagramDocument } from '@shared/diagram';
 import {
-  localCopyToRestore, localKey, readLocalCopy, SAVE_DEBOUNCE_MS, useSaveState, useWorkingCopySync, workingCopyActions, writeLocalCopy,
+  KEEPALIVE_MAX_BYTES, localCopyToRestore, localKey, readLocalCopy, SAVE_DEBOUNCE_MS, useSaveState, useWorkingCopySync, workingCopyActions, writeLocalCopy,
 } from '@/features/editor/workingCopy';
 import { editor, resetEditor } from './flow-mocks';
 
@@ -18,13 +18,14 @@ interface Call {
   method: string;
   url: string;
   body: { content: DiagramDocument; baseVersion: number } | null;
+  keepalive: boolean;
 }
 
 /** A fetch stub answering from a queue; every call is recorded. */
 function stubFetch(answer: (call: Call) => Response | Promise<Response>) {
   const calls: Call[] = [];
   const fn = vi.fn(async (url: string, init?: RequestInit) => {
-    const call: Call = { method: init?.method ?? 'GET', url, body: init?.body ? JSON.parse(String(init.body)) : null };
+    const call: Call = { method: init?.method ?? 'GET', url, body: init?.body ? JSON.parse(String(init.body)) : null, keepalive: init?.keepalive === true };
     calls.push(call);
     return answer(call);
   });
@@ -190,6 +191,68 @@ describe('working copy: offline', () => {
     expect(calls).toHaveLength(1);
     expect(calls[0].body).toMatchObject({ baseVersion: 6, content: { settings: { ambient_C: 48 } } });
     expect(useSaveState.getState().status).toBe('saved');
+    hook.unmount();
+  });
+});
+
+describe('working copy: closing the tab right after an edit', () => {
+  const hide = () => {
+    Object.defineProperty(document, 'visibilityState', { configurable: true, get: () => 'hidden' });
+    document.dispatchEvent(new Event('visibilitychange'));
+  };
+  afterEach(() => {
+    Object.defineProperty(document, 'visibilityState', { configurable: true, get: () => 'visible' });
+  });
+
+  it('writes the local copy in the edit itself, before any timer runs', () => {
+    stubFetch(() => saved(4));
+    window.localStorage.clear();
+    const hook = open(3);
+    ambientEdit(31);
+    // No time has passed: the copy on this device already holds the edit and its base version.
+    expect(readLocalCopy(ID)).toMatchObject({ baseVersion: 3, doc: { settings: { ambient_C: 31 } } });
+    hook.unmount();
+  });
+
+  it('sends unsaved changes at once with keepalive when the page is hidden, and takes the new version', async () => {
+    const calls = stubFetch(() => saved(4));
+    const hook = open(3);
+    ambientEdit(32);
+    hide();
+    expect(calls).toHaveLength(1);
+    expect(calls[0]).toMatchObject({ method: 'PUT', keepalive: true, body: { baseVersion: 3, content: { settings: { ambient_C: 32 } } } });
+    await act(() => vi.advanceTimersByTimeAsync(0));
+    expect(useSaveState.getState()).toMatchObject({ status: 'saved', baseVersion: 4 });
+    // The debounced save has nothing left to send.
+    await act(() => vi.advanceTimersByTimeAsync(SAVE_DEBOUNCE_MS + 10));
+    expect(calls).toHaveLength(1);
+    hook.unmount();
+  });
+
+  it('on pagehide with a save in flight, sends the newer copy on the version that save makes', async () => {
+    let answer: (r: Response) => void = () => {};
+    const calls = stubFetch((call) => (call.keepalive ? saved(6) : new Promise<Response>((resolve) => (answer = resolve))));
+    const hook = open(4);
+    ambientEdit(33);
+    await act(() => vi.advanceTimersByTimeAsync(SAVE_DEBOUNCE_MS + 10));
+    expect(calls).toHaveLength(1); // the autosave, not answered yet
+    ambientEdit(34);
+    window.dispatchEvent(new Event('pagehide'));
+    expect(calls).toHaveLength(2);
+    expect(calls[1]).toMatchObject({ keepalive: true, body: { baseVersion: 5, content: { settings: { ambient_C: 34 } } } });
+    expect(readLocalCopy(ID)?.doc.settings.ambient_C).toBe(34);
+    answer(saved(5));
+    hook.unmount();
+  });
+
+  it('leaves a copy too large for keepalive to the local copy (nothing sent on hide)', async () => {
+    const calls = stubFetch(() => saved(4));
+    const hook = open(3);
+    act(() => editor().updateSettings({ ambient_C: 35 }));
+    act(() => editor().edit('Long name', (d) => { d.name = 'x'.repeat(KEEPALIVE_MAX_BYTES); }));
+    hide();
+    expect(calls).toHaveLength(0);
+    expect(readLocalCopy(ID)?.doc.name).toHaveLength(KEEPALIVE_MAX_BYTES);
     hook.unmount();
   });
 });
