@@ -93,7 +93,8 @@ function PrintSheet({ diagram, withAnnotations }: { diagram: DiagramRecord; with
           Print…
         </Button>
       </div>
-      <div className="bw-print-capture" aria-hidden="true">
+      {/* Off-screen source of the printed image: hidden from assistive technology and out of the tab order. */}
+      <div className="bw-print-capture" aria-hidden="true" inert>
         <Canvas />
         <Capture withAnnotations={withAnnotations} onImage={setImage} onError={setError} />
       </div>

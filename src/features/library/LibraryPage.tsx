@@ -28,7 +28,7 @@ function KindTable({ kind, items, mayEdit, onEdit, onDelete }: { kind: LibraryKi
   return (
     <section aria-labelledby={headingId} className="mb-6">
       <h2 id={headingId} className="mb-2 text-[13px] font-semibold tracking-wide text-graphite-600 uppercase">
-        {KIND_PLURALS[kind]} <span className="font-normal text-graphite-400">({items.length})</span>
+        {KIND_PLURALS[kind]} <span className="font-normal text-graphite-600">({items.length})</span>
       </h2>
       <div className="overflow-x-auto rounded-lg border border-graphite-200 bg-white shadow-xs">
         <table className="w-full min-w-3xl table-fixed text-left text-[13px]" aria-labelledby={headingId}>

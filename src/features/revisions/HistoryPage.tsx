@@ -21,7 +21,7 @@ import { readUnsaved } from './stash';
 
 function ResultsCell({ r }: { r: RevisionMeta }) {
   const res = r.results;
-  if (!res) return <span className="text-graphite-400">—</span>;
+  if (!res) return <span className="text-graphite-600">—</span>;
   if (res.status !== 'solved') return <span className="font-semibold text-fault-700">✕ Not solved</span>;
   const c = res.findingCounts ?? {};
   const errors = c.error ?? 0;
@@ -141,9 +141,9 @@ export default function HistoryPage() {
                       {r.number === latest ? <span className="ml-1 font-sans text-[11px] font-normal text-graphite-500">latest</span> : null}
                     </td>
                     <td className="max-w-xs px-2 py-2">
-                      {r.message || <span className="text-graphite-400">No message</span>}
+                      {r.message || <span className="text-graphite-600">No message</span>}
                       {r.restoredFrom ? <span className="ml-1 text-[11px] text-graphite-500">(restored from r{r.restoredFrom})</span> : null}
-                      <div className="font-mono text-[11px] text-graphite-400" title={`Content hash ${r.contentHash}`}>{r.contentHash.slice(0, 12)}</div>
+                      <div className="font-mono text-[11px] text-graphite-600" title={`Content hash ${r.contentHash}`}>{r.contentHash.slice(0, 12)}</div>
                     </td>
                     <td className="px-2 py-2 whitespace-nowrap">
                       {r.author?.name ?? 'A former member'}

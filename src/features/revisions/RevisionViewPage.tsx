@@ -88,7 +88,7 @@ function RevisionView({ diagramId, revision }: { diagramId: string; revision: Re
       <p className="text-[13px] text-graphite-600">
         Saved by {revision.author?.name ?? 'a former member'} on {formatDateTime(revision.createdAt)}
         {revision.message ? <> — “{revision.message}”</> : null}
-        <span className="ml-2 font-mono text-[11px] text-graphite-400" title="Content hash (SHA-256)">{revision.contentHash.slice(0, 16)}</span>
+        <span className="ml-2 font-mono text-[11px] text-graphite-600" title="Content hash (SHA-256)">{revision.contentHash.slice(0, 16)}</span>
       </p>
 
       <div className="grid gap-4 lg:grid-cols-[minmax(0,1fr)_380px]">
