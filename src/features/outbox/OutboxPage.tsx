@@ -21,7 +21,7 @@ export function OutboxPage() {
   const allowed = me.mailMode === 'outbox';
   // Every user reads the mail captured for them; owners may also read the team's whole outbox.
   const teamScope = allowed && can(current.role, 'outbox.read');
-  const [view, setView] = useState<'mine' | 'team'>('mine');
+  const [view, setView] = useState<'mine' | 'team'>(teamScope ? 'team' : 'mine');
   const teamOutbox = useOutbox(current.id, teamScope && view === 'team');
   const ownOutbox = useOwnOutbox(allowed && view === 'mine');
   const outbox = view === 'team' ? teamOutbox : ownOutbox;
