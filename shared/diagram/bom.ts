@@ -18,7 +18,7 @@
  */
 import { CHEMISTRIES } from '../electrical/tables/batteries';
 import { FUSE_CLASSES, type FuseClassId } from '../electrical/tables/fuses';
-import { type BatteryProps, busbarArea_mm2, stringMembers } from '../electrical/parts';
+import { type BatteryProps, busbarArea_mm2, PART_TYPES, stringMembers } from '../electrical/parts';
 import type { ConductorSize } from '../units/conductor';
 import { type UnitSystem, formatConductor } from '../units/format';
 import { mToFt, mToIn } from '../units/length';
@@ -30,6 +30,26 @@ export const BOM_CATEGORIES = [
 export type BomCategory = (typeof BOM_CATEGORIES)[number];
 export type BomUnit = 'pcs' | 'm' | 'ft';
 
+/** The name of each category as the screen, the print view and the CSV show it. */
+export const BOM_CATEGORY_LABELS: Record<BomCategory, string> = {
+  batteries: 'Batteries',
+  cables: 'Cables',
+  lugs: 'Lugs',
+  fuses: 'Fuses',
+  fuse_holders: 'Fuse holders',
+  busbars: 'Busbars',
+  switches: 'Switches / disconnects',
+  shunts: 'Shunts',
+  chargers: 'Chargers',
+  inverters: 'Inverters',
+};
+
+/** A diagram part or cable a line counts: its id and the label a reader knows it by. */
+export interface BomPartRef {
+  id: string;
+  label: string;
+}
+
 /** Cut allowance added at each end of a cable by default, m (common practice: lug barrel plus trimming). */
 export const DEFAULT_CUT_ALLOWANCE_PER_END_M = 0.05;
 
@@ -40,6 +60,7 @@ export const BOM_CAUTION =
 export interface BomCut {
   /** Cable id (a series-string interconnect is "<string id>/j<n>"). */
   id: string;
+  /** The cable's label, or where it runs ("Battery 1 (+) to Main fuse (a)") when it has none. */
   label: string;
   /** Terminal-to-terminal length and the length to cut (with the end allowances), m. */
   length_m: number;
@@ -57,6 +78,8 @@ export interface BomLine {
   unit: BomUnit;
   /** Diagram ids (parts and cables) this line counts, in document order, each once. */
   partIds: string[];
+  /** The same parts and cables with their labels (partLabels), in the same order. */
+  parts: BomPartRef[];
   /** Cables only: one entry per cable, longest first. */
   cuts?: BomCut[];
 }
@@ -122,7 +145,7 @@ class Lines {
     if (!inCategory) this.byCategory.set(category, (inCategory = new Map()));
     let g = inCategory.get(key);
     if (!g) {
-      g = { category, description: describe(), quantity: 0, unit, partIds: [], ids: new Set() };
+      g = { category, description: describe(), quantity: 0, unit, partIds: [], parts: [], ids: new Set() };
       inCategory.set(key, g);
       this.groups.push(g);
     }
@@ -157,13 +180,14 @@ export function billOfMaterials(doc: DiagramDocument, opts: BomOptions): BillOfM
   const step = us === 'metric' ? 0.01 : 0.1;
   const lines = new Lines();
   const parts = new Map(doc.parts.map((p) => [p.id, p]));
+  const labelOf = partLabels(doc);
 
   // Cables and their lugs.
   const stock: CableStock[] = [];
   for (const c of doc.cables) {
     if (c.props.length_m <= 0) continue; // bolted joint: no conductor, no lugs
     stock.push({
-      id: c.id, label: c.label ?? '', conductor: c.props.conductor, material: c.props.material,
+      id: c.id, label: labelOf(c.id), conductor: c.props.conductor, material: c.props.material,
       insulation_C: c.props.insulation_C, length_m: c.props.length_m,
     });
   }
@@ -171,7 +195,7 @@ export function billOfMaterials(doc: DiagramDocument, opts: BomOptions): BillOfM
     if (p.type !== 'series_string' || !p.props.interconnect) continue;
     const ic = p.props.interconnect;
     for (let i = 1; i < p.props.count; i++) {
-      stock.push({ id: `${p.id}/j${i}`, label: `${p.label || p.id} jumper ${i}`, conductor: ic.conductor, material: ic.material, length_m: ic.length_m });
+      stock.push({ id: `${p.id}/j${i}`, label: `${labelOf(p.id)} jumper ${i}`, conductor: ic.conductor, material: ic.material, length_m: ic.length_m });
     }
   }
   const cutsByLine = new Map<BomLine, BomCut[]>();
@@ -279,7 +303,7 @@ export function billOfMaterials(doc: DiagramDocument, opts: BomOptions): BillOfM
     }
   }
 
-  const all = lines.all().map(({ ids: _ids, ...l }) => l);
+  const all = lines.all().map(({ ids: _ids, ...l }) => ({ ...l, parts: l.partIds.map((id) => ({ id, label: labelOf(id) })) }));
   const order = new Map(BOM_CATEGORIES.map((c, i) => [c, i]));
   all.sort((a, b) => order.get(a.category)! - order.get(b.category)!); // stable: document order within a category
   const totals: BomTotal[] = [];
@@ -295,4 +319,19 @@ export function billOfMaterials(doc: DiagramDocument, opts: BomOptions): BillOfM
 function partIdOf(cutId: string) {
   const slash = cutId.indexOf('/');
   return slash < 0 ? cutId : cutId.slice(0, slash);
+}
+
+const TERMINAL_TEXT: Record<string, string> = { pos: '+', neg: '−' };
+
+/**
+ * How the bill of materials names the diagram's parts and cables: a part by its label (its type's
+ * name when it has none); a cable by its label, or by where it runs, "Battery 1 (+) to Main fuse (a)".
+ * Unknown ids come back as they are.
+ */
+export function partLabels(doc: DiagramDocument): (id: string) => string {
+  const partNames = new Map(doc.parts.map((p) => [p.id, (p.label ?? '').trim() || PART_TYPES[p.type].name]));
+  const end = (e: { part: string; terminal: string }) => `${partNames.get(e.part) ?? e.part} (${TERMINAL_TEXT[e.terminal] ?? e.terminal})`;
+  const names = new Map<string, string>(partNames);
+  for (const c of doc.cables) names.set(c.id, c.label?.trim() || `${end(c.from)} to ${end(c.to)}`);
+  return (id) => names.get(id) ?? id;
 }

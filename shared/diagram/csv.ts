@@ -8,7 +8,7 @@
  * Reading: quoted fields with doubled quotes, CRLF, LF or lone CR line ends, an optional UTF-8 BOM at
  * the start, a final line end or none. Blank lines are skipped. Errors are data (`{ line, message }`).
  */
-import type { BillOfMaterials } from './bom';
+import { BOM_CATEGORY_LABELS, type BillOfMaterials } from './bom';
 
 // Writing -------------------------------------------------------------------------------------------
 
@@ -171,28 +171,28 @@ export function parseCsv(text: string): ParseCsvResult {
 
 // Bill of materials ---------------------------------------------------------------------------------
 
-export const BOM_CSV_HEADER = ['Category', 'Description', 'Quantity', 'Unit', 'Parts'] as const;
+export const BOM_CSV_HEADER = ['Category', 'Description', 'Quantity', 'Unit', 'Parts', 'Part ids'] as const;
 
 /**
- * The bill of materials as CSV: a header row, then one row per line (category, description,
- * quantity, unit, the diagram ids it counts separated by spaces), and a last `note` row with the
- * caution. Text cells are guarded against CSV
- * injection (OWASP). No byte-order mark.
+ * The bill of materials as CSV, matching the screen and the print view: a header row, then one row per
+ * line (the category's name, description, quantity, unit, the parts and cables it counts by label
+ * separated by "; ", and their diagram ids separated by spaces), and a last `Note` row with the
+ * caution. Text cells are guarded against CSV injection (OWASP). No byte-order mark.
  */
 export function bomToCsv(bom: BillOfMaterials): string {
   const rows: CsvValue[][] = [[...BOM_CSV_HEADER]];
-  for (const l of bom.lines) rows.push([l.category, l.description, l.quantity, l.unit, l.partIds.join(' ')]);
-  rows.push(['note', bom.caution, null, null, null]);
+  for (const l of bom.lines) rows.push([BOM_CATEGORY_LABELS[l.category], l.description, l.quantity, l.unit, l.parts.map((p) => p.label).join('; '), l.partIds.join(' ')]);
+  rows.push(['Note', bom.caution, null, null, null, null]);
   return formatCsv(rows);
 }
 
-export const CUT_LIST_CSV_HEADER = ['Conductor', 'Cable', 'Label', 'Length', 'Cut length', 'Unit'] as const;
+export const CUT_LIST_CSV_HEADER = ['Conductor', 'Cable', 'Length', 'Cut length', 'Unit', 'Cable id'] as const;
 
-/** The cut list of every cable line as CSV, longest first within each conductor. */
+/** The cut list of every cable line as CSV, longest first within each conductor: each cable by label, its id last. */
 export function cutListToCsv(bom: BillOfMaterials): string {
   const rows: CsvValue[][] = [[...CUT_LIST_CSV_HEADER]];
   for (const l of bom.lines) {
-    for (const c of l.cuts ?? []) rows.push([l.description, c.id, c.label, c.length, c.cutLength, l.unit]);
+    for (const c of l.cuts ?? []) rows.push([l.description, c.label, c.length, c.cutLength, l.unit, c.id]);
   }
   return formatCsv(rows);
 }

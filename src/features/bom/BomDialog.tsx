@@ -1,7 +1,6 @@
 /** The bill of materials of the diagram on screen, in a dialog. */
 import { useMemo } from 'react';
 import { billOfMaterials } from '@shared/diagram/bom';
-import { PART_TYPES } from '@shared/electrical/parts';
 import { Dialog } from '@/components/Dialog';
 import { useEditorStore } from '@/features/editor/store';
 import { BomCsvButtons, BomTable } from './BomTable';
@@ -12,17 +11,13 @@ export function BomDialog({ open, onClose, diagramName }: { open: boolean; onClo
   const doc = useEditorStore((s) => (open ? s.doc : null));
   const unitSystem = useEditorStore((s) => s.unitSystem);
   const bom = useMemo(() => (doc ? billOfMaterials(doc, { unitSystem }) : null), [doc, unitSystem]);
-  const labelOf = useMemo(() => {
-    const m = new Map<string, string>(doc ? [...doc.parts.map((p) => [p.id, p.label || PART_TYPES[p.type].name] as const), ...doc.cables.map((c) => [c.id, c.label || c.id] as const)] : []);
-    return (id: string) => m.get(id) ?? id;
-  }, [doc]);
   return (
     <Dialog open={open} onClose={onClose} title="Bill of materials" width="max-w-4xl">
       {bom ? (
         <div className="space-y-3">
           <BomCsvButtons bom={bom} baseName={slug(diagramName)} />
           <div className="max-h-[60vh] overflow-y-auto">
-            <BomTable bom={bom} labelOf={labelOf} />
+            <BomTable bom={bom} />
           </div>
         </div>
       ) : null}

@@ -3,22 +3,12 @@
  * to their cut list; per-category totals below; CSV download of the lines and of the cut list.
  */
 import { useMemo, useState } from 'react';
-import { BOM_CATEGORIES, type BillOfMaterials, type BomCategory, type BomLine } from '@shared/diagram/bom';
+import { BOM_CATEGORIES, BOM_CATEGORY_LABELS, type BillOfMaterials, type BomLine } from '@shared/diagram/bom';
 import { bomToCsv, cutListToCsv } from '@shared/diagram/csv';
 import { Button } from '@/components/Button';
 
-export const BOM_CATEGORY_NAMES: Record<BomCategory, string> = {
-  batteries: 'Batteries',
-  cables: 'Cables',
-  lugs: 'Lugs',
-  fuses: 'Fuses',
-  fuse_holders: 'Fuse holders',
-  busbars: 'Busbars',
-  switches: 'Switches',
-  shunts: 'Shunts',
-  chargers: 'Chargers',
-  inverters: 'Inverters',
-};
+/** The category names of the screen, the print view and the CSV (one list, shared/diagram/bom.ts). */
+export const BOM_CATEGORY_NAMES = BOM_CATEGORY_LABELS;
 
 type SortKey = 'category' | 'description' | 'quantity';
 type Sort = { key: SortKey; dir: 'asc' | 'desc' };
@@ -58,7 +48,8 @@ export function BomCsvButtons({ bom, baseName }: { bom: BillOfMaterials; baseNam
   );
 }
 
-export function BomTable({ bom, labelOf, sortable = true }: { bom: BillOfMaterials; labelOf?: (id: string) => string; sortable?: boolean }) {
+/** Parts and cables appear by the labels the bill of materials gives them (the same in the CSV); ids are in the CSV's own column. */
+export function BomTable({ bom, sortable = true }: { bom: BillOfMaterials; sortable?: boolean }) {
   const [sort, setSort] = useState<Sort>({ key: 'category', dir: 'asc' });
   const [open, setOpen] = useState<Set<string>>(new Set());
   const lines = useMemo(() => {
@@ -127,7 +118,7 @@ export function BomTable({ bom, labelOf, sortable = true }: { bom: BillOfMateria
                       <ul className={`mt-0.5 space-y-px font-mono text-[11px] text-graphite-600 ${expanded ? '' : 'hidden print:block'}`} aria-label={`Cut list: ${line.description}`}>
                         {line.cuts.map((c) => (
                           <li key={c.id}>
-                            {c.label || c.id}: {qty(c.length)} {line.unit} → cut {qty(c.cutLength)} {line.unit}
+                            {c.label}: {qty(c.length)} {line.unit} → cut {qty(c.cutLength)} {line.unit}
                           </li>
                         ))}
                       </ul>
@@ -136,7 +127,7 @@ export function BomTable({ bom, labelOf, sortable = true }: { bom: BillOfMateria
                 </td>
                 <td className="px-2 py-1 text-right font-mono tabular-nums">{qty(line.quantity)}</td>
                 <td className="px-2 py-1">{line.unit}</td>
-                <td className="px-2 py-1 text-[11px] text-graphite-600">{line.partIds.map((id) => labelOf?.(id) ?? id).join(', ')}</td>
+                <td className="px-2 py-1 text-[11px] text-graphite-600">{line.parts.map((p) => p.label).join('; ')}</td>
               </tr>
             );
           })}

@@ -11,6 +11,7 @@ import { Link, useParams, useSearchParams } from 'react-router';
 import { useQuery } from '@tanstack/react-query';
 import { ReactFlowProvider, useNodesInitialized, useReactFlow } from '@xyflow/react';
 import { billOfMaterials } from '@shared/diagram/bom';
+import { localizeUnitsInText } from '@shared/units';
 import { PART_TYPES } from '@shared/electrical/parts';
 import type { UnitSystem } from '@shared/units';
 import { Button } from '@/components/Button';
@@ -109,7 +110,7 @@ function PrintSheet({ diagram, withAnnotations }: { diagram: DiagramRecord; with
           </div>
           <section className="bw-print-page" aria-labelledby="print-bom">
             <h2 id="print-bom" className="bw-print-h2">Bill of materials — {diagram.name}</h2>
-            <BomTable bom={bom} labelOf={labelOf} sortable={false} />
+            <BomTable bom={bom} sortable={false} />
           </section>
           <section className="bw-print-section" aria-labelledby="print-findings">
             <h2 id="print-findings" className="bw-print-h2">Findings</h2>
@@ -121,7 +122,7 @@ function PrintSheet({ diagram, withAnnotations }: { diagram: DiagramRecord; with
               <ul className="bw-print-findings" aria-label="Findings">
                 {findings.map((f, i) => (
                   <li key={`${f.code}:${i}`} data-severity={f.severity}>
-                    <strong>{SEVERITY_WORD[f.severity]}:</strong> {f.message}
+                    <strong>{SEVERITY_WORD[f.severity]}:</strong> {localizeUnitsInText(f.message, unitSystem)}
                     {f.parts.length ? <span className="text-graphite-500"> ({f.parts.map(labelOf).join(', ')})</span> : null}
                   </li>
                 ))}

@@ -40,6 +40,19 @@ describe('BomTable', () => {
     expect(totalRow('Cables')[1]).toBe('m');
   });
 
+  it('shows each line\'s parts by label and category by name, as the CSV lists them', async () => {
+    render(<BomTable bom={bom} />);
+    const table = screen.getByRole('table', { name: 'Bill of materials' });
+    const rows = within(table).getAllByRole('row').slice(1).map((r) => within(r).getAllByRole('cell').map((c) => c.textContent));
+    const { bomToCsv, parseCsv } = await import('@shared/diagram/csv');
+    const parsed = parseCsv(bomToCsv(bom));
+    if (!parsed.ok) throw new Error(parsed.error.message);
+    const csv = parsed.records.slice(1, -1).map((r) => r.fields);
+    expect(rows.map((r) => [r[0], r[4]])).toEqual(csv.map((r) => [r[0], r[4]]));
+    expect(rows.map((r) => r[0])).toContain('Fuse holders');
+    expect(rows.find((r) => r[0] === 'Batteries')![4]).toBe('Battery 1; Battery 2; Battery 3');
+  });
+
   it('sorts by quantity and back', async () => {
     const user = userEvent.setup();
     render(<BomTable bom={bom} />);
@@ -73,8 +86,8 @@ describe('BomTable', () => {
     expect(clicks).toEqual(['bank-bill-of-materials.csv']);
     const text = await blobs[0].text();
     const lines = text.trim().split('\r\n');
-    expect(lines[0]).toBe('Category,Description,Quantity,Unit,Parts');
-    expect(lines.filter((l) => l.startsWith('batteries,'))).toHaveLength(1);
-    expect(lines.at(-1)).toMatch(/^note,/);
+    expect(lines[0]).toBe('Category,Description,Quantity,Unit,Parts,Part ids');
+    expect(lines.filter((l) => l.startsWith('Batteries,'))).toHaveLength(1);
+    expect(lines.at(-1)).toMatch(/^Note,/);
   });
 });

@@ -53,7 +53,10 @@ describe('billOfMaterials', () => {
       expect.objectContaining({ description: 'Crimp lug for 67.4 mm² (2/0 AWG) copper, stud size not set', quantity: 2 * CABLES, unit: 'pcs' }),
     ]);
     expect(byCategory(bom.lines, 'batteries')).toEqual([
-      { category: 'batteries', description: 'Lithium iron phosphate (LiFePO₄) battery, 12.8 V, 100 Ah', quantity: 4, unit: 'pcs', partIds: ['bat1', 'bat2', 'bat3', 'bat4'] },
+      {
+        category: 'batteries', description: 'Lithium iron phosphate (LiFePO₄) battery, 12.8 V, 100 Ah', quantity: 4, unit: 'pcs', partIds: ['bat1', 'bat2', 'bat3', 'bat4'],
+        parts: [1, 2, 3, 4].map((n) => ({ id: `bat${n}`, label: `Battery ${n}` })),
+      },
     ]);
     // 2000 W / (12.8 V × 0.9) = 173.6 A; × 1.25 = 217 A → 225 A, the next NEC 240.6(A) standard rating.
     expect(byCategory(bom.lines, 'fuses').map((l) => [l.description, l.quantity])).toEqual([['Class T, 225 A, 160 V DC, interrupting rating 20 kA', 1]]);
@@ -61,6 +64,21 @@ describe('billOfMaterials', () => {
     expect(byCategory(bom.lines, 'inverters').map((l) => [l.description, l.quantity])).toEqual([['Inverter, 2000 W continuous', 1]]);
     expect(bom.lines.map((l) => l.category)).toEqual(['batteries', 'cables', 'lugs', 'fuses', 'fuse_holders', 'inverters']);
     expect(bom.caution).toMatch(/not an approval to install/);
+  });
+
+  it('names parts by label (the type when unlabelled) and unlabelled cables by where they run', () => {
+    const d = doc();
+    const fuse = d.parts.find((p) => p.id === 'main-fuse')!;
+    fuse.label = '';
+    const jumper = d.cables.find((c) => c.id === 'j-pos-1')!;
+    delete jumper.label;
+    const bom = billOfMaterials(d, { unitSystem: 'metric' });
+    expect(byCategory(bom.lines, 'fuses')[0].parts).toEqual([{ id: 'main-fuse', label: 'Fuse' }]);
+    const cables = byCategory(bom.lines, 'cables')[0];
+    expect(cables.parts.find((p) => p.id === 'j-pos-1')?.label).toBe('Battery 1 (+) to Battery 2 (+)');
+    expect(cables.cuts!.find((c) => c.id === 'j-pos-1')?.label).toBe('Battery 1 (+) to Battery 2 (+)');
+    // Same order as the ids.
+    expect(cables.parts.map((p) => p.id)).toEqual(cables.partIds);
   });
 
   it('counts no conductor and no lugs for a zero-length (bolted) connection', () => {

@@ -75,11 +75,15 @@ describe('bomToCsv', () => {
     const csv = bomToCsv(bom);
     expect(csv.charCodeAt(0)).not.toBe(0xfeff);
     const rows = fields(csv);
-    expect(rows[0]).toEqual(['Category', 'Description', 'Quantity', 'Unit', 'Parts']);
+    expect(rows[0]).toEqual(['Category', 'Description', 'Quantity', 'Unit', 'Parts', 'Part ids']);
     expect(rows).toHaveLength(1 + bom.lines.length + 1);
-    expect(rows[1]).toEqual(['batteries', 'Lithium iron phosphate (LiFePO₄) battery, 12.8 V, 100 Ah', '2', 'pcs', 'bat1 bat2']);
-    expect(csv.split('\r\n')[1]).toBe('batteries,"Lithium iron phosphate (LiFePO₄) battery, 12.8 V, 100 Ah",2,pcs,bat1 bat2');
-    expect(rows.at(-1)![0]).toBe('note');
+    expect(rows[1]).toEqual(['Batteries', 'Lithium iron phosphate (LiFePO₄) battery, 12.8 V, 100 Ah', '2', 'pcs', 'Battery 1; Battery 2', 'bat1 bat2']);
+    expect(csv.split('\r\n')[1]).toBe('Batteries,"Lithium iron phosphate (LiFePO₄) battery, 12.8 V, 100 Ah",2,pcs,Battery 1; Battery 2,bat1 bat2');
+    // Readable category names, never the internal keys.
+    expect(rows.map((r) => r[0])).toEqual(['Category', 'Batteries', 'Cables', 'Lugs', 'Fuses', 'Fuse holders', 'Inverters', 'Note']);
+    expect(csv).not.toMatch(/fuse_holders/);
+    expect(rows.find((r) => r[0] === 'Fuse holders')!.slice(4)).toEqual(['Main fuse', 'main-fuse']);
+    expect(rows.at(-1)![0]).toBe('Note');
     expect(rows.at(-1)![1]).toMatch(/not an approval to install/);
   });
 
@@ -89,8 +93,11 @@ describe('bomToCsv', () => {
     const b1 = d.parts.find((p) => p.id === 'bat1')!;
     if (b1.type === 'battery') b1.props.model = 'Harbour "Deep" 100';
     const bom = billOfMaterials(d, { unitSystem: 'metric' });
-    const cut = fields(cutListToCsv(bom)).find((r) => r[1] === d.cables[0].id)!;
-    expect(cut[2]).toBe(`'=HYPERLINK("http://example.invalid","x")`);
+    const cuts = fields(cutListToCsv(bom));
+    expect(cuts[0]).toEqual(['Conductor', 'Cable', 'Length', 'Cut length', 'Unit', 'Cable id']);
+    const cut = cuts.find((r) => r[5] === d.cables[0].id)!;
+    expect(cut[1]).toBe(`'=HYPERLINK("http://example.invalid","x")`);
+    expect(bomToCsv(bom)).toContain(`'=HYPERLINK(""http://example.invalid"",""x"")`);
     expect(bomToCsv(bom)).toContain('"Lithium iron phosphate (LiFePO₄) battery, 12.8 V, 100 Ah, Harbour ""Deep"" 100"');
   });
 });
