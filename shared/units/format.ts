@@ -75,3 +75,21 @@ export function nearestMetricLabel(area_mm2: number): string {
 export function formatTemperature(c: number, system: UnitSystem, digits = 0): string {
   return system === 'metric' ? `${c.toFixed(digits)} °C` : `${cToF(c).toFixed(digits)} °F`;
 }
+
+const NUM_RE = String.raw`(-?\d+(?:\.\d+)?)`;
+/** A unit ends at a space, punctuation or the end (so "mΩ", "min" or "m/s" are never read as metres). */
+const UNIT_END = String.raw`(?=$|[\s,.;:)\]])`;
+
+/**
+ * A plain-language message written in metric (the core's findings and checks) shown in `system`: for US,
+ * lengths in m or mm become ft or in, areas in mm² the nearest AWG/kcmil (marked ≈, the metric size kept),
+ * °C becomes °F. Metric text is returned unchanged.
+ */
+export function localizeUnitsInText(text: string, system: UnitSystem): string {
+  if (system === 'metric') return text;
+  return text
+    .replace(new RegExp(String.raw`${NUM_RE}\s?mm²`, 'g'), (_, n: string) => formatConductor({ system: 'mm2', size: Number(n) }, 'us').text)
+    .replace(new RegExp(String.raw`${NUM_RE}\s?mm${UNIT_END}`, 'g'), (_, n: string) => formatLength(Number(n) / 1000, 'us'))
+    .replace(new RegExp(String.raw`${NUM_RE}\s?m${UNIT_END}`, 'g'), (_, n: string) => formatLength(Number(n), 'us'))
+    .replace(new RegExp(String.raw`${NUM_RE}\s?°C`, 'g'), (_, n: string) => formatTemperature(Number(n), 'us'));
+}

@@ -4,7 +4,7 @@
  * (k = 10³, m = 10⁻³, µ = 10⁻⁶) and the exact inch (25.4 mm) and foot (12 in).
  */
 import { describe, expect, it } from 'vitest';
-import { parseLength, parseQuantity } from '../../shared/units';
+import { localizeUnitsInText, parseLength, parseQuantity } from '../../shared/units';
 
 const value = (text: string, unit: string | undefined) => {
   const r = parseQuantity(text, unit, 'Field');
@@ -63,5 +63,25 @@ describe('parseLength with feet and inches', () => {
       const r = parseLength(t);
       expect(r.ok && Math.abs(r.value - 1.0668) < 1e-12, t).toBe(true);
     }
+  });
+});
+
+describe('localizeUnitsInText', () => {
+  it('leaves metric text as written', () => {
+    const t = 'Cable runs range from 1.20 m to 2.40 m; 35 mm² at 30 °C.';
+    expect(localizeUnitsInText(t, 'metric')).toBe(t);
+  });
+
+  it('shows lengths, areas and temperatures of a metric message in US units', () => {
+    // 1.20 m / 0.3048 = 3.94 ft; 2.40 m = 7.87 ft; 150 mm = 5.91 in; 30 °C = 86 °F.
+    expect(localizeUnitsInText('Cable runs range from 1.20 m (Battery 1) to 2.40 m, 40 % apart.', 'us')).toBe(
+      'Cable runs range from 3.9 ft (Battery 1) to 7.9 ft, 40 % apart.',
+    );
+    expect(localizeUnitsInText('It is 150 mm long with a 35 mm² conductor at 30 °C.', 'us')).toBe('It is 5.9 in long with a ≈ 2 AWG (35 mm²) conductor at 86 °F.');
+  });
+
+  it('never reads milliohms, minutes or a ratio as a length', () => {
+    const t = 'Internal resistance 12 mΩ, 5 min at 2 m/s.';
+    expect(localizeUnitsInText(t, 'us')).toBe(t);
   });
 });

@@ -6,6 +6,7 @@
  * and the canvas badges count per part. Each shows a plain-language title and names parts by label.
  */
 import { useMemo, useState } from 'react';
+import { localizeUnitsInText } from '@shared/units';
 import type { Severity } from '@shared/electrical';
 import { SafetyCaution } from '@/components/SafetyCaution';
 import { useEditorStore } from '../store';
@@ -34,6 +35,7 @@ export function FindingsPanel() {
   const { findings, updating, error } = useFindings();
   const labelOf = useLabels();
   const plain = usePlainText();
+  const unitSystem = useEditorStore((s) => s.unitSystem);
   const titles = useRuleTitles();
   const focusParts = useEditorStore((s) => s.focusParts);
   const mode = useEditorStore((s) => s.analysis.mode);
@@ -98,7 +100,7 @@ export function FindingsPanel() {
                       <span className="sr-only">{S.word}: </span>
                       <span className="min-w-0">{findingTitle(f.code, titles)}</span>
                     </span>
-                    <span className="mt-0.5 block text-graphite-900">{plain(f.message)}</span>
+                    <span className="mt-0.5 block text-graphite-900">{localizeUnitsInText(plain(f.message), unitSystem)}</span>
                     {f.suggestion ? <span className="mt-1 block text-graphite-700">→ {plain(f.suggestion)}</span> : null}
                     {f.basis ? <span className="mt-1 block text-[11px] text-graphite-500">Basis: {plain(f.basis)}</span> : null}
                     {f.parts.length ? (
