@@ -57,7 +57,8 @@ async function finish(summary: Record<string, unknown>, ok: boolean): Promise<ne
 // A first (it migrates and seeds the empty database), then B on the same database.
 for (const name of ['a', 'b']) {
   const port = await freePort();
-  servers.push(await startServer({ port, dataDir: path.join(work, name), databaseUrl: database.url, logFile: path.join(work, `${name}.log`) }));
+  // Both servers share this machine's cores in the check (in production each has its own): one analysis worker each.
+  servers.push(await startServer({ port, dataDir: path.join(work, name), databaseUrl: database.url, logFile: path.join(work, `${name}.log`), env: { ANALYSIS_WORKERS: process.env.ANALYSIS_WORKERS || '1' } }));
   log(`server ${name.toUpperCase()} pid ${servers.at(-1)!.pid} on ${servers.at(-1)!.base}`);
 }
 const [A, B] = servers;
