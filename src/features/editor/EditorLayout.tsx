@@ -5,7 +5,6 @@ import { useShallow } from 'zustand/react/shallow';
 import type { Role } from '@shared/roles';
 import { ROLE_LABELS } from '@shared/roles';
 import { Button } from '@/components/Button';
-import { Dialog } from '@/components/Dialog';
 import { ChevronRightIcon, CloseIcon, ErrorIcon, FaultIcon, NoteIcon, WarningIcon } from '@/components/icons';
 import { Menu, menuItemClass } from '@/components/Menu';
 import { Notice } from '@/components/Notice';
@@ -13,6 +12,7 @@ import { formatDateTime } from '@/lib/format';
 import { AnnotationsPanel } from '@/features/annotations/AnnotationsPanel';
 import { BriefingToolbar } from '@/features/export/BriefingToolbar';
 import { DiagramMenu } from '@/features/projects/DiagramMenu';
+import { HowToDialog } from '@/features/help/HowToDialog';
 import { RevisionStateBadge, SaveRevisionButton } from '@/features/revisions';
 import { AnalysisPanel, FindingsPanel } from './analysis';
 import type { DiagramRecord } from './api';
@@ -244,27 +244,6 @@ function SidePanel() {
   );
 }
 
-function HelpOverlay({ open, onClose }: { open: boolean; onClose: () => void }) {
-  return (
-    <Dialog open={open} onClose={onClose} title="Keyboard shortcuts" width="max-w-lg">
-      <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-1.5 text-[13px]">
-        {SHORTCUTS.map((s) => (
-          <div key={s.keys} className="contents">
-            <dt>
-              <kbd className="rounded border border-graphite-300 bg-graphite-50 px-1.5 py-0.5 font-mono text-xs">{s.keys}</kbd>
-            </dt>
-            <dd className="text-graphite-700">{s.what}</dd>
-          </div>
-        ))}
-      </dl>
-      <p className="mt-4 text-xs text-graphite-500">
-        Connect a cable by dragging from one terminal (+, − or a tap) to another; allowed terminals light up, and a + joined straight to a
-        − is marked with a caution outline.
-      </p>
-    </Dialog>
-  );
-}
-
 function EmptyCanvas({ onTemplate }: { onTemplate: () => void }) {
   const empty = useEditorStore((s) => s.doc.parts.length === 0);
   const readOnly = useEditorStore((s) => s.readOnly);
@@ -407,7 +386,7 @@ export function EditorLayout({ diagram, role, restoredFrom, filledDefaults, onDi
           <Button size="sm" variant="ghost" onClick={() => useEditorStore.getState().requestFit()} title="Zoom to fit (F)">
             Fit
           </Button>
-          <Button size="sm" variant="ghost" onClick={toggleHelp} title="Keyboard shortcuts (?)" aria-label="Keyboard shortcuts">
+          <Button size="sm" variant="ghost" onClick={toggleHelp} title="Help: how-to and keyboard shortcuts (?)" aria-label="Help: how-to and keyboard shortcuts">
             ?
           </Button>
           <span className="mx-1 h-5 w-px bg-graphite-200" aria-hidden="true" />
@@ -433,7 +412,7 @@ export function EditorLayout({ diagram, role, restoredFrom, filledDefaults, onDi
       </div>
       <StatusBar />
       <TemplateDialog open={templateOpen} onClose={() => setTemplateOpen(false)} />
-      <HelpOverlay open={helpOpen} onClose={() => setHelpOpen(false)} />
+      <HowToDialog open={helpOpen} onClose={() => setHelpOpen(false)} shortcuts={SHORTCUTS} />
     </div>
   );
 }

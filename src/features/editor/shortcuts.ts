@@ -3,7 +3,7 @@ import { useEffect } from 'react';
 import { useEditorStore } from './store';
 
 export const SHORTCUTS: { keys: string; what: string }[] = [
-  { keys: 'Enter on a palette item', what: 'Place the part at the centre of the view' },
+  { keys: 'Click or Enter on a palette item', what: 'Place the part at the centre of the view' },
   { keys: 'Click, Shift+click', what: 'Select, add to the selection' },
   { keys: 'Shift+drag on the canvas', what: 'Select with a box' },
   { keys: 'Arrow keys', what: 'Move the selected parts' },
