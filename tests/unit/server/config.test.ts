@@ -14,6 +14,8 @@ describe('config from env', () => {
       appOrigin: 'http://localhost:3000',
       demo: true,
       demoPassword: 'bankwright-demo',
+      // X-Forwarded-For is not believed unless TRUST_PROXY names the proxies in front (README).
+      trustProxy: 0,
       // Uploads: 20 MB per file on local disk under DATA_DIR unless S3_BUCKET is set (README).
       uploadMaxBytes: 20 * 1024 * 1024,
       storage: { kind: 'local' },
