@@ -94,6 +94,22 @@ describe('new diagram, placing parts, nothing lost on close', () => {
     expect(new Set(boxes).size).toBe(2);
     await shot(page, '03-placed-by-click');
     await expect.poll(() => page.getByRole('status').filter({ hasText: /^Saved$/ }).count(), { timeout: 15_000 }).toBe(1);
+
+    // The "?" help opens on the how-to, each step with a drawing.
+    await page.getByRole('button', { name: 'Help: how-to and keyboard shortcuts' }).click();
+    const help = page.getByRole('dialog', { name: 'How to' });
+    await help.getByRole('tab', { name: 'Compare and sign off' }).click();
+    expect(await help.getByRole('tabpanel').getByRole('img').count()).toBeGreaterThanOrEqual(3);
+    await shot(page, '06-help-sign-off');
+    await page.keyboard.press('Escape');
+
+    // The bill of materials names parts by label and categories by name.
+    await page.getByRole('button', { name: 'BOM', exact: true }).click();
+    const bom = page.getByRole('table', { name: 'Bill of materials' });
+    await expect.poll(() => bom.getByRole('cell', { name: 'Fuse holders', exact: true }).count()).toBe(1);
+    expect(await bom.getByRole('cell', { name: 'Battery 1; Battery 2; Battery 3' }).count()).toBe(1);
+    await shot(page, '07-bom');
+    await page.keyboard.press('Escape');
     expect(errors).toEqual([]);
     await page.close();
   });
