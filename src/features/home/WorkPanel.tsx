@@ -6,7 +6,8 @@ import type { ReactNode } from 'react';
 import { Link } from 'react-router';
 import { can } from '@shared/roles';
 import type { RevisionState } from '@shared/schemas/diagrams';
-import { ErrorState, LoadingRegion, Skeleton } from '@/components/States';
+import { LoadingRegion, Skeleton } from '@/components/States';
+import { errorMessage } from '@/lib/api';
 import { formatDateTime } from '@/lib/format';
 import { useSignedInMe } from '@/features/auth/hooks';
 import { RevisionStateBadge } from '@/features/revisions/RevisionStateBadge';
@@ -33,7 +34,13 @@ export function WorkPanel() {
           </div>
         </LoadingRegion>
       ) : work.isError ? (
-        <ErrorState title="Could not load your work" error={work.error} onRetry={() => work.refetch()} retrying={work.isFetching} />
+        // A side panel: its failure is said quietly, without taking the page's alert.
+        <p className="text-[13px] text-graphite-700">
+          Could not load your work: {errorMessage(work.error)}{' '}
+          <button type="button" className="font-medium text-copper-700 underline underline-offset-2" onClick={() => work.refetch()}>
+            Try again
+          </button>
+        </p>
       ) : (
         <div className="grid items-start gap-4 lg:grid-cols-3">
           <WorkList
