@@ -18,6 +18,10 @@ describe('config from env', () => {
       trustProxy: 0,
       // Uploads: 20 MB per file on local disk under DATA_DIR unless S3_BUCKET is set (README).
       uploadMaxBytes: 20 * 1024 * 1024,
+      // Each team 2 GB of attached files; each person 30 uploads per 10 minutes (README).
+      uploadQuota: { teamBytes: 2 * 1024 ** 3, ratePerUser: 30, rateWindowSeconds: 600 },
+      // Structured logs at info outside tests (docs/decisions/014).
+      logLevel: 'info',
       storage: { kind: 'local' },
       // Scheduled backups off unless BACKUP_INTERVAL_MINUTES is set (docs/decisions/006).
       backups: null,
