@@ -8,7 +8,8 @@ import { hashPassword } from '../auth/passwords';
 import type { Db, Tx } from './client';
 import { demoDiagramContents, demoHouseBankContent, demoRevisionContents } from './demo-diagrams';
 import { demoLibraryItems } from './demo-library';
-import { activity, diagramRevisions, diagrams, libraryItems, memberships, projects, reviewComments, reviewDecisions, reviewRequests, teams, users } from './schema';
+import { activity, diagramRevisions, diagrams, libraryItems, memberships, NOTIFICATION_KINDS, notifications, projects, reviewComments, reviewDecisions, reviewRequests, teams, users } from './schema';
+import { excerptOf } from '../services/notifications';
 import { newId } from '../ids';
 import { contentHash } from '../services/content-hash';
 import { computeResultsSummary } from '../services/summaries';
@@ -111,7 +112,7 @@ export async function seedDemo(db: Db, password: string): Promise<boolean> {
       createdAt: at(12),
       updatedAt: at(14),
     });
-    await seedDemoReview(tx, { diagram: diagramRows[0], projectId: station, designer: designer.id, reviewer: reviewer.id, revisionDocs, summaries, at });
+    await seedDemoReview(tx, { diagram: diagramRows[0], projectId: station, teamId, designer: designer.id, reviewer: reviewer.id, revisionDocs, summaries, at });
     await tx.insert(activity).values(
       demoProjects.map((p) => ({ id: newId(), projectId: p.id, userId: designer.id, action: 'project.created', detail: { name: p.name }, createdAt: at(p.minute) })),
     );
@@ -145,6 +146,7 @@ async function seedDemoReview(
   s: {
     diagram: { id: string; name: string };
     projectId: string;
+    teamId: string;
     designer: string;
     reviewer: string;
     revisionDocs: ReturnType<typeof demoRevisionContents>;
@@ -210,6 +212,28 @@ async function seedDemoReview(
     },
   ];
   await tx.insert(reviewComments).values(comments.map((c) => ({ ...c, revisionId: revIds[2] })));
+  // The in-app notices these events stored (server/services/notifications.ts): the approved round read, revision 3's unread.
+  const notice = (minute: number, userId: string, actorId: string, kind: (typeof NOTIFICATION_KINDS)[number], revisionNumber: number, extra: { commentId?: string; excerpt?: string; readAt?: Date } = {}) => ({
+    id: newId(),
+    userId,
+    teamId: s.teamId,
+    kind,
+    actorId,
+    diagramId: diagram.id,
+    revisionNumber,
+    commentId: extra.commentId ?? null,
+    excerpt: excerptOf(extra.excerpt ?? ''),
+    readAt: extra.readAt ?? null,
+    createdAt: at(minute),
+  });
+  await tx.insert(notifications).values([
+    notice(42, reviewer, designer, 'review_requested', 2, { readAt: at(43) }),
+    notice(44, designer, reviewer, 'approved', 2, { excerpt: 'Diagonal take-off evens out the battery currents. Approved as a design check; confirm torque values on site.', readAt: at(45) }),
+    notice(47, reviewer, designer, 'review_requested', 3),
+    notice(48, designer, reviewer, 'comment', 3, { commentId: comments[0].id, excerpt: comments[0].body, readAt: at(49) }),
+    notice(49, reviewer, designer, 'reply', 3, { commentId: comments[1].id, excerpt: comments[1].body }),
+    notice(50, designer, reviewer, 'comment', 3, { commentId: comments[2].id, excerpt: comments[2].body }),
+  ]);
   const log = (minute: number, userId: string, action: string, detail: Record<string, unknown>) => ({
     id: newId(),
     projectId,

@@ -51,6 +51,23 @@ const noticesOf = async (a: Agent, diagramId: string): Promise<Notice[]> =>
   (await a.get('/api/notifications?limit=100')).body.notifications.filter((n: Notice) => n.diagram.id === diagramId);
 
 describe('notifications of the review flow', () => {
+  it('the demo’s review history comes with the notices it would have stored', async () => {
+    const r = (await reviewer.get('/api/notifications')).body;
+    expect(r.notifications.map((n: Notice) => [n.kind, n.revision, n.read])).toEqual([
+      ['reply', 3, false],
+      ['review_requested', 3, false],
+      ['review_requested', 2, true],
+    ]);
+    expect(r.unread).toBe(2);
+    const d = (await designer.get('/api/notifications')).body;
+    expect(d.notifications.map((n: Notice) => [n.kind, n.revision, n.read])).toEqual([
+      ['comment', 3, false],
+      ['comment', 3, true],
+      ['approved', 2, true],
+    ]);
+    expect((await trainer.get('/api/notifications')).body).toEqual({ notifications: [], unread: 0 });
+  });
+
   it('stores one notice per recipient for a request, comments, replies and decisions, never to the actor', async () => {
     const id = await diagramWithRevisions(2, 'Notice flow');
     const before = (await reviewer.get('/api/notifications')).body.unread;
