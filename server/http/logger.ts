@@ -119,7 +119,10 @@ function userIdOf(res: ServerResponse): string | undefined {
   return locals?.auth?.user?.id;
 }
 
-/** One log line per request: id, method, route pattern, status, duration (ms), user id; 5xx with the error summary. */
+/**
+ * One log line per request: id, method, route pattern, status, duration (ms), user id; 5xx with the error
+ * summary. `route` is null for a request refused before any route matched (the input rules, an unknown path).
+ */
 export function requestLogging(logger: Logger): RequestHandler {
   const http = pinoHttp({
     logger,
@@ -143,8 +146,8 @@ export function requestLogging(logger: Logger): RequestHandler {
       return { route: info.pattern ?? null, ...(info.params ? { ids: info.params } : {}), ...(userId ? { userId } : {}) };
     },
     customLogLevel: (_req: IncomingMessage, res: ServerResponse, err?: Error) => (err || res.statusCode >= 500 ? 'error' : 'info'),
-    customSuccessMessage: (req: IncomingMessage, res: ServerResponse) => `${req.method} ${routeOf(res).pattern ?? '(no route)'} ${res.statusCode}`,
-    customErrorMessage: (req: IncomingMessage, res: ServerResponse) => `${req.method} ${routeOf(res).pattern ?? '(no route)'} ${res.statusCode} failed`,
+    customSuccessMessage: (req: IncomingMessage, res: ServerResponse) => `${req.method} ${routeOf(res).pattern ?? '(not routed)'} ${res.statusCode}`,
+    customErrorMessage: (req: IncomingMessage, res: ServerResponse) => `${req.method} ${routeOf(res).pattern ?? '(not routed)'} ${res.statusCode} failed`,
   });
   return (req, res, next) => {
     recordRoute(req, res);
