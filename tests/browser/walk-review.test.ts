@@ -67,7 +67,9 @@ describe('the review walk', () => {
     const saveRevision = async (message: string) => {
       await press(d.page, d.page.getByRole('button', { name: 'Save revision…' }));
       const dialog = d.page.getByRole('dialog');
+      // The field starts empty for each new revision (the last message is not carried over).
       await dialog.getByLabel('What changed').focus();
+      expect(await dialog.getByLabel('What changed').inputValue()).toBe('');
       await d.page.keyboard.type(message);
       await press(d.page, dialog.getByRole('button', { name: /^Save revision \d+$/ }));
       await dialog.waitFor({ state: 'detached', timeout: 30_000 });
@@ -102,6 +104,7 @@ describe('the review walk', () => {
     const r = await signedIn('reviewer@demo.test');
     const waiting = r.page.getByRole('region', { name: 'Waiting for your review' });
     await waiting.getByRole('link', { name: `${NAME} · revision 2` }).waitFor({ timeout: 15_000 });
+    expect(await waiting.getByRole('listitem').filter({ hasText: `${NAME} · revision 2` }).innerText()).toContain('“Battery 1 measured at 3.5 mΩ”');
     const bell = r.page.getByRole('button', { name: /^Notifications, \d+ unread$/ });
     await bell.waitFor({ timeout: 15_000 });
     const unreadBefore = Number(/(\d+) unread/.exec((await bell.getAttribute('aria-label')) ?? '')![1]);

@@ -16,7 +16,10 @@ export function SaveRevisionDialog({
   error: unknown;
   onSave: (message: string) => void;
 }) {
-  const [message, setMessage] = useState('');
+  // The message belongs to the revision it was written for: once that revision is saved, the next starts empty.
+  const [draft, setDraft] = useState({ forNumber: nextNumber, message: '' });
+  const message = draft.forNumber === nextNumber ? draft.message : '';
+  const setMessage = (m: string) => setDraft({ forNumber: nextNumber, message: m });
   return (
     <Dialog
       open={open}
