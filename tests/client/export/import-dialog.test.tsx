@@ -1,4 +1,4 @@
-/** Importing a diagram file: broken files list their problems and import nothing; an exported file imports as it was. */
+/** New diagram from a file: broken files list their problems and import nothing; an exported file imports as it was. */
 import { describe, expect, it } from 'vitest';
 import { render, screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
@@ -6,14 +6,14 @@ import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { createMemoryRouter, RouterProvider } from 'react-router';
 import { postToPostTemplate, type DiagramDocument } from '@shared/diagram';
 import { diagramFileText } from '@/features/diagram-files/file';
-import { ImportDiagramDialog } from '@/features/diagram-files/ImportDiagramDialog';
+import { NewDiagramDialog } from '@/features/projects/NewDiagramDialog';
 import { mockApi } from '../helpers';
 
 function renderDialog() {
   const qc = new QueryClient({ defaultOptions: { queries: { retry: false }, mutations: { retry: false } } });
   const router = createMemoryRouter(
     [
-      { path: '/projects/p1', element: <ImportDiagramDialog projectId="p1" open onClose={() => {}} /> },
+      { path: '/projects/p1', element: <NewDiagramDialog projectId="p1" open onClose={() => {}} initialSource="file" /> },
       { path: '/diagrams/:id', element: <p>Editor opened</p> },
     ],
     { initialEntries: ['/projects/p1'] },
@@ -28,7 +28,7 @@ function renderDialog() {
 
 const file = (text: string, name = 'bank.bankwright.json') => new File([text], name, { type: 'application/json' });
 
-describe('ImportDiagramDialog', () => {
+describe('New diagram from a file', () => {
   it('lists each problem of a broken file by path and imports nothing', async () => {
     const fetchMock = mockApi({});
     const user = userEvent.setup();
@@ -45,7 +45,7 @@ describe('ImportDiagramDialog', () => {
     expect(items.some((t) => t.startsWith('$.parts[1].rotation: '))).toBe(true);
     expect(items).toHaveLength(2);
     expect(screen.getByRole('alert')).toHaveTextContent('Nothing was imported');
-    expect(screen.getByRole('button', { name: 'Import' })).toBeDisabled();
+    expect(screen.getByRole('button', { name: 'Create and open' })).toBeDisabled();
 
     // A well-formed file whose cable ends on a part that does not exist (checked once the shape is valid).
     const dangling = JSON.parse(JSON.stringify(doc));
@@ -104,8 +104,8 @@ describe('ImportDiagramDialog', () => {
     const router = renderDialog();
     await user.upload(screen.getByLabelText(/Diagram file/), file(diagramFileText(doc, 'Van bank'), 'van-bank.bankwright.json'));
     expect(await screen.findByText(/3 parts|parts, /)).toBeInTheDocument();
-    expect(screen.getByLabelText('Name of the new diagram')).toHaveValue('Van bank');
-    await user.click(screen.getByRole('button', { name: 'Import' }));
+    expect(screen.getByLabelText('Diagram name')).toHaveValue('Van bank');
+    await user.click(screen.getByRole('button', { name: 'Create and open' }));
     await waitFor(() => expect(router.state.location.pathname).toBe('/diagrams/d9'));
     expect(fetchMock).toHaveBeenCalledTimes(1);
     expect(posted!.name).toBe('Van bank');
