@@ -2,8 +2,8 @@
  * The review walk in chromium on a server without SMTP, keyboard-first: a designer saves revisions and
  * requests review from the editor's toolbar; the reviewer finds the request on the landing page and in the
  * notification list, opens the compare view from the notice, comments and approves; the designer is told;
- * the owner switches the team to US units and the canvas labels show AWG and feet. Every step checks that
- * nothing on the page threw.
+ * the owner switches the team to US units and the canvas labels show AWG and feet, while the designer's own
+ * choice of metric keeps mm² on their screens. Every step checks that nothing on the page threw.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
@@ -165,5 +165,22 @@ describe('the review walk', () => {
     expect(labels.some((t) => /mm²|\d m\b/.test(t)), labels.join(' | ')).toBe(false);
     await o.page.screenshot({ path: screenshotPath('walk-5-owner-us-units') });
     expect(o.errors).toEqual([]);
+
+    // The designer keeps metric on their own screens: Account → Units overrides the team's US setting.
+    await d.page.goto(`${url}/account`);
+    const mine = d.page.getByLabel('Units on your screens');
+    await mine.focus();
+    await mine.selectOption('metric');
+    await press(d.page, d.page.getByRole('button', { name: 'Save units' }));
+    await d.page.getByText('Saved.').waitFor();
+    await d.page.goto(`${url}/diagrams/${diagramId}`);
+    await d.page.getByTestId('share-bat4').waitFor({ timeout: 60_000 });
+    const dZoomIn = d.page.getByRole('button', { name: /zoom in/i });
+    for (let i = 0; i < 6 && (await d.page.locator('.bw-cable-label[data-detail="full"]').count()) === 0; i++) await press(d.page, dZoomIn);
+    await d.page.locator('.bw-cable-label[data-detail="full"]').first().waitFor();
+    const metricLabels = await d.page.locator('.bw-cable-label[data-detail="full"]').allInnerTexts();
+    expect(metricLabels.some((t) => /mm²/.test(t)), metricLabels.join(' | ')).toBe(true);
+    expect(metricLabels.some((t) => /AWG|\d ft\b/.test(t)), metricLabels.join(' | ')).toBe(false);
+    expect(d.errors).toEqual([]);
   });
 });

@@ -79,7 +79,7 @@ export function OutboxPage() {
         <ErrorState title="Could not load the outbox" error={outbox.error} onRetry={() => outbox.refetch()} retrying={outbox.isFetching} />
       ) : messages.length === 0 ? (
         <EmptyState icon={<InboxIcon size={32} />} title="No messages">
-          {view === 'mine' ? 'Review requests, comments and decisions addressed to you appear here.' : 'Invites you send to this team appear here.'}
+          {view === 'mine' ? 'Review requests, comments and decisions addressed to you appear here.' : 'Invites and review notices about this team appear here.'}
         </EmptyState>
       ) : (
         <div className="grid items-start gap-4 lg:grid-cols-[22rem_1fr]">
