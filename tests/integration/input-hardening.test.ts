@@ -14,7 +14,7 @@ import { createApp } from '../../server/app';
 import { testConfig } from '../../server/config';
 import { diagrams } from '../../server/db/schema';
 import { seedDemo } from '../../server/db/demo-data';
-import { createLogger } from '../../server/http/logger';
+import { createLogger, errorSummary } from '../../server/http/logger';
 import { createOutboxMailer } from '../../server/mail/mailer';
 import { createTestDatabase, type TestDatabase } from '../helpers/db';
 import { DEMO_PASSWORD, TEST_ORIGIN } from '../helpers/app';
@@ -165,6 +165,29 @@ describe('input rules on every JSON body', () => {
 });
 
 describe('request log', () => {
+  it('errorSummary keeps class, codes, schema names and frames; drops message, detail, where, query and params', () => {
+    const cause = Object.assign(new Error('duplicate key value violates unique constraint'), {
+      code: '23505',
+      routine: '_bt_check_unique',
+      table: 'users',
+      constraint: 'users_email_unique',
+      detail: 'Key (email)=(crew.lead@example.test) already exists.',
+      where: 'JSON data, line 1: {"secret":',
+      schema: 'public',
+    });
+    class FakeQueryError extends Error {}
+    const err = Object.assign(new FakeQueryError('Failed query: insert into users … params: crew.lead@example.test,hunter2-password'), {
+      query: 'insert into "users" values ($1, $2)',
+      params: ['crew.lead@example.test', 'hunter2-password'],
+      cause,
+    });
+    const summary = errorSummary(err)!;
+    expect(summary).toMatchObject({ type: 'FakeQueryError', cause: { type: 'Error', code: '23505', routine: '_bt_check_unique', table: 'users', constraint: 'users_email_unique' } });
+    expect((summary.frames as string[])[0]).toMatch(/^at .*input-hardening\.test\.ts/);
+    const text = JSON.stringify(summary);
+    for (const leak of ['crew.lead@example.test', 'hunter2', 'Failed query', 'duplicate key', 'secret', 'insert into']) expect(text).not.toContain(leak);
+  });
+
   const forRequest = (id: string) => lines.filter((l) => l.reqId === id);
 
   it('one line per request: id (also in X-Request-Id), method, route pattern, status, duration, user id — never the query string', async () => {
