@@ -138,6 +138,42 @@ describe('new diagram, placing parts, nothing lost on close', () => {
     await page.close();
   });
 
+  it('copies and moves a diagram to another project of the team from the project page', async () => {
+    const { page, errors } = await watchedPage(context);
+    await page.goto(diagramUrl);
+    await page.getByRole('heading', { name: 'Office bank' }).waitFor();
+    const projectId = await page.evaluate(async (id) => (await (await fetch(`/api/diagrams/${id}`)).json()).diagram.projectId as string, diagramId);
+    const target = await page.evaluate(async (pid) => {
+      const teamId = (await (await fetch(`/api/projects/${pid}`)).json()).project.teamId;
+      const res = await fetch('/api/projects', { method: 'POST', headers: { 'Content-Type': 'application/json' }, body: JSON.stringify({ teamId, name: 'Quarry workshop' }) });
+      return (await res.json()).project.id as string;
+    }, projectId);
+    await page.goto(`${server.url}/projects/${projectId}`);
+    await page.getByRole('button', { name: 'Move or copy Office bank' }).click();
+    await page.getByRole('menuitem', { name: 'Copy to a project…' }).click();
+    const dialog = page.getByRole('dialog', { name: 'Copy to a project' });
+    await dialog.getByLabel('Project').selectOption(target);
+    await shot(page, '08-copy-to-project');
+    await dialog.getByRole('button', { name: 'Copy and open' }).click();
+    await page.getByRole('heading', { name: 'Office bank (copy)' }).waitFor();
+    const copyId = page.url().split('/').pop()!;
+    await page.goto(`${server.url}/projects/${target}`);
+    await page.getByRole('list', { name: 'Diagrams' }).getByRole('link', { name: 'Office bank (copy)' }).waitFor();
+
+    // Move the copy back to the first project: it keeps its id.
+    await page.getByRole('button', { name: 'Move or copy Office bank (copy)' }).click();
+    await page.getByRole('menuitem', { name: 'Move to another project…' }).click();
+    const move = page.getByRole('dialog', { name: 'Move to another project' });
+    await move.getByLabel('Project').selectOption(projectId);
+    await move.getByRole('button', { name: 'Move', exact: true }).click();
+    await expect.poll(() => page.getByRole('list', { name: 'Diagrams' }).getByRole('link', { name: 'Office bank (copy)' }).count()).toBe(0);
+    await page.goto(`${server.url}/projects/${projectId}`);
+    await page.getByRole('list', { name: 'Diagrams' }).getByRole('link', { name: 'Office bank (copy)' }).waitFor();
+    expect(await page.getByRole('list', { name: 'Diagrams' }).getByRole('link', { name: 'Office bank (copy)' }).getAttribute('href')).toBe(`/diagrams/${copyId}`);
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+
   it('an edit made ~50 ms before the tab closes is there when the diagram is opened again', async () => {
     const { page, errors } = await watchedPage(context);
     await page.goto(diagramUrl);

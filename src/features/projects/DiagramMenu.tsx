@@ -1,6 +1,7 @@
 /**
- * The editor's "Diagram" menu: start a new diagram in this project, move this one to another project
- * of the team, or copy it into one. Shown to roles that may edit diagrams.
+ * The "Diagram" menu (editor toolbar; "Move or copy" on each card of a project page): start a new
+ * diagram in this project, move this one to another project of the team, or copy it into one. Shown
+ * to roles that may edit diagrams.
  */
 import { lazy, Suspense, useState } from 'react';
 import { Menu, menuItemClass } from '@/components/Menu';
@@ -11,7 +12,19 @@ const MoveCopyDialog = lazy(() => import('./MoveCopyDialog').then((m) => ({ defa
 
 type Open = null | 'new' | 'move' | 'copy';
 
-export function DiagramMenu({ diagram }: { diagram: MovableDiagram }) {
+export function DiagramMenu({
+  diagram,
+  withNew = true,
+  label = 'Diagram',
+  button = 'Diagram',
+  buttonClassName = 'inline-flex h-7 items-center rounded-md border border-graphite-200 bg-white px-2.5 text-[13px] font-medium hover:bg-graphite-50',
+}: {
+  diagram: MovableDiagram;
+  withNew?: boolean;
+  label?: string;
+  button?: string;
+  buttonClassName?: string;
+}) {
   const [open, setOpen] = useState<Open>(null);
   const [used, setUsed] = useState<Set<Open>>(new Set());
   const show = (which: Exclude<Open, null>) => {
@@ -34,15 +47,10 @@ export function DiagramMenu({ diagram }: { diagram: MovableDiagram }) {
   );
   return (
     <>
-      <Menu
-        label="Diagram"
-        button={<>Diagram</>}
-        buttonClassName="inline-flex h-7 items-center rounded-md border border-graphite-200 bg-white px-2.5 text-[13px] font-medium hover:bg-graphite-50"
-        align="right"
-      >
+      <Menu label={label} button={<>{button}</>} buttonClassName={buttonClassName} align="right">
         {({ close }) => (
           <>
-            {item('new', 'New diagram…', close)}
+            {withNew ? item('new', 'New diagram…', close) : null}
             {item('move', 'Move to another project…', close)}
             {item('copy', 'Copy to a project…', close)}
           </>

@@ -12,6 +12,7 @@ import { rememberTeam } from '@/lib/currentTeam';
 import { formatDateTime, plural } from '@/lib/format';
 import { useSignedInMe } from '../auth/hooks';
 import { NewDiagramButton } from './NewDiagramButton';
+import { DiagramMenu } from './DiagramMenu';
 import { ActivityList } from '../activity/ActivityList';
 import { UploadsSection } from '../uploads/UploadsSection';
 import { RevisionStateBadge } from '../revisions/RevisionStateBadge';
@@ -131,6 +132,15 @@ function ProjectView({ project, teamName, mayEdit, mayImport }: { project: Proje
                   <Link to={`/diagrams/${d.id}/history`} className="text-graphite-600 underline-offset-2 hover:text-graphite-900 hover:underline">
                     History
                   </Link>
+                  {mayImport ? (
+                    <DiagramMenu
+                      diagram={{ id: d.id, name: d.name, projectId: project.id, teamId: project.teamId }}
+                      withNew={false}
+                      label={`Move or copy ${d.name}`}
+                      button="Move or copy…"
+                      buttonClassName="text-graphite-600 underline-offset-2 hover:text-graphite-900 hover:underline"
+                    />
+                  ) : null}
                 </span>
                 <span className="mt-auto flex justify-between gap-2 pt-3 text-xs text-graphite-500">
                   <span className="font-mono">{plural(d.partCount, 'part')}</span>
