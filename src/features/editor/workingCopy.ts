@@ -93,7 +93,11 @@ export function localCopyToRestore(diagramId: string, serverUpdatedAt: string, s
   if (!local) return null;
   const serverTime = Date.parse(serverUpdatedAt);
   if (Number.isFinite(serverTime) && local.savedAt <= serverTime) return null;
-  if (JSON.stringify(local.doc) === JSON.stringify(serverContent)) return null;
+  if (JSON.stringify(local.doc) === JSON.stringify(serverContent)) {
+    // The server has it (e.g. sent with keepalive as the tab closed): nothing left to keep here.
+    clearLocalCopy(diagramId);
+    return null;
+  }
   return local;
 }
 

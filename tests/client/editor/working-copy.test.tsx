@@ -171,8 +171,10 @@ describe('working copy: offline', () => {
     expect(localCopyToRestore(ID, '2031-05-02T09:30:00.000Z', server)?.doc.settings.ambient_C).toBe(47);
     // The server copy was saved after mine: theirs wins.
     expect(localCopyToRestore(ID, '2031-05-02T10:30:00.000Z', server)).toBeNull();
-    // Same content: nothing to restore.
+    // Same content: nothing to restore, and the copy here is dropped (the server has it).
+    expect(readLocalCopy(ID)).not.toBeNull();
     expect(localCopyToRestore(ID, '2031-05-02T09:30:00.000Z', mine)).toBeNull();
+    expect(readLocalCopy(ID)).toBeNull();
     // Unreadable storage is no copy.
     window.localStorage.setItem(localKey(ID), '{not json');
     expect(localCopyToRestore(ID, '2031-05-02T09:30:00.000Z', server)).toBeNull();
