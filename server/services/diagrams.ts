@@ -199,7 +199,9 @@ export async function moveDiagram(db: Db, userId: string, diagramId: string, tar
     if (row.projectId === target.id) {
       throw new ApiError(400, 'validation_failed', 'Some fields need attention.', { fields: { projectId: ['The diagram is already in this project'] } });
     }
-    await tx.update(diagrams).set({ projectId: target.id, updatedAt: new Date(), updatedBy: userId }).where(eq(diagrams.id, diagramId));
+    // Only the project changes: the working copy's version, time and author stay (a copy kept in a
+    // browser is compared with them when the diagram next opens).
+    await tx.update(diagrams).set({ projectId: target.id }).where(eq(diagrams.id, diagramId));
     const base = { diagramId, name: row.name, fromProjectId: row.projectId, fromProjectName: row.projectName, toProjectId: target.id, toProjectName: target.name };
     await tx.insert(activity).values([
       { id: newId(), projectId: row.projectId, userId, action: 'diagram.moved_out', detail: base },

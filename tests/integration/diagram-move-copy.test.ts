@@ -46,9 +46,12 @@ describe('POST /api/diagrams/:id/move', () => {
     const comment = await designer.post(`/api/diagrams/${id}/revisions/1/comments`).send({ body: 'Check the jumper length' });
     expect(comment.status).toBe(201);
 
+    const before = (await designer.get(`/api/diagrams/${id}`)).body.diagram;
     const res = await designer.post(`/api/diagrams/${id}/move`).send({ projectId: toId });
     expect(res.status).toBe(200);
     expect(res.body.diagram).toMatchObject({ id, projectId: toId, projectName: 'Harbour shed, stage 2', name: 'Shed bank' });
+    // The working copy itself is untouched: same version, time and content.
+    expect(res.body.diagram).toMatchObject({ workingCopyVersion: before.workingCopyVersion, updatedAt: before.updatedAt, content: before.content });
 
     // Same id, same revisions and comments, now listed under the new project only.
     const revisions = await designer.get(`/api/diagrams/${id}/revisions`);
