@@ -58,7 +58,7 @@ describe('review and sign-off in chromium', () => {
     const designer = await newPage();
     await signIn(designer, url, 'designer@demo.test');
     await designer.waitForURL(/\/teams\/[^/]+\/projects/, { timeout: 30_000 });
-    await designer.getByText('Gannet Island ranger station').first().click();
+    await designer.getByRole('list', { name: 'Projects' }).getByText('Gannet Island ranger station').first().click();
     const card = designer.getByRole('list', { name: 'Diagrams' }).getByRole('link', { name: 'Post-to-post bank, end take-off' });
     await card.waitFor({ timeout: 30_000 });
     const diagramId = (await card.getAttribute('href'))!.split('/').pop()!;
