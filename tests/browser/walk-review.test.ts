@@ -42,6 +42,15 @@ async function press(page: Page, locator: ReturnType<Page['getByRole']>, key = '
 
 const NAME = 'Walk bank';
 
+/** The sizing assistant's text (Analysis tab), opened from the keyboard once its suggestions are in. */
+async function sizingText(page: Page): Promise<string> {
+  await press(page, page.getByRole('tab', { name: 'Analysis', exact: true }));
+  await press(page, page.getByRole('button', { name: 'Sizing assistant' }));
+  const region = page.getByRole('region', { name: 'Sizing assistant' });
+  await region.getByText(/at least/).first().waitFor({ timeout: 30_000 });
+  return region.innerText();
+}
+
 describe('the review walk', () => {
   it('designer requests review from the editor; reviewer is told in the app, compares, comments and approves; owner switches to US units', async () => {
     const url = server.url;
@@ -164,6 +173,8 @@ describe('the review walk', () => {
     expect(labels.some((t) => /\d ft\b/.test(t)), labels.join(' | ')).toBe(true);
     expect(labels.some((t) => /mm²|\d m\b/.test(t)), labels.join(' | ')).toBe(false);
     await o.page.screenshot({ path: screenshotPath('walk-5-owner-us-units') });
+    // Sizing suggests conductors from the US series.
+    expect(await sizingText(o.page)).toMatch(/at least [\d/]+ (AWG|kcmil)/);
     expect(o.errors).toEqual([]);
 
     // The designer keeps metric on their own screens: Account → Units overrides the team's US setting.
@@ -181,6 +192,11 @@ describe('the review walk', () => {
     const metricLabels = await d.page.locator('.bw-cable-label[data-detail="full"]').allInnerTexts();
     expect(metricLabels.some((t) => /mm²/.test(t)), metricLabels.join(' | ')).toBe(true);
     expect(metricLabels.some((t) => /AWG|\d ft\b/.test(t)), metricLabels.join(' | ')).toBe(false);
+    // And sizing offers the metric series.
+    const metricSizing = await sizingText(d.page);
+    expect(metricSizing).toMatch(/at least [\d.]+ mm²/);
+    expect(metricSizing).not.toMatch(/at least [\d/]+ (AWG|kcmil)/);
+    await d.page.screenshot({ path: screenshotPath('walk-6-designer-metric-sizing') });
     expect(d.errors).toEqual([]);
   });
 });
