@@ -113,6 +113,34 @@ describe('accessibility of every page', () => {
     expect(found).toEqual([]);
   });
 
+  it('as the owner: the new-project, save-revision and request-review dialogs have no serious or critical violation', async () => {
+    const page = await browser.newPage({ viewport: { width: 1440, height: 900 } });
+    const errors: string[] = [];
+    page.on('pageerror', (e) => errors.push(String(e)));
+    await signIn(page, server.url, 'owner@demo.test');
+    await page.waitForURL(/\/projects/);
+    const ids = await demoIds(page);
+    const found: string[] = [];
+    const check = async (name: string) => {
+      await page.getByRole('dialog').waitFor();
+      found.push(...(await seriousViolations(page)).map((v) => `[dialog: ${name}] ${v}`));
+      await page.keyboard.press('Escape');
+      await page.getByRole('dialog').waitFor({ state: 'detached' });
+    };
+    await page.getByRole('button', { name: 'New project' }).first().click();
+    await check('new project');
+    await page.goto(`${server.url}/diagrams/${ids.diagramId}`);
+    await page.locator('.react-flow__node').first().waitFor();
+    await page.getByRole('button', { name: 'Save revision…' }).click();
+    await check('save revision');
+    await page.getByRole('button', { name: 'Request review…' }).click();
+    await page.getByRole('dialog').getByRole('checkbox').first().waitFor();
+    await check('request review');
+    await page.close();
+    expect(errors).toEqual([]);
+    expect(found).toEqual([]);
+  });
+
   for (const role of ['owner', 'designer', 'reviewer'] as const) {
     it(`as the ${role}: every page, and the open notification list, has no serious or critical violation`, async () => {
       const page = await browser.newPage({ viewport: { width: 1440, height: 900 } });
