@@ -212,7 +212,8 @@ async function seedDemoReview(
     },
   ];
   await tx.insert(reviewComments).values(comments.map((c) => ({ ...c, revisionId: revIds[2] })));
-  // The in-app notices these events stored (server/services/notifications.ts): the approved round read, revision 3's unread.
+  // The in-app notices these events stored (server/services/notifications.ts); acting on a revision read one's own
+  // notices about it, so only the reviewer's last comment waits unread for the designer.
   const notice = (minute: number, userId: string, actorId: string, kind: (typeof NOTIFICATION_KINDS)[number], revisionNumber: number, extra: { commentId?: string; excerpt?: string; readAt?: Date } = {}) => ({
     id: newId(),
     userId,
@@ -229,9 +230,9 @@ async function seedDemoReview(
   await tx.insert(notifications).values([
     notice(42, reviewer, designer, 'review_requested', 2, { readAt: at(43) }),
     notice(44, designer, reviewer, 'approved', 2, { excerpt: 'Diagonal take-off evens out the battery currents. Approved as a design check; confirm torque values on site.', readAt: at(45) }),
-    notice(47, reviewer, designer, 'review_requested', 3),
+    notice(47, reviewer, designer, 'review_requested', 3, { readAt: at(48) }),
     notice(48, designer, reviewer, 'comment', 3, { commentId: comments[0].id, excerpt: comments[0].body, readAt: at(49) }),
-    notice(49, reviewer, designer, 'reply', 3, { commentId: comments[1].id, excerpt: comments[1].body }),
+    notice(49, reviewer, designer, 'reply', 3, { commentId: comments[1].id, excerpt: comments[1].body, readAt: at(50) }),
     notice(50, designer, reviewer, 'comment', 3, { commentId: comments[2].id, excerpt: comments[2].body }),
   ]);
   const log = (minute: number, userId: string, action: string, detail: Record<string, unknown>) => ({

@@ -111,6 +111,14 @@ export async function listNotifications(db: DbOrTx, userId: string, opts: { unre
   }));
 }
 
+/** Acting on a revision (comment, decision) reads the actor's own notices about it. Call inside the event's transaction. */
+export async function readNoticesAbout(tx: DbOrTx, userId: string, diagramId: string, revisionNumber: number): Promise<void> {
+  await tx
+    .update(notifications)
+    .set({ readAt: new Date() })
+    .where(and(eq(notifications.userId, userId), eq(notifications.diagramId, diagramId), eq(notifications.revisionNumber, revisionNumber), isNull(notifications.readAt)));
+}
+
 /** Marks the given notices (or all) read; ids that are not the user's change nothing. Returns the unread count. */
 export async function markRead(db: DbOrTx, userId: string, input: { ids?: string[]; all?: boolean }): Promise<number> {
   await db

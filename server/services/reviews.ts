@@ -16,7 +16,7 @@ import { newId } from '../ids';
 import type { Mailer } from '../mail/mailer';
 import type { DiagramRow, ProjectRow } from './access';
 import { reviewNotice } from './notices';
-import { notify } from './notifications';
+import { notify, readNoticesAbout } from './notifications';
 
 export interface RevisionContext {
   diagram: DiagramRow;
@@ -227,6 +227,7 @@ export async function addComment(
     const requested = await tx.select({ id: reviewRequests.reviewerId }).from(reviewRequests).where(eq(reviewRequests.revisionId, revision.id));
     const commenters = await tx.selectDistinct({ id: reviewComments.authorId }).from(reviewComments).where(eq(reviewComments.revisionId, revision.id));
     for (const x of [revision.authorId, ...requested.map((r) => r.id), ...commenters.map((c) => c.id)]) if (x && x !== user.id) ids.add(x);
+    await readNoticesAbout(tx, user.id, diagram.id, revision.number);
     await notify(tx, ids, {
       kind: threadId ? 'reply' : 'comment',
       teamId: project.teamId,
@@ -313,6 +314,7 @@ export async function decide(
       action: 'review.decided',
       detail: { diagramId: diagram.id, name: diagram.name, number: revision.number, decision: input.decision, ...(input.note ? { note: input.note } : {}) },
     });
+    await readNoticesAbout(tx, user.id, diagram.id, revision.number);
     if (revision.authorId) {
       await notify(tx, [revision.authorId], {
         kind: approve ? 'approved' : 'changes_requested',

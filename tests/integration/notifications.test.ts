@@ -53,12 +53,13 @@ const noticesOf = async (a: Agent, diagramId: string): Promise<Notice[]> =>
 describe('notifications of the review flow', () => {
   it('the demo’s review history comes with the notices it would have stored', async () => {
     const r = (await reviewer.get('/api/notifications')).body;
+    // The reviewer commented after each of these: acting on a revision read them.
     expect(r.notifications.map((n: Notice) => [n.kind, n.revision, n.read])).toEqual([
-      ['reply', 3, false],
-      ['review_requested', 3, false],
+      ['reply', 3, true],
+      ['review_requested', 3, true],
       ['review_requested', 2, true],
     ]);
-    expect(r.unread).toBe(2);
+    expect(r.unread).toBe(0);
     const d = (await designer.get('/api/notifications')).body;
     expect(d.notifications.map((n: Notice) => [n.kind, n.revision, n.read])).toEqual([
       ['comment', 3, false],
@@ -86,12 +87,18 @@ describe('notifications of the review flow', () => {
     expect(d1.map((n) => n.kind)).toEqual(['comment']);
     expect(d1[0].excerpt).toBe('Fuse F1 is undersized');
 
+    // Commenting on the revision read the reviewer's own notice about it.
+    expect((await noticesOf(reviewer, id)).map((n) => n.read)).toEqual([true]);
+
     const reply = await designer.post(`/api/diagrams/${id}/revisions/2/comments`).send({ body: 'Raised to 200 A', parentId: c.body.comment.id });
     expect(reply.status).toBe(201);
     rev = await noticesOf(reviewer, id);
     expect(rev.map((n) => n.kind)).toEqual(['reply', 'review_requested']);
 
+    expect((await reviewer.get('/api/notifications')).body.unread).toBe(before + 1);
     expect((await reviewer.post(`/api/diagrams/${id}/revisions/2/decision`).send({ decision: 'request_changes', note: 'See F1' })).status).toBe(200);
+    // Deciding read the reply too.
+    expect((await noticesOf(reviewer, id)).every((n) => n.read)).toBe(true);
     expect((await reviewer.post(`/api/diagrams/${id}/revisions/2/decision`).send({ decision: 'approve', note: '' })).status).toBe(200);
     const d2 = await noticesOf(designer, id);
     expect(d2.map((n) => n.kind)).toEqual(['approved', 'changes_requested', 'comment']);
