@@ -6,7 +6,9 @@
 import { useMemo } from 'react';
 import { diffResultsSummaries, type ResultsSummary } from '@shared/diagram/diff';
 import { BOM_CATEGORIES } from '@shared/diagram/bom';
+import { localizeUnitsInText } from '@shared/units';
 import { ErrorIcon, NoteIcon, WarningIcon } from '@/components/icons';
+import { useEditorStore } from '@/features/editor/store';
 import type { BomChange } from './bomDiff';
 
 const amps = (x: number | undefined) => (x === undefined ? '—' : `${x.toFixed(Math.abs(x) >= 100 ? 0 : 1)} A`);
@@ -54,6 +56,8 @@ export interface ResultsTableProps {
 
 export function ResultsTable({ a, b, labelA, labelB, source, bom, statusA, statusB }: ResultsTableProps) {
   const diff = useMemo(() => diffResultsSummaries(a, b), [a, b]);
+  // Set by useViewOnlyEditorStore from the user's effective unit system.
+  const unitSystem = useEditorStore((s) => s.unitSystem);
   const notSolved = [statusA && statusA !== 'solved' ? `${labelA}: could not be solved` : null, statusB && statusB !== 'solved' ? `${labelB}: could not be solved` : null].filter(Boolean);
   return (
     <div className="space-y-4">
@@ -138,7 +142,7 @@ export function ResultsTable({ a, b, labelA, labelB, source, bom, statusA, statu
           {diff.findingsAdded.length === 0 ? <p className="text-[12px] text-graphite-500">None.</p> : null}
           <ul className="space-y-1 text-[12px]">
             {diff.findingsAdded.map((f) => (
-              <li key={f.id}><SeverityWord severity={f.severity} /> {f.message}</li>
+              <li key={f.id}><SeverityWord severity={f.severity} /> {localizeUnitsInText(f.message, unitSystem)}</li>
             ))}
           </ul>
         </section>
@@ -149,7 +153,7 @@ export function ResultsTable({ a, b, labelA, labelB, source, bom, statusA, statu
           {diff.findingsResolved.length === 0 ? <p className="text-[12px] text-graphite-500">None.</p> : null}
           <ul className="space-y-1 text-[12px]">
             {diff.findingsResolved.map((f) => (
-              <li key={f.id}><span className="font-semibold text-ok-700">✓ Resolved</span> <span className="line-through decoration-graphite-400">{f.message}</span></li>
+              <li key={f.id}><span className="font-semibold text-ok-700">✓ Resolved</span> <span className="line-through decoration-graphite-400">{localizeUnitsInText(f.message, unitSystem)}</span></li>
             ))}
           </ul>
         </section>

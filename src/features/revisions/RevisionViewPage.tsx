@@ -25,6 +25,8 @@ import type { Revision } from './api';
 import { useComments, useDiagramInfo, useRevision, useRevisions } from './hooks';
 import { RevisionStateBadge } from './RevisionStateBadge';
 import { effectiveUnitSystem } from '@/features/account/units';
+import { useEditorStore } from '@/features/editor/store';
+import { localizeUnitsInText } from '@shared/units';
 
 export default function RevisionViewPage() {
   const { diagramId = '', n: raw = '' } = useParams();
@@ -126,6 +128,8 @@ function RevisionView({ diagramId, revision }: { diagramId: string; revision: Re
 }
 
 function StoredResults({ s }: { s: Revision['resultsSummary'] }) {
+  // Set by useViewOnlyEditorStore from the user's effective unit system.
+  const unitSystem = useEditorStore((st) => st.unitSystem);
   if (!s) return null;
   const sevIcon = (sev: string) => (sev === 'error' ? <ErrorIcon size={12} /> : sev === 'warning' ? <WarningIcon size={12} /> : <NoteIcon size={12} />);
   return (
@@ -149,7 +153,7 @@ function StoredResults({ s }: { s: Revision['resultsSummary'] }) {
           {s.findings.map((f) => (
             <li key={f.id} className="flex items-start gap-1">
               <span className={`mt-0.5 ${f.severity === 'error' ? 'text-fault-700' : f.severity === 'warning' ? 'text-caution-700' : 'text-note-700'}`}>{sevIcon(f.severity)}</span>
-              {f.message}
+              {localizeUnitsInText(f.message, unitSystem)}
             </li>
           ))}
         </ul>
