@@ -13,6 +13,7 @@ import { migrate as migratePg } from 'drizzle-orm/node-postgres/migrator';
 import type { PgDatabase, PgQueryResultHKT } from 'drizzle-orm/pg-core';
 import pg from 'pg';
 import * as schema from './schema';
+import { errorSummary, log } from '../http/logger';
 
 export type Schema = typeof schema;
 export type Db = PgDatabase<PgQueryResultHKT, Schema>;
@@ -70,7 +71,7 @@ export function redactUrl(url: string): string {
 export async function openPostgres(databaseUrl: string): Promise<Database> {
   const pool = new pg.Pool({ connectionString: databaseUrl, max: 10 });
   // An idle client losing its connection must not crash the process.
-  pool.on('error', (err) => console.error('[db] idle PostgreSQL client error:', err.message));
+  pool.on('error', (err) => log().error({ event: 'db.idle_client_error', err: errorSummary(err) }, 'idle PostgreSQL client error'));
   const db = drizzlePg({ client: pool, schema });
   try {
     await migratePg(db, { migrationsFolder: MIGRATIONS_DIR });

@@ -9,6 +9,7 @@ import type { Mailer } from '../mail/mailer';
 import { signUpAttemptMail, welcomeMail } from '../mail/account-mail';
 import type { SessionUser } from '../auth/sessions';
 import type { Role } from '../../shared/roles';
+import { errorSummary, log } from '../http/logger';
 
 export const INVALID_CREDENTIALS_MESSAGE = 'E-mail or password is incorrect.';
 
@@ -54,7 +55,7 @@ export async function signUp(
     await mailer.sendMail(mail);
   } catch (err) {
     // The account stands either way; a lost message must not turn into a different answer.
-    console.error('[mail] sign-up message could not be sent:', (err as Error).message);
+    log().error({ event: 'mail.failed', mail: 'sign-up', err: errorSummary(err) }, 'sign-up message not sent');
   }
   if (row) return { user: row, created: true };
   return { user: { id: newId(), email: input.email, name: input.name, createdAt: new Date() }, created: false };

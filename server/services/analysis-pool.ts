@@ -16,6 +16,7 @@ import os from 'node:os';
 import { Worker } from 'node:worker_threads';
 import { ApiError } from '../http/errors';
 import type { AnalysisJob, JobOutcome } from './analysis-jobs';
+import { errorSummary, log } from '../http/logger';
 
 export interface AnalysisPoolOptions {
   workers?: number;
@@ -105,7 +106,7 @@ export function createAnalysisPool(options: AnalysisPoolOptions = {}) {
     try {
       worker = new Worker(workerUrl);
     } catch (err) {
-      console.error('[analysis] worker could not start, analysing inline:', (err as Error).message);
+      log().error({ event: 'analysis.worker_start_failed', err: errorSummary(err) }, 'analysis worker could not start; analysing inline');
       inline = true;
       return null;
     }
@@ -123,16 +124,16 @@ export function createAnalysisPool(options: AnalysisPoolOptions = {}) {
       finish(slot);
       if (msg.outcome) q.resolve(msg.outcome);
       else q.reject(new ApiError(500, 'analysis_failed', 'The analysis failed on the server.', undefined));
-      if (msg.error) console.error('[analysis] job failed:', msg.error);
+      if (msg.error) log().error({ event: 'analysis.job_failed' }, 'analysis job failed');
     });
     const gone = (why: string) => {
       if (!slots.includes(slot)) return;
       const q = slot.job;
       if (slot.timer) clearTimeout(slot.timer);
       slot.job = null;
-      console.error(`[analysis] worker stopped: ${why}`);
+      log().error({ event: 'analysis.worker_stopped', why: String(why).slice(0, 80) }, 'analysis worker stopped');
       if (!slot.ready && ++bootFailures >= MAX_BOOT_FAILURES) {
-        console.error('[analysis] workers do not start; analysing inline on the request thread');
+        log().error({ event: 'analysis.inline' }, 'analysis workers do not start; analysing inline on the request thread');
         inline = true;
       }
       q?.reject(new ApiError(500, 'analysis_failed', 'The analysis stopped on the server. Try again.'));

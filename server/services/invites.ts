@@ -7,6 +7,7 @@ import { newId, newToken, sha256Hex } from '../ids';
 import { ApiError, conflict, forbidden, notFound } from '../http/errors';
 import { escapeHtml, type Mailer } from '../mail/mailer';
 import { getTeam } from './teams';
+import { errorSummary, log } from '../http/logger';
 
 export const INVITE_DAYS = 7;
 
@@ -64,7 +65,7 @@ export async function createInvite(
     await mailer.sendMail({ to: input.email, subject, text, html, teamId });
   } catch (err) {
     await db.delete(invites).where(eq(invites.id, row.id));
-    console.error('[mail] invite could not be sent:', (err as Error).message);
+    log().error({ event: 'mail.failed', mail: 'invite', err: errorSummary(err) }, 'invite not sent');
     throw new ApiError(502, 'mail_failed', 'The invitation e-mail could not be sent, so no invite was created. Try again later.');
   }
   return publicInvite(row);

@@ -17,6 +17,7 @@ import type { Mailer } from '../mail/mailer';
 import type { DiagramRow, ProjectRow } from './access';
 import { reviewNotice } from './notices';
 import { notify, readNoticesAbout } from './notifications';
+import { errorSummary, log } from '../http/logger';
 
 export interface RevisionContext {
   diagram: DiagramRow;
@@ -67,7 +68,7 @@ async function sendAll(mailer: Mailer, mails: Parameters<Mailer['sendMail']>[0][
     try {
       await mailer.sendMail(m);
     } catch (err) {
-      console.error(`[mail] review notice to ${m.to} could not be sent:`, (err as Error).message);
+      log().error({ event: 'mail.failed', mail: 'review-notice', err: errorSummary(err) }, 'review notice not sent');
     }
   }
 }
