@@ -94,3 +94,20 @@ describe('sign-in form', () => {
     expect(router.state.location.search).toBe(`?next=${encodeURIComponent('/teams/t-north/members')}`);
   });
 });
+
+describe('sign-up form', () => {
+  it('when the server answers alike but no session came of it (the address already had an account), says to check the mail and sign in', async () => {
+    mockApi({
+      ...signedOut,
+      'POST /api/auth/sign-up': { status: 201, body: { user: { id: 'decoy', email: 'dana@fieldcrew.test', name: 'Dana', createdAt: '2026-12-01T00:00:00Z' } } },
+    });
+    renderApp('/sign-up');
+    const user = userEvent.setup();
+    await user.type(await screen.findByLabelText('Name'), 'Dana Okafor');
+    await user.type(screen.getByLabelText('E-mail'), 'dana@fieldcrew.test');
+    await user.type(screen.getByLabelText('Password'), 'four unrelated words here');
+    await user.click(screen.getByRole('button', { name: 'Create account' }));
+    expect(await screen.findByText(/We have sent a message to dana@fieldcrew\.test\. If this address already has an account, sign in/)).toBeInTheDocument();
+    expect(screen.getByRole('button', { name: 'Create account' })).toBeInTheDocument();
+  });
+});

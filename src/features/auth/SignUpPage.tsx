@@ -6,10 +6,10 @@ import { Button } from '@/components/Button';
 import { TextField } from '@/components/Field';
 import { Notice } from '@/components/Notice';
 import { PageLoading } from '@/components/States';
-import { isApiError } from '@/lib/api';
 import { parseForm, serverFormErrors } from '@/lib/forms';
 import { AuthLayout, safeNext } from './AuthLayout';
-import { useMe, useSignUp } from './hooks';
+import { authKeys, useMe, useSignUp } from './hooks';
+import { useQueryClient } from '@tanstack/react-query';
 
 export function SignUpPage() {
   const me = useMe();
@@ -19,18 +19,17 @@ export function SignUpPage() {
   const signUp = useSignUp();
   const [values, setValues] = useState({ name: '', email: '', password: '' });
   const [clientErrors, setClientErrors] = useState<FieldErrors>({});
+  // The server answers alike whether or not the address already has an account (it e-mails the address
+  // either way); when no session came of it, the address was already registered.
+  const [checkMail, setCheckMail] = useState<string | null>(null);
+  const queryClient = useQueryClient();
 
   if (me.isPending) return <PageLoading />;
-  if (me.data && !signUp.isPending) return <Navigate to={next} replace />;
+  if (me.data && !signUp.isPending && !checkMail) return <Navigate to={next} replace />;
 
   const server = serverFormErrors(signUp.error);
   const fieldErrors: FieldErrors = { ...server.fieldErrors, ...clientErrors };
   let formError = server.formError;
-  // A taken e-mail belongs to the e-mail field, not the form.
-  if (isApiError(signUp.error) && signUp.error.code === 'email_taken') {
-    fieldErrors.email ??= [signUp.error.message];
-    formError = null;
-  }
 
   function onSubmit(e: FormEvent) {
     e.preventDefault();
@@ -41,7 +40,13 @@ export function SignUpPage() {
       return;
     }
     setClientErrors({});
-    signUp.mutate(parsed.data, { onSuccess: () => navigate(next, { replace: true }) });
+    setCheckMail(null);
+    signUp.mutate(parsed.data, {
+      onSuccess: () => {
+        if (queryClient.getQueryData(authKeys.me)) navigate(next, { replace: true });
+        else setCheckMail(parsed.data.email);
+      },
+    });
   }
 
   const set = (key: keyof typeof values) => (e: React.ChangeEvent<HTMLInputElement>) => setValues((v) => ({ ...v, [key]: e.target.value }));
@@ -60,7 +65,14 @@ export function SignUpPage() {
       }
     >
       <form noValidate onSubmit={onSubmit} className="space-y-4" aria-label="Create account">
-        <div aria-live="assertive">{formError ? <Notice signal="error">{formError}</Notice> : null}</div>
+        <div aria-live="assertive">
+          {formError ? <Notice signal="error">{formError}</Notice> : null}
+          {checkMail ? (
+            <Notice signal="note">
+              We have sent a message to {checkMail}. If this address already has an account, sign in with it instead.
+            </Notice>
+          ) : null}
+        </div>
         <TextField label="Name" name="name" autoComplete="name" value={values.name} onChange={set('name')} errors={fieldErrors.name} data-autofocus />
         <TextField label="E-mail" name="email" type="email" autoComplete="email" value={values.email} onChange={set('email')} errors={fieldErrors.email} />
         <TextField
