@@ -15,5 +15,11 @@ if [ ${#need[@]} -gt 0 ]; then
   DEBIAN_FRONTEND=noninteractive $SUDO apt-get install -y -qq "${need[@]}" >/dev/null
 fi
 
+# Types first: a type error anywhere (client, server, shared, tests) fails the run.
+if [ $# -eq 0 ]; then
+  echo "npm test: typecheck"
+  npx tsc --noEmit -p tsconfig.json
+fi
+
 # Unit (core + server units), client components, API integration, then the browser suite.
 npx vitest run "$@"
