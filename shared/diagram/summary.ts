@@ -13,7 +13,11 @@ import type { DiagramDocument } from './schema';
 import { analyzeDiagram } from '../electrical/analysis';
 import type { Severity } from '../electrical/analysis';
 
-export const RESULTS_SUMMARY_VERSION = 1;
+/**
+ * 2: `losses_W` is the core's wiring loss (`losses.wiring_W`); version 1 also counted a resistive load's
+ * own power and anything else outside batteries and chargers. Summaries stored at version 1 keep their figure.
+ */
+export const RESULTS_SUMMARY_VERSION = 2;
 
 export interface RevisionResultsSummary extends ResultsSummary {
   summaryVersion: number;
@@ -52,15 +56,14 @@ export function summarizeResults(doc: DiagramDocument): RevisionResultsSummary {
   for (const f of Object.values(op.parts)) {
     if ((f.type === 'dc_load' || f.type === 'inverter') && f.voltage_V !== undefined && (!worst || f.voltage_V < worst.voltage_V)) worst = { voltage_V: f.voltage_V, drop_pct: f.drop_pct };
   }
-  // Wiring losses only: cables, busbars, fuses, joints; not inside batteries or chargers.
-  const { battery: _battery, charger: _charger, ...wiring } = op.losses.byKind;
   return {
     ...base,
     status: 'solved',
     batteries,
     imbalance_pct: r6(op.imbalance_pct),
     ...(worst ? { loadVoltage_V: r6(worst.voltage_V), ...(worst.drop_pct !== undefined ? { drop_pct: r6(worst.drop_pct) } : {}) } : {}),
-    losses_W: r6(Object.values(wiring).reduce((a: number, b) => a + (b ?? 0), 0)),
+    // The wiring loss as the core defines it (conductors, joints, fuses, busbars, switches, shunts).
+    losses_W: r6(op.losses.wiring_W),
     issues: result.notes,
   };
 }

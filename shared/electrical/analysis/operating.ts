@@ -31,6 +31,11 @@ function lossKind(role: string | undefined, kind: string): LossKind {
   }
 }
 
+/** The wiring loss: conductors, lug joints, fuses, busbars, switches and shunts — not batteries, chargers or loads. */
+export function wiringLoss_W(k: Record<LossKind, number>): number {
+  return k.cable + k.lug + k.fuse + k.busbar + k.switch + k.shunt;
+}
+
 /** Finite or zero: results never carry NaN. */
 const fin = (x: number) => (Number.isFinite(x) ? x : 0);
 
@@ -76,6 +81,8 @@ export function operatingPoint(ctx: AnalysisContext, sol: SolveResult): Operatin
     if (!(el.id in I)) continue;
     const w = loss[el.id] ?? 0;
     elements[el.id] = { current_A: I[el.id], loss_W: w };
+    // A load's own power is the work it does, not a loss (a resistive load's element reports it as one).
+    if (ctx.loadElements.has(el.id)) continue;
     byKind[lossKind(el.role, el.kind)] += w;
     total += w;
   }
@@ -196,7 +203,7 @@ export function operatingPoint(ctx: AnalysisContext, sol: SolveResult): Operatin
     parts,
     cables,
     elements,
-    losses: { total_W: total, byKind },
+    losses: { total_W: total, wiring_W: wiringLoss_W(byKind), byKind },
     bankCurrent_A: fin(sumIV / vBank),
     imbalance_pct: fin(imbalance_pct),
     referenceVoltage_V,

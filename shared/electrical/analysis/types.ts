@@ -125,7 +125,12 @@ export interface OperatingPoint {
   cables: Record<string, CableFigures>;
   /** Every network element's current and loss (ids as compiled: part id, "<part>/seg1", "<cable>/lugFrom" …). */
   elements: Record<string, { current_A: number; loss_W: number }>;
-  losses: { total_W: number; byKind: Record<LossKind, number> };
+  /**
+   * Losses: `total_W` over every element (a resistive load's own power counts in 'other'), `byKind`, and
+   * `wiring_W` — conductors, lugs, fuses, busbars, switches and shunts: the one figure every screen,
+   * summary and export calls "wiring loss".
+   */
+  losses: { total_W: number; wiring_W: number; byKind: Record<LossKind, number> };
   /** Sum over units of I·V_nom / V_bank: the bank's current, A (positive discharging). */
   bankCurrent_A: number;
   /**

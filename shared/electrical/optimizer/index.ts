@@ -124,7 +124,8 @@ function score(ctx: AnalysisContext, sol: SolveOutcome): { imbalance_pct: number
   const I = sol.element_currents_A;
   const { imbalance_pct } = shareImbalance(ctx, (id) => I[id] ?? 0);
   let losses = 0;
-  for (const w of Object.values(sol.element_losses_W)) losses += w;
+  // Losses in the bank and its wiring; a load's own power is not a loss (as in the operating point).
+  for (const [id, w] of Object.entries(sol.element_losses_W)) if (!ctx.loadElements.has(id)) losses += w;
   const maxCurrent_A = Math.max(0, ...ctx.units.map((u) => Math.abs(I[u.elements[0]] ?? 0)));
   return { imbalance_pct, losses_W: losses, maxCurrent_A };
 }

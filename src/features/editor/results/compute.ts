@@ -216,7 +216,7 @@ function fillFromOperating(doc: DiagramDocument, mode: AnalysisMode, op: Operati
   }
   const k = op.losses.byKind;
   canvas.internalLoss_W = k.battery;
-  canvas.wiringLoss_W = k.cable + k.lug + k.fuse + k.busbar + k.switch + k.shunt;
+  canvas.wiringLoss_W = op.losses.wiring_W;
 }
 
 /** The fault sweep's largest prospective currents per fuse and cable, and each battery's own internal-short current. */
