@@ -30,6 +30,23 @@ export function formatLength(length_m: number, system: UnitSystem, digits?: numb
   return `${fixed(ft, digits ?? 1)} ft`;
 }
 
+/**
+ * A length as the trade writes it on a drawing: metric as `formatLength`; US in feet and whole inches
+ * ("6 ft 7 in", "12 ft"), inches alone below 2 ft ("11.8 in"). For display; input fields keep decimals.
+ */
+export function formatLengthForDrawing(length_m: number, system: UnitSystem): string {
+  if (system === 'metric') return formatLength(length_m, system);
+  const inches = mToIn(length_m);
+  if (Math.abs(inches) < 24) return `${fixed(inches, 1)} in`;
+  let ft = Math.floor(inches / 12);
+  let rest = Math.round(inches - ft * 12);
+  if (rest === 12) {
+    ft += 1;
+    rest = 0;
+  }
+  return rest ? `${ft} ft ${rest} in` : `${ft} ft`;
+}
+
 /** Format a conductor size area as text. */
 export function sizeLabel(c: ConductorSize): string {
   switch (c.system) {

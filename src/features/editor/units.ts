@@ -1,5 +1,5 @@
 /** Display helpers for the editor: figures and the team's unit system (shared/units does the conversions). */
-import { formatArea, formatConductor, formatLength, conductorArea_mm2, parseConductorSize, parseLength, type ConductorSize, type UnitSystem } from '@shared/units';
+import { formatArea, formatConductor, formatLengthForDrawing, conductorArea_mm2, parseConductorSize, parseLength, type ConductorSize, type UnitSystem } from '@shared/units';
 
 export const fmtAmps = (a: number) => `${Math.abs(a) >= 100 ? a.toFixed(0) : a.toFixed(1)} A`;
 export const fmtVolts = (v: number) => `${v.toFixed(2)} V`;
@@ -12,7 +12,7 @@ export function shortConductor(c: ConductorSize, system: UnitSystem): string {
   return c.system === 'mm2' ? formatArea(c.size, 'us').text : formatConductor(c, 'us').text;
 }
 
-export const lengthText = (m: number, system: UnitSystem) => formatLength(m, system);
+export const lengthText = (m: number, system: UnitSystem) => formatLengthForDrawing(m, system);
 
 /** Parse a typed length; a bare number is in the team's unit (m or ft). */
 export const parseLengthInput = (text: string, system: UnitSystem) => parseLength(text, system === 'metric' ? 'm' : 'ft');

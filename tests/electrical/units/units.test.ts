@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import {
   awgArea_mm2, awgAtOrBelow, awgDiameter_m, awgGaugeNumber, cToF, conductorArea_mm2, fToC, formatConductor,
-  formatLength, ftToM, kcmilToMm2, mToFt, mm2ToKcmil, nearestUsSize, parseConductorSize, parseLength,
+  formatLength, formatLengthForDrawing, ftToM, kcmilToMm2, mToFt, mm2ToKcmil, nearestUsSize, parseConductorSize, parseLength,
   parseTemperature,
 } from '../../../shared/units';
 
@@ -140,5 +140,17 @@ describe('formatting for a unit system', () => {
     expect(formatConductor({ system: 'awg', size: '2/0' }, 'us')).toEqual({ text: '2/0 AWG', approximate: false });
     expect(formatConductor({ system: 'awg', size: '2/0' }, 'metric')).toEqual({ text: '67.4 mm² (2/0 AWG)', approximate: false });
     expect(formatConductor({ system: 'mm2', size: 35 }, 'metric').text).toBe('35 mm²');
+  });
+});
+
+describe('lengths on a drawing', () => {
+  it('US lengths in feet and whole inches, inches alone below 2 ft; metric as usual', () => {
+    // 1 in = 25.4 mm exactly (international yard and pound, 1959): 2 m = 78.74 in = 6 ft 6.74 in.
+    expect(formatLengthForDrawing(2, 'us')).toBe('6 ft 7 in');
+    expect(formatLengthForDrawing(3.6576, 'us')).toBe('12 ft'); // 144 in
+    expect(formatLengthForDrawing(0.3, 'us')).toBe('11.8 in');
+    expect(formatLengthForDrawing(0.6096, 'us')).toBe('2 ft'); // 24 in
+    expect(formatLengthForDrawing(0.3048 * 3 - 0.001, 'us')).toBe('3 ft'); // 35.96 in rounds up to 3 ft 0 in
+    expect(formatLengthForDrawing(2, 'metric')).toBe('2.00 m');
   });
 });
