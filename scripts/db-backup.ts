@@ -7,7 +7,7 @@
  * With DATABASE_URL set there is nothing to do here: use pg_dump on that server.
  */
 import path from 'node:path';
-import { BackupError, backupDataDir, backupFileName } from './lib/pglite-backup';
+import { BackupError, backupDataDir, backupFileName } from '../server/db/pglite-backup';
 
 function usage(): never {
   process.stderr.write('usage: npm run db:backup [-- --out FILE]   (DATA_DIR selects the data directory, default ./data)\n');

@@ -7,7 +7,7 @@
  * rows counted before the command reports success. Refuses while a server owns DATA_DIR.
  */
 import path from 'node:path';
-import { BackupError, restoreBackup } from './lib/pglite-backup';
+import { BackupError, restoreBackup } from '../server/db/pglite-backup';
 
 function usage(): never {
   process.stderr.write('usage: npm run db:restore -- FILE [--force]   (DATA_DIR selects the target, default ./data)\n');

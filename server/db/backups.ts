@@ -1,10 +1,10 @@
 /**
  * Scheduled backups inside the server process (PGlite only): every `intervalMinutes` a snapshot through
- * scripts/lib/pglite-backup.ts (CHECKPOINT, PGlite's data-dir tarball, temp file + fsync + rename, the
+ * server/db/pglite-backup.ts (CHECKPOINT, PGlite's data-dir tarball, temp file + fsync + rename, the
  * newest `keep` files kept). The timer lives here so the server can stop it on shutdown and wait for a
  * backup in progress to finish before the database closes under it.
  */
-import { startScheduledBackups, type PgliteLike, type SnapshotInfo } from '../../scripts/lib/pglite-backup';
+import { startScheduledBackups, type PgliteLike, type SnapshotInfo } from './pglite-backup';
 
 export interface BackupSchedule {
   intervalMinutes: number;

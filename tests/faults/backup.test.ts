@@ -1,5 +1,5 @@
 /**
- * Embedded-database backup and restore (scripts/lib/pglite-backup.ts, npm run db:backup / db:restore):
+ * Embedded-database backup and restore (server/db/pglite-backup.ts, npm run db:backup / db:restore):
  * round trips on temporary data dirs, refusal while another process owns the data dir, refusal to
  * overwrite, and the scheduled backups the server process can run on its own live database.
  */
@@ -16,7 +16,7 @@ import { seedDemo } from '../../server/db/demo-data';
 import { LOCK_FILE } from '../../server/db/lock';
 import {
   BackupError, backupDataDir, backupFileName, pruneBackups, restoreBackup, scheduledBackupConfig, startScheduledBackups,
-} from '../../scripts/lib/pglite-backup';
+} from '../../server/db/pglite-backup';
 
 const temps: string[] = [];
 function tempDir(): string {

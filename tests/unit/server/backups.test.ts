@@ -8,7 +8,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
 import { PGlite } from '@electric-sql/pglite';
-import { restoreBackup } from '../../../scripts/lib/pglite-backup';
+import { restoreBackup } from '../../../server/db/pglite-backup';
 import { scheduleBackups } from '../../../server/db/backups';
 
 const dirs: string[] = [];

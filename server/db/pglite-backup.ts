@@ -16,7 +16,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { PGlite } from '@electric-sql/pglite';
-import { acquireDataDirLock, DataDirLockedError } from '../../server/db/lock';
+import { acquireDataDirLock, DataDirLockedError } from './lock';
 
 /** The PGlite directory inside DATA_DIR (server/db/client.ts `openPglite`). */
 export const pgliteDir = (dataDir: string) => path.join(dataDir, 'pglite');
