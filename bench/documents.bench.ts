@@ -6,7 +6,7 @@
  */
 import { billOfMaterials } from '../shared/diagram/bom';
 import { diffDiagrams } from '../shared/diagram/diff';
-import { type DiagramDocument, diagramSchema } from '../shared/diagram/schema';
+import { type DiagramDocument, diagramSchema } from '../shared/electrical/document/schema';
 import { busbarBankTemplate } from '../shared/diagram/templates';
 import type { BenchCase } from './registry';
 

@@ -3,7 +3,7 @@
  * diagram templates (shared/diagram/templates.ts). They are starting points for the demo, not designs
  * approved to install.
  */
-import { diagramSchema, type DiagramDocument } from '../../shared/diagram/schema';
+import { diagramSchema, type DiagramDocument } from '../../shared/electrical/document/schema';
 import { busbarBankTemplate, postToPostTemplate, seriesParallelTemplate } from '../../shared/diagram/templates';
 import { batteryDefaults } from '../../shared/electrical/parts/battery';
 

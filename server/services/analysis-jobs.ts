@@ -6,7 +6,7 @@
  * This module imports the whole electrical core; the request thread loads it only if the workers cannot
  * start (the pool imports it lazily), so the HTTP listener comes up without it.
  */
-import { diagramSchema, type DiagramDocument } from '../../shared/diagram/schema';
+import { diagramSchema, type DiagramDocument } from '../../shared/electrical/document/schema';
 import { compileDiagram } from '../../shared/electrical/compile';
 import { analyzeDiagram, type AnalysisMode, type FaultSelection } from '../../shared/electrical/analysis';
 import { summarizeResults, RESULTS_SUMMARY_VERSION, type RevisionResultsSummary } from './results-summary';

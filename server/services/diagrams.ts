@@ -6,7 +6,7 @@
  */
 import { and, eq, sql } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
-import { emptyDiagram, type DiagramAnnotation, type DiagramDocument } from '../../shared/diagram/schema';
+import { emptyDiagram, type DiagramAnnotation, type DiagramDocument } from '../../shared/electrical/document/schema';
 import { parseAnnotations } from '../../shared/diagram/annotations';
 import type { Db, DbOrTx } from '../db/client';
 import { activity, diagrams, projects, users } from '../db/schema';

@@ -7,7 +7,7 @@
 import { and, asc, eq, inArray, isNull, ne } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import { can, type Role } from '../../shared/roles';
-import type { DiagramDocument } from '../../shared/diagram/schema';
+import type { DiagramDocument } from '../../shared/electrical/document/schema';
 import type { ReviewDecision } from '../../shared/schemas/reviews';
 import type { Db, DbOrTx } from '../db/client';
 import { activity, diagramRevisions, memberships, reviewComments, reviewDecisions, reviewRequests, users } from '../db/schema';

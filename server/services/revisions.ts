@@ -6,7 +6,7 @@
  */
 import { and, desc, eq, sql } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
-import type { DiagramDocument } from '../../shared/diagram/schema';
+import type { DiagramDocument } from '../../shared/electrical/document/schema';
 import type { Db, DbOrTx } from '../db/client';
 import { diagramRevisions, diagrams, reviewDecisions, reviewRequests, users } from '../db/schema';
 import { conflict, notFound } from '../http/errors';

@@ -3,7 +3,7 @@
  * never blocks the server's request thread: its results summary, and for a save the whole preparation
  * (schema validation, summary, content hash, JSON text).
  */
-import type { DiagramDocument } from '../../shared/diagram/schema';
+import type { DiagramDocument } from '../../shared/electrical/document/schema';
 import type { FieldErrors } from '../../shared/schemas/errors';
 import type { RevisionResultsSummary } from './results-summary';
 import { analysisPool, type AnalysisPool } from './analysis-pool';

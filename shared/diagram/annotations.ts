@@ -19,7 +19,7 @@
  */
 import { z } from 'zod';
 import { jsonPath, type DiagramIssue } from './parse';
-import { DIAGRAM_LIMITS, idSchema, positionSchema, type DiagramAnnotation } from './schema';
+import { DIAGRAM_LIMITS, idSchema, positionSchema, type DiagramAnnotation } from '../electrical/document/schema';
 
 export const ANNOTATION_LIMITS = {
   maxTextLength: 500,

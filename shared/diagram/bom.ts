@@ -22,7 +22,7 @@ import { type BatteryProps, busbarArea_mm2, PART_TYPES, stringMembers } from '..
 import type { ConductorSize } from '../units/conductor';
 import { type UnitSystem, formatConductor } from '../units/format';
 import { mToFt, mToIn } from '../units/length';
-import type { DiagramDocument, DiagramPart } from './schema';
+import type { DiagramDocument, DiagramPart } from '../electrical/document/schema';
 
 export const BOM_CATEGORIES = [
   'batteries', 'cables', 'lugs', 'fuses', 'fuse_holders', 'busbars', 'switches', 'shunts', 'chargers', 'inverters',

@@ -23,7 +23,7 @@ import { FUSE_CLASSES, type FuseClassId } from '../electrical/tables/fuses';
 import type { ConductorSize } from '../units/conductor';
 import { type UnitSystem, formatArea, formatConductor, formatLength, formatTemperature } from '../units/format';
 import { mToIn } from '../units/length';
-import type { DiagramAnnotation, DiagramCable, DiagramDocument, DiagramPart, TerminalRef } from './schema';
+import type { DiagramAnnotation, DiagramCable, DiagramDocument, DiagramPart, TerminalRef } from '../electrical/document/schema';
 
 export interface FieldChange {
   /** Dotted path from the part, cable, annotation or document root, e.g. "props.capacity_Ah", "settings.ambient_C". */

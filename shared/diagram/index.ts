@@ -1,3 +1,3 @@
-export * from './schema';
+export * from '../electrical/document/schema';
 export * from './parse';
 export * from './templates';

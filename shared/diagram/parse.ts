@@ -1,6 +1,6 @@
 /** Read an untrusted diagram document: migrate older versions, validate, report errors with JSON paths. */
 import type { z } from 'zod';
-import { DIAGRAM_FORMAT_VERSION, type DiagramDocument, diagramSchema } from './schema';
+import { DIAGRAM_FORMAT_VERSION, type DiagramDocument, diagramSchema } from '../electrical/document/schema';
 
 export interface DiagramIssue {
   /** JSON path of the offending value, e.g. "$.parts[3].props.capacity_Ah". */

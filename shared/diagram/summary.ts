@@ -9,7 +9,7 @@
  * These are design-check figures, not an approval to install.
  */
 import type { ResultsSummary } from './diff';
-import type { DiagramDocument } from './schema';
+import type { DiagramDocument } from '../electrical/document/schema';
 import { analyzeDiagram } from '../electrical/analysis';
 import type { Severity } from '../electrical/analysis';
 

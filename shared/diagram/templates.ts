@@ -14,7 +14,7 @@ import type { ConductorSize } from '../units/conductor';
 import {
   DIAGRAM_FORMAT_VERSION, type DiagramCable, type DiagramDocument, type DiagramDocumentInput, type DiagramPart,
   diagramSchema,
-} from './schema';
+} from '../electrical/document/schema';
 
 const PITCH = 200; // canvas units between neighbouring batteries
 

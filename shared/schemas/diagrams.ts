@@ -1,6 +1,6 @@
-/** API bodies for diagrams, their working copy and their revisions. The document itself is shared/diagram/schema.ts. */
+/** API bodies for diagrams, their working copy and their revisions. The document itself is shared/electrical/document/schema.ts. */
 import { z } from 'zod';
-import { diagramSchema } from '../diagram/schema';
+import { diagramSchema } from '../electrical/document/schema';
 
 const name = z.string().trim().min(1, 'Diagram name is required').max(120, 'Diagram name is too long');
 const description = z.string().trim().max(2000, 'Description is too long');

@@ -1,6 +1,6 @@
 /** Diagram documents for the check-route tests (not a test file itself). */
 import { seriesParallelTemplate } from '../../shared/diagram/templates';
-import type { DiagramDocument } from '../../shared/diagram/schema';
+import type { DiagramDocument } from '../../shared/electrical/document/schema';
 
 /** 63 strings of 40 batteries in series on busbars: a 5,360-element network (as compileDiagram counts it). */
 export function bigBank(): DiagramDocument {

@@ -73,7 +73,7 @@ describe('POST /api/projects/:id/diagrams', () => {
     const sparse = { ...rest, settings: { systemVoltage_V: settings.systemVoltage_V } };
     const res = await designer.post(`/api/projects/${stationId}/diagrams`).send({ name: 'Sparse settings', content: sparse });
     expect(res.status).toBe(201);
-    // settingsSchema defaults (shared/diagram/schema.ts): 3 % drop limit, 1.25 design margin.
+    // settingsSchema defaults (shared/electrical/document/schema.ts): 3 % drop limit, 1.25 design margin.
     expect(res.body.diagram.content.settings).toMatchObject({ systemVoltage_V: settings.systemVoltage_V, voltageDropLimit_pct: 3, designMargin: 1.25 });
   });
 

@@ -1,6 +1,6 @@
 /** Diagram documents for the integration tests (not a test file itself). */
 import { postToPostTemplate } from '../../shared/diagram/templates';
-import type { DiagramDocument } from '../../shared/diagram/schema';
+import type { DiagramDocument } from '../../shared/electrical/document/schema';
 
 export function smallBank(name = 'Two-battery test bank'): DiagramDocument {
   return postToPostTemplate({ count: 2, takeOff: 'diagonal', name });

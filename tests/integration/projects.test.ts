@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { count, eq } from 'drizzle-orm';
 import { activity, diagrams, projects } from '../../server/db/schema';
 import { newId } from '../../server/ids';
-import { diagramSchema } from '../../shared/diagram/schema';
+import { diagramSchema } from '../../shared/electrical/document/schema';
 import { makeTestApp, type Agent, type TestApp } from '../helpers/app';
 
 let t: TestApp;

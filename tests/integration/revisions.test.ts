@@ -2,7 +2,7 @@ import { createHash } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { and, count, eq } from 'drizzle-orm';
 import { activity, diagramRevisions, diagrams } from '../../server/db/schema';
-import { diagramSchema, type DiagramDocument } from '../../shared/diagram/schema';
+import { diagramSchema, type DiagramDocument } from '../../shared/electrical/document/schema';
 import { resultsSummarySchema } from '../../shared/diagram/diff';
 import { makeTestApp, type Agent, type TestApp } from '../helpers/app';
 import { partLimitBank, smallBank } from './fixtures';

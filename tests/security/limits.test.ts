@@ -8,7 +8,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { count } from 'drizzle-orm';
 import { diagrams, uploads } from '../../server/db/schema';
-import { DIAGRAM_LIMITS, emptyDiagram } from '../../shared/diagram/schema';
+import { DIAGRAM_LIMITS, emptyDiagram } from '../../shared/electrical/document/schema';
 import { busbarBankTemplate } from '../../shared/diagram/templates';
 import fs from 'node:fs';
 import os from 'node:os';

@@ -17,7 +17,7 @@
  * diagram stops it, with the shorting conductors and the prospective current through them (`shorts`,
  * `shortCircuit`). See partial.ts.
  */
-import type { DiagramDocument } from '../../diagram/schema';
+import type { DiagramDocument } from '../document/schema';
 import { prepareNetwork, solvePrepared, type PreparedNetwork } from '../network/fast';
 import type { SolveOutcome } from '../network/types';
 import { RULES } from '../rules/rules';

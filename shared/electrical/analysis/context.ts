@@ -3,13 +3,13 @@
  * element belongs to which part, the bank's units and their nominal figures, cable ampacities, and the
  * sub-networks of each mode (loads on / chargers on / neither). Built once per `analyzeDiagram` call.
  */
-import type { DiagramDocument } from '../../diagram/schema';
+import type { DiagramDocument } from '../document/schema';
 import { type CompileIssue, type CompileMap, compileDiagram } from '../compile/compile';
 import type { Network, NetworkElement } from '../network/types';
 import { batteryMaxContinuous_A, batteryOcv_V, stringMembers, type BatteryProps } from '../parts/battery';
 import { type AmpacityDerating, ampacity } from '../tables/ampacity';
 import type { CableRunProps } from '../parts/cable';
-import type { DiagramSettings } from '../../diagram/schema';
+import type { DiagramSettings } from '../document/schema';
 import { type DiagramTopology, type SourcePart, diagramTopology, ownFuses } from './topology';
 import type { AnalysisIssue } from './types';
 

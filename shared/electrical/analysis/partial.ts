@@ -9,7 +9,7 @@
  * Any other structural error (no source, reversed strings of unequal voltage, a separate circuit, an
  * invalid value) stops the analysis as before.
  */
-import type { DiagramDocument } from '../../diagram/schema';
+import type { DiagramDocument } from '../document/schema';
 import { type CompileErrorCode, LOOSE_CODES, SHORT_CODES } from '../compile/compile';
 import { type ConnectedRemainder, connectedRemainder } from '../compile/remainder';
 import { type AnalysisContext, buildContext } from './context';

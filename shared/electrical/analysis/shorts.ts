@@ -10,7 +10,7 @@
  * the nodal solution is I = V_oc / (R_internal + R_path) (first principles); with batteries in parallel
  * the others feed the short through their own paths too.
  */
-import type { DiagramDocument } from '../../diagram/schema';
+import type { DiagramDocument } from '../document/schema';
 import { compileWithShorts, terminalWord } from '../compile/compile';
 import { solveNetworkFast } from '../network/fast';
 import type { Network, SolveOutcome } from '../network/types';

@@ -3,7 +3,7 @@
  * branch (the run of cables and in-line parts from its post to the first junction), the main leads of
  * each load, post-to-post chains and the batteries on each busbar. Pure functions on the document.
  */
-import type { DiagramCable, DiagramDocument, DiagramPart, DiagramPartOf } from '../../diagram/schema';
+import type { DiagramCable, DiagramDocument, DiagramPart, DiagramPartOf } from '../document/schema';
 
 export type TerminalKey = string;
 export const terminalKey = (part: string, terminal: string): TerminalKey => `${part}.${terminal}`;

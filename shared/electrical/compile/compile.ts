@@ -10,7 +10,7 @@
  * (busbar "<id>/seg1"…, string "<id>/b1"…, "<id>/j1"…). A cable's conductor uses the cable id, its lug
  * joints "<cableId>/lugFrom" and "<cableId>/lugTo".
  */
-import type { DiagramDocument, DiagramPart } from '../../diagram/schema';
+import type { DiagramDocument, DiagramPart } from '../document/schema';
 import type { Network, NetworkElement } from '../network/types';
 import { type CableRunProps, cableRunConductorResistance_ohm, cableTemperature_C } from '../parts/cable';
 import { PART_TYPES, type PartDefinition } from '../parts/registry';

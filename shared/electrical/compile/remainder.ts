@@ -15,7 +15,7 @@
  * The remainder's cables can keep an end on a part that was left out: that end is a joint of cables only
  * (the compiler names the node after the part's terminal, the topology finds no part there).
  */
-import type { DiagramCable, DiagramDocument, DiagramPart } from '../../diagram/schema';
+import type { DiagramCable, DiagramDocument, DiagramPart } from '../document/schema';
 import { PART_TYPES, type PartDefinition } from '../parts/registry';
 import { UnionFind } from './union-find';
 

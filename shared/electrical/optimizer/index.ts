@@ -16,7 +16,7 @@
  * is the best and the explanation says so. `applyTakeoff` returns the document with a choice applied,
  * for the editor to preview and apply. Not an approval to install.
  */
-import { type DiagramDocument, diagramSchema } from '../../diagram/schema';
+import { type DiagramDocument, diagramSchema } from '../document/schema';
 import { type AnalysisContext, buildContext, modeNetwork } from '../analysis/context';
 import { shareImbalance } from '../analysis/operating';
 import { branchesToBusbar, postToPostChains } from '../analysis/topology';

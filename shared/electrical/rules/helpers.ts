@@ -1,6 +1,6 @@
 /** Small helpers the rule checks share: number formats for messages, part names, the bank's batteries. */
 import { stringMembers, type BatteryProps } from '../parts/battery';
-import type { DiagramPart } from '../../diagram/schema';
+import type { DiagramPart } from '../document/schema';
 import { PART_TYPES } from '../parts/registry';
 import type { RuleInput } from './registry';
 

@@ -4,8 +4,8 @@
  * batteries' continuous limits, and cable runs too short to be real. Findings are design observations,
  * never an approval to install.
  */
-import type { DiagramPart } from '../../diagram/schema';
-import { terminalsOf } from '../../diagram/schema';
+import type { DiagramPart } from '../document/schema';
+import { terminalsOf } from '../document/schema';
 import { bankChargeVoltage as chargeVoltageOf } from '../analysis/bank';
 import { ownFuses, terminalKey } from '../analysis/topology';
 import type { Finding } from '../analysis/types';

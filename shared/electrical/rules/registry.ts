@@ -18,7 +18,7 @@
  *    (tests/electrical/rules/), and its row in docs/rules.md (a test checks every rule has one).
  * A finding is a design observation, never an approval to install.
  */
-import type { DiagramDocument, RuleSet } from '../../diagram/schema';
+import type { DiagramDocument, RuleSet } from '../document/schema';
 import type { AnalysisContext } from '../analysis/context';
 import type { DiagramTopology } from '../analysis/topology';
 import type { AnalysisIssue, FaultSweep, Finding, OperatingPoint, Severity } from '../analysis/types';

@@ -8,7 +8,7 @@
  * that unit's current. An existing own fuse is re-rated (or re-classed), and branch cables take the
  * suggested conductor.
  */
-import { type DiagramDocument, diagramSchema } from '../../diagram/schema';
+import { type DiagramDocument, diagramSchema } from '../document/schema';
 import { cableRunDefaults } from '../parts/cable';
 import { type FuseProps, fuseDefaults } from '../parts/passive';
 import { POST_LINK_LENGTH_M, type BranchSizing } from './suggest';

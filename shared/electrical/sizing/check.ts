@@ -6,7 +6,7 @@
  * comparison is also the preview the user sees: each unit's share, each changed part's loading, the
  * findings that appear and disappear.
  */
-import type { DiagramDocument } from '../../diagram/schema';
+import type { DiagramDocument } from '../document/schema';
 import { analyzeDiagram } from '../analysis/analyze';
 import type { AnalysisResult, Finding } from '../analysis/types';
 

@@ -3,7 +3,7 @@
  * and all together (check.ts). When applying them all is not safe, the largest safe set found by adding
  * them one at a time in bank order is offered instead, with the reason each other one was refused.
  */
-import type { DiagramDocument } from '../../diagram/schema';
+import type { DiagramDocument } from '../document/schema';
 import { analyzeDiagram } from '../analysis/analyze';
 import { applySizing } from './apply';
 import { type DesignCheck, checkChange } from './check';

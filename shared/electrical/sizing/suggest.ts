@@ -19,7 +19,7 @@
  *   within settings.voltageDropLimit_pct. A cable is never made smaller than drawn: a larger cable stays.
  * Suggestions are a starting point for the designer, not an approval to install.
  */
-import { type DiagramCable, type DiagramDocument, type DiagramPart } from '../../diagram/schema';
+import { type DiagramCable, type DiagramDocument, type DiagramPart } from '../document/schema';
 import { type ConductorSize, MM2_SIZES, conductorArea_mm2, usStandardSizes } from '../../units/conductor';
 import type { UnitSystem } from '../../units/format';
 import { sizeLabel } from '../../units/format';

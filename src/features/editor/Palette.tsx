@@ -9,7 +9,7 @@ import { useParams } from 'react-router';
 import { QueryClientContext, useQuery } from '@tanstack/react-query';
 import { useReactFlow } from '@xyflow/react';
 import { defaultPartProps, PART_TYPES, type PartType } from '@shared/electrical/parts';
-import type { DiagramPart } from '@shared/diagram/schema';
+import type { DiagramPart } from '@shared/electrical/document/schema';
 import type { LibraryRecord } from '@shared/schemas/library';
 import { PaletteGlyph } from './canvas/symbols';
 import { PART_DRAG_MIME } from './canvas/Canvas';

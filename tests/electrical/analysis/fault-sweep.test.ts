@@ -2,7 +2,7 @@
 // network (loads and chargers disconnected) by the mathjs reference path.
 import { describe, expect, it } from 'vitest';
 import { busbarBankTemplate, postToPostTemplate } from '../../../shared/diagram';
-import type { DiagramDocument } from '../../../shared/diagram/schema';
+import type { DiagramDocument } from '../../../shared/electrical/document/schema';
 import { buildContext, faultSweep, prepareFaults, solveLoadCase } from '../../../shared/electrical/analysis';
 import { analyzeDiagram } from '../../../shared/electrical/analysis/analyze';
 import { applyChanges, solveNetworkReference } from '../../../shared/electrical/network/solve';

@@ -1,6 +1,10 @@
 /**
  * # The diagram document
  *
+ * It lives beside the electrical core because the core reads it (compile, analysis, rules, sizing):
+ * the document sits below the core, and shared/diagram (parse, templates, BOM, diff, summary) builds
+ * on both, so imports run one way — diagram → electrical.
+ *
  * The one format the editor draws, a revision stores and a file carries (docs/file-format.md).
  * JSON, SI units throughout (field names end in their unit: `length_m`, `capacity_Ah`, `ambient_C`).
  *
@@ -28,13 +32,13 @@
  * reports errors with JSON paths.
  */
 import { z } from 'zod';
-import { AMPACITY_TABLE_IDS } from '../electrical/tables/ampacity';
+import { AMPACITY_TABLE_IDS } from '../tables/ampacity';
 import {
   batteryPropsSchema, busbarPropsSchema, cableRunPropsSchema, chargerPropsSchema, dcLoadPropsSchema,
   fusePropsSchema, inverterPropsSchema, lugPropsSchema, notePropsSchema, seriesStringPropsSchema,
   shuntPropsSchema, switchPropsSchema,
-} from '../electrical/parts';
-import { PART_TYPES, type PartType } from '../electrical/parts/registry';
+} from '../parts';
+import { PART_TYPES, type PartType } from '../parts/registry';
 
 export const DIAGRAM_FORMAT_VERSION = 1 as const;
 
