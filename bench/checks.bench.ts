@@ -6,7 +6,7 @@
  * and a discharge run.
  */
 import { busbarBankTemplate, postToPostTemplate } from '../shared/diagram/templates';
-import { analyzeDiagram } from '../shared/electrical/analysis/analyze';
+import { analyzeDiagram } from '../shared/electrical/study/analyze';
 import { buildContext, type AnalysisContext } from '../shared/electrical/analysis/context';
 import { faultSweep, prepareFaults } from '../shared/electrical/analysis/faults';
 import { optimizeTakeoff } from '../shared/electrical/optimizer';

@@ -14,7 +14,7 @@ import { resolve } from 'node:path';
 import { applySafeSizing, sizeDiagram, type SizingWithPlan } from '../shared/electrical/sizing';
 import type { UnitSystem } from '../shared/units/format';
 import { parseDiagram } from '../shared/diagram/parse';
-import { analyzeDiagram } from '../shared/electrical/analysis/analyze';
+import { analyzeDiagram } from '../shared/electrical/study/analyze';
 import type { AnalysisMode, AnalysisResult } from '../shared/electrical/analysis/types';
 
 const MODES: AnalysisMode[] = ['load', 'charge', 'equalize', 'fault', 'discharge'];

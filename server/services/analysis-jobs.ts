@@ -8,7 +8,8 @@
  */
 import { diagramSchema, type DiagramDocument } from '../../shared/electrical/document/schema';
 import { compileDiagram } from '../../shared/electrical/compile';
-import { analyzeDiagram, type AnalysisMode, type FaultSelection } from '../../shared/electrical/analysis';
+import { type AnalysisMode, type FaultSelection } from '../../shared/electrical/analysis';
+import { analyzeDiagram } from '../../shared/electrical/study';
 import { summarizeResults, RESULTS_SUMMARY_VERSION, type RevisionResultsSummary } from './results-summary';
 import { contentHash } from './content-hash';
 

@@ -10,7 +10,7 @@
  */
 import type { ResultsSummary } from './diff';
 import type { DiagramDocument } from '../electrical/document/schema';
-import { analyzeDiagram } from '../electrical/analysis';
+import { analyzeDiagram } from '../electrical/study';
 import type { Severity } from '../electrical/analysis';
 
 /**

@@ -14,5 +14,6 @@ export * from './tables';
 export * from './compile';
 export * from './analysis';
 export * from './rules';
+export * from './study';
 export * from './sizing';
 export * from './optimizer';

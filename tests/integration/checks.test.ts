@@ -9,7 +9,7 @@ import type { AddressInfo } from 'node:net';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { count, eq } from 'drizzle-orm';
-import { analyzeDiagram } from '../../shared/electrical/analysis';
+import { analyzeDiagram } from '../../shared/electrical/study';
 import { compileDiagram } from '../../shared/electrical/compile';
 import { createApp } from '../../server/app';
 import { testConfig } from '../../server/config';

@@ -1,5 +1,4 @@
 export * from './types';
-export { analyzeDiagram, solveLoadCase } from './analyze';
 export { buildContext, cableAmpacity, cableAmpacity_A, modeNetwork, type AnalysisContext, type CableAmpacity, type SourceUnit } from './context';
 export { bankFigures, inverterDcCurrent_A } from './bank';
 export { DEFAULT_FAULT_OHM, faultCases, faultNetwork, faultSweep, prepareFaults } from './faults';

@@ -15,7 +15,7 @@ import { compileWithShorts, terminalWord } from '../compile/compile';
 import { solveNetworkFast } from '../network/fast';
 import type { Network, SolveOutcome } from '../network/types';
 import { PART_TYPES } from '../parts/registry';
-import { amps } from '../rules/rules';
+import { amps } from './format';
 import type { AnalysisIssue, DrawnShort, ShortCircuitFigures } from './types';
 
 export interface ShortStudy {

@@ -4,11 +4,7 @@ import type { DiagramPart } from '../document/schema';
 import { PART_TYPES } from '../parts/registry';
 import type { RuleInput } from './registry';
 
-/** "166.7 A", "1,250 A". */
-export function amps(x: number): string {
-  const a = Math.abs(x);
-  return a >= 1000 ? `${Math.round(x).toLocaleString('en-US')} A` : a >= 100 ? `${x.toFixed(0)} A` : `${x.toFixed(1)} A`;
-}
+export { amps } from '../analysis/format';
 export const volts = (x: number) => `${x.toFixed(2)} V`;
 export const pct = (x: number) => `${x.toFixed(1)} %`;
 /** "300 mm (11.8 in)". */

@@ -7,7 +7,7 @@
  * findings that appear and disappear.
  */
 import type { DiagramDocument } from '../document/schema';
-import { analyzeDiagram } from '../analysis/analyze';
+import { analyzeDiagram } from '../study/analyze';
 import type { AnalysisResult, Finding } from '../analysis/types';
 
 export interface ShareChange {

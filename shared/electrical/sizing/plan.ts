@@ -4,7 +4,7 @@
  * them one at a time in bank order is offered instead, with the reason each other one was refused.
  */
 import type { DiagramDocument } from '../document/schema';
-import { analyzeDiagram } from '../analysis/analyze';
+import { analyzeDiagram } from '../study/analyze';
 import { applySizing } from './apply';
 import { type DesignCheck, checkChange } from './check';
 import { type BranchSizing, type SizingOptions, sizingChanges, suggestSizing } from './suggest';

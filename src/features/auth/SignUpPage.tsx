@@ -29,7 +29,7 @@ export function SignUpPage() {
 
   const server = serverFormErrors(signUp.error);
   const fieldErrors: FieldErrors = { ...server.fieldErrors, ...clientErrors };
-  let formError = server.formError;
+  const formError = server.formError;
 
   function onSubmit(e: FormEvent) {
     e.preventDefault();

@@ -5,7 +5,7 @@
 import '@xyflow/react/dist/style.css';
 import './editor.css';
 import { useCallback, useEffect, useState } from 'react';
-import { Link, useParams } from 'react-router';
+import { useParams } from 'react-router';
 import { useQuery } from '@tanstack/react-query';
 import { ReactFlowProvider } from '@xyflow/react';
 import { can, type Role } from '@shared/roles';

@@ -13,7 +13,6 @@ import { ReactFlowProvider, useNodesInitialized, useReactFlow } from '@xyflow/re
 import { billOfMaterials } from '@shared/diagram/bom';
 import { localizeUnitsInText } from '@shared/units';
 import { PART_TYPES } from '@shared/electrical/parts';
-import type { UnitSystem } from '@shared/units';
 import { Button } from '@/components/Button';
 import { Notice } from '@/components/Notice';
 import { SafetyCaution } from '@/components/SafetyCaution';

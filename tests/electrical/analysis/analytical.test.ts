@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { busbarBankTemplate, postToPostTemplate } from '../../../shared/diagram';
-import { analyzeDiagram, inverterDcCurrent_A, type AnalysisOk } from '../../../shared/electrical/analysis';
+import { inverterDcCurrent_A, type AnalysisOk } from '../../../shared/electrical/analysis';
+import { analyzeDiagram } from '../../../shared/electrical/study';
 import { battery, currentLoad, diagram, end, ladder, run, runOhm } from './helpers';
 
 const ok = (r: ReturnType<typeof analyzeDiagram>): AnalysisOk => {

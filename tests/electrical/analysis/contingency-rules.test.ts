@@ -1,7 +1,7 @@
 /** The rules on the N-1 study ('n-minus-one') and on an inverter's surge ('inverter-surge'). */
 import { describe, expect, it } from 'vitest';
 import type { DiagramDocumentInput } from '../../../shared/diagram';
-import { analyzeDiagram } from '../../../shared/electrical/analysis';
+import { analyzeDiagram } from '../../../shared/electrical/study';
 import type { FuseProps, InverterProps } from '../../../shared/electrical/parts';
 import { battery, currentLoad, diagram, end, run } from './helpers';
 

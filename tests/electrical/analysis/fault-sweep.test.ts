@@ -3,8 +3,9 @@
 import { describe, expect, it } from 'vitest';
 import { busbarBankTemplate, postToPostTemplate } from '../../../shared/diagram';
 import type { DiagramDocument } from '../../../shared/electrical/document/schema';
-import { buildContext, faultSweep, prepareFaults, solveLoadCase } from '../../../shared/electrical/analysis';
-import { analyzeDiagram } from '../../../shared/electrical/analysis/analyze';
+import { buildContext, faultSweep, prepareFaults } from '../../../shared/electrical/analysis';
+import { solveLoadCase } from '../../../shared/electrical/study';
+import { analyzeDiagram } from '../../../shared/electrical/study/analyze';
 import { applyChanges, solveNetworkReference } from '../../../shared/electrical/network/solve';
 import { battery, diagram, end, run } from './helpers';
 

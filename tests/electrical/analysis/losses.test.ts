@@ -4,7 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { summarizeResults } from '../../../shared/diagram/summary';
-import { analyzeDiagram } from '../../../shared/electrical/analysis';
+import { analyzeDiagram } from '../../../shared/electrical/study';
 import { battery, diagram, end, run, runOhm } from './helpers';
 
 describe('wiring loss', () => {

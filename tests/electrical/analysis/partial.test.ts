@@ -3,7 +3,8 @@
  * (error findings, so the checks still fail) and left out of the figures.
  */
 import { describe, expect, it } from 'vitest';
-import { analyzeDiagram, type AnalysisOk } from '../../../shared/electrical/analysis';
+import { type AnalysisOk } from '../../../shared/electrical/analysis';
+import { analyzeDiagram } from '../../../shared/electrical/study';
 import { battery, currentLoad, diagram, end, ladder, run, runOhm } from './helpers';
 
 const ok = (r: ReturnType<typeof analyzeDiagram>): AnalysisOk => {

@@ -1,7 +1,8 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { type DiagramDocument, busbarBankTemplate, postToPostTemplate, seriesParallelTemplate } from '../../../shared/diagram';
-import { analyzeDiagram, buildContext } from '../../../shared/electrical/analysis';
+import { buildContext } from '../../../shared/electrical/analysis';
+import { analyzeDiagram } from '../../../shared/electrical/study';
 
 const template = fc.oneof(
   fc.record({ count: fc.integer({ min: 1, max: 8 }), takeOff: fc.constantFrom('same-end' as const, 'diagonal' as const), power: fc.integer({ min: 100, max: 3000 }) })

@@ -3,7 +3,8 @@
  * through them, solved with the conductors' real resistances.
  */
 import { describe, expect, it } from 'vitest';
-import { analyzeDiagram, type AnalysisResult } from '../../../shared/electrical/analysis';
+import { type AnalysisResult } from '../../../shared/electrical/analysis';
+import { analyzeDiagram } from '../../../shared/electrical/study';
 import { busbarBankTemplate } from '../../../shared/diagram';
 import { type CableRunProps, fuseDefaults } from '../../../shared/electrical/parts';
 import { battery, currentLoad, diagram, end, ladder, run, runOhm } from './helpers';

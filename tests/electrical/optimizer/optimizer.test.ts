@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { busbarBankTemplate, postToPostTemplate } from '../../../shared/diagram';
-import { analyzeDiagram } from '../../../shared/electrical/analysis';
+import { analyzeDiagram } from '../../../shared/electrical/study';
 import { applyTakeoff, optimizeTakeoff, rankLayouts, takeoffVerdict, type RankedLayout } from '../../../shared/electrical/optimizer';
 
 describe('take-off optimizer', () => {

@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { type DiagramDocument, busbarBankTemplate, diagramSchema, seriesParallelTemplate } from '../../../shared/diagram';
-import { analyzeDiagram } from '../../../shared/electrical/analysis';
+import { analyzeDiagram } from '../../../shared/electrical/study';
 import { batteryDefaults, chargerDefaults, fuseDefaults, switchDefaults } from '../../../shared/electrical/parts';
 import { battery, currentLoad, diagram, end, run } from '../analysis/helpers';
 

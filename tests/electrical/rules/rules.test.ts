@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { type DiagramDocument, busbarBankTemplate, postToPostTemplate } from '../../../shared/diagram';
-import { analyzeDiagram } from '../../../shared/electrical/analysis';
+import { analyzeDiagram } from '../../../shared/electrical/study';
 import { batteryDefaults, fuseDefaults, switchDefaults } from '../../../shared/electrical/parts';
 import { RULES } from '../../../shared/electrical/rules';
 import { battery, currentLoad, diagram, end, ladder, run } from '../analysis/helpers';

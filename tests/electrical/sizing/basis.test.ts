@@ -5,7 +5,8 @@
  */
 import { describe, expect, it } from 'vitest';
 import { postToPostTemplate } from '../../../shared/diagram';
-import { analyzeDiagram, buildContext } from '../../../shared/electrical/analysis';
+import { buildContext } from '../../../shared/electrical/analysis';
+import { analyzeDiagram } from '../../../shared/electrical/study';
 import { fuseDefaults } from '../../../shared/electrical/parts';
 import { FUSE_CLASSES } from '../../../shared/electrical/tables/fuses';
 import { MM2_SIZES } from '../../../shared/units/conductor';

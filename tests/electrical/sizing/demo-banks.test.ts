@@ -5,7 +5,7 @@
 import { describe, expect, it } from 'vitest';
 import { demoDiagramContents, demoHouseBankContent, demoRevisionContents } from '../../../server/db/demo-diagrams';
 import { busbarBankTemplate, postToPostTemplate, seriesParallelTemplate, type DiagramDocument } from '../../../shared/diagram';
-import { analyzeDiagram } from '../../../shared/electrical/analysis';
+import { analyzeDiagram } from '../../../shared/electrical/study';
 import { applySafeSizing, sizeDiagram } from '../../../shared/electrical/sizing';
 
 const banks: [string, DiagramDocument][] = [

@@ -13,7 +13,8 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { busbarBankTemplate, postToPostTemplate, seriesParallelTemplate } from '../../../shared/diagram';
 import type { DiagramDocument } from '../../../shared/diagram';
-import { analyzeDiagram, buildContext, type AnalysisResult } from '../../../shared/electrical/analysis';
+import { buildContext, type AnalysisResult } from '../../../shared/electrical/analysis';
+import { analyzeDiagram } from '../../../shared/electrical/study';
 import { batteryDefaults, inverterDefaults } from '../../../shared/electrical/parts';
 import { applySafeSizing, sizeDiagram } from '../../../shared/electrical/sizing';
 

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { busbarBankTemplate } from '../../../shared/diagram';
-import { analyzeDiagram } from '../../../shared/electrical/analysis';
+import { analyzeDiagram } from '../../../shared/electrical/study';
 import { fuseDefaults } from '../../../shared/electrical/parts';
 import { applySizing, suggestSizing } from '../../../shared/electrical/sizing';
 import { battery, currentLoad, diagram, end } from '../analysis/helpers';

@@ -4,7 +4,7 @@ import { parseDiagram, postToPostTemplate } from '../../../shared/diagram';
 import {
   drawableAnnotations, nextStepNumber, parseAnnotations, pruneDanglingReferences, stepsInOrder,
 } from '../../../shared/diagram/annotations';
-import { analyzeDiagram } from '../../../shared/electrical/analysis';
+import { analyzeDiagram } from '../../../shared/electrical/study';
 import { billOfMaterials } from '../../../shared/diagram/bom';
 
 const parts = new Set(['bat1', 'bat2', 'f1']);

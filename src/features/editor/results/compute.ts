@@ -26,7 +26,8 @@
  * last figures, greyed, on the page (stale.ts).
  */
 import type { DiagramDocument } from '@shared/diagram';
-import { analyzeDiagram, type AnalysisMode, type AnalysisResult, type OperatingPoint } from '@shared/electrical/analysis';
+import { type AnalysisMode, type AnalysisResult, type OperatingPoint } from '@shared/electrical/analysis';
+import { analyzeDiagram } from '@shared/electrical/study';
 import { itemName } from '@shared/electrical/analysis/shorts';
 import { fmtAmps } from '../units';
 import type { AnalysisOptions } from '../store';

@@ -15,23 +15,26 @@
  * Parts that are not connected do not stop it: the connected remainder is analysed and the result names
  * what was left out (`notConnected`), each loose part keeping an error finding. A short drawn in the
  * diagram stops it, with the shorting conductors and the prospective current through them (`shorts`,
- * `shortCircuit`). See partial.ts.
+ * `shortCircuit`). See analysis/partial.ts.
+ *
+ * It sits above both analysis/ (the solved cases and figures) and rules/ (the checks that read them), so
+ * rules depend on analysis and never the other way round.
  */
 import type { DiagramDocument } from '../document/schema';
 import { prepareNetwork, solvePrepared, type PreparedNetwork } from '../network/fast';
 import type { SolveOutcome } from '../network/types';
 import { RULES } from '../rules/rules';
 import { runRules } from '../rules/registry';
-import { type AnalysisContext, modeNetwork } from './context';
-import { bankFigures } from './bank';
-import { contingencyStudy } from './contingency';
-import { dischargeAnalysis } from './discharge';
-import { DEFAULT_FAULT_OHM, faultSweep, prepareFaults, type PreparedFaults } from './faults';
-import { operatingPoint } from './operating';
-import { buildAround } from './partial';
-import { diagramTopology } from './topology';
-import type { AnalysisIssue, AnalysisOk, AnalysisResult, AnalyzeOptions, Finding, OperatingPoint } from './types';
-import { amps } from '../rules/rules';
+import { type AnalysisContext, modeNetwork } from '../analysis/context';
+import { bankFigures } from '../analysis/bank';
+import { contingencyStudy } from '../analysis/contingency';
+import { dischargeAnalysis } from '../analysis/discharge';
+import { DEFAULT_FAULT_OHM, faultSweep, prepareFaults, type PreparedFaults } from '../analysis/faults';
+import { operatingPoint } from '../analysis/operating';
+import { buildAround } from '../analysis/partial';
+import { diagramTopology } from '../analysis/topology';
+import type { AnalysisIssue, AnalysisOk, AnalysisResult, AnalyzeOptions, Finding, OperatingPoint } from '../analysis/types';
+import { amps } from '../analysis/format';
 
 function solveIssue(ctx: AnalysisContext, sol: Extract<SolveOutcome, { ok: false }>): AnalysisIssue {
   const parts = new Set<string>();
