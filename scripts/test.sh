@@ -15,10 +15,14 @@ if [ ${#need[@]} -gt 0 ]; then
   DEBIAN_FRONTEND=noninteractive $SUDO apt-get install -y -qq "${need[@]}" >/dev/null
 fi
 
-# Types first: a type error anywhere (client, server, shared, tests) fails the run.
+# Types and lint first: a type error in any layer (shared/ without DOM or Node types, server and
+# scripts with Node, the client with DOM, tests with both) or a lint error (layer imports,
+# hooks) fails the run. See docs/decisions/016-lint-and-layers.md.
 if [ $# -eq 0 ]; then
   echo "npm test: typecheck"
-  npx tsc --noEmit -p tsconfig.json
+  npm run --silent typecheck
+  echo "npm test: lint"
+  npm run --silent lint
 fi
 
 # Unit (core + server units), client components, API integration, then the browser suite.
