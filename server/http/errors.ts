@@ -1,7 +1,10 @@
 /** The API's one error shape: {"error":{"code","message","details"}}. */
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import type { z } from 'zod';
-import type { ApiErrorBody, FieldErrors } from '../../shared/schemas/errors';
+import type { ApiErrorBody } from '../../shared/schemas/errors';
+import { DomainError, type DomainErrorKind, fieldErrors } from '../services/errors';
+
+export { fieldErrors };
 
 export class ApiError extends Error {
   constructor(
@@ -20,15 +23,19 @@ export const forbidden = (message = 'Your role in this team does not allow this.
 export const unauthenticated = () => new ApiError(401, 'unauthenticated', 'Sign in to continue.');
 export const conflict = (code: string, message: string, details?: unknown) => new ApiError(409, code, message, details);
 
-/** zod issues -> { "path.to.field": ["message", ...] } ("" for the body as a whole). */
-export function fieldErrors(error: z.ZodError): FieldErrors {
-  const fields: FieldErrors = {};
-  for (const issue of error.issues) {
-    const key = issue.path.map(String).join('.');
-    (fields[key] ??= []).push(issue.message);
-  }
-  return fields;
-}
+/** The one place a service's domain error becomes an HTTP status (server/services/errors.ts). */
+export const DOMAIN_STATUS: Record<DomainErrorKind, number> = {
+  not_found: 404,
+  forbidden: 403,
+  unauthenticated: 401,
+  conflict: 409,
+  invalid: 400,
+  unprocessable: 422,
+  too_large: 413,
+  unsupported: 415,
+  rate_limited: 429,
+  upstream_failed: 502,
+};
 
 export function validationFailed(error: z.ZodError): ApiError {
   return new ApiError(400, 'validation_failed', 'Some fields need attention.', { fields: fieldErrors(error) });
@@ -47,6 +54,13 @@ export const apiNotFound: RequestHandler = (_req, res) => {
 export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
   if (res.headersSent) {
     res.end();
+    return;
+  }
+  if (err instanceof DomainError) {
+    const status = DOMAIN_STATUS[err.kind];
+    if (err.retryAfter_s !== undefined) res.set('Retry-After', String(err.retryAfter_s));
+    if (status >= 500) (res as { err?: unknown }).err = err;
+    send(res, status, { error: { code: err.code, message: err.message, details: err.details } });
     return;
   }
   if (err instanceof ApiError) {

@@ -6,7 +6,7 @@ import { and, eq } from 'drizzle-orm';
 import { can, type Permission, type Role } from '../../shared/roles';
 import type { DbOrTx } from '../db/client';
 import { diagrams, memberships, projects, uploads } from '../db/schema';
-import { forbidden, notFound } from '../http/errors';
+import { forbidden, notFound } from './errors';
 
 export async function membershipRole(db: DbOrTx, userId: string, teamId: string): Promise<Role | null> {
   const [row] = await db

@@ -6,7 +6,7 @@
  */
 import type { CheckMode } from '../../shared/schemas/diagrams';
 import type { FaultSelection } from '../../shared/electrical/analysis/types';
-import { ApiError } from '../http/errors';
+import { invalidFields, tooLarge, unprocessable } from './errors';
 import type { AnalysisPool } from './analysis-pool';
 
 export interface CheckOutcome {
@@ -24,20 +24,19 @@ export async function checkDiagram(
     case 'check':
       return { analysisJson: outcome.json, elements: outcome.elements };
     case 'too_large':
-      throw new ApiError(
-        413,
+      throw tooLarge(
         'network_too_large',
         `This diagram compiles to ${outcome.elements.toLocaleString('en-US')} network elements; the server checks at most ${outcome.limit.toLocaleString('en-US')}. Split the bank into smaller diagrams.`,
         { elements: outcome.elements, limit: outcome.limit },
       );
     case 'invalid': {
       if (input.source === 'working_copy') {
-        throw new ApiError(422, 'invalid_working_copy', 'The saved working copy is not a valid diagram; open it in the editor and save it again, or send content to check.', {
+        throw unprocessable('invalid_working_copy', 'The saved working copy is not a valid diagram; open it in the editor and save it again, or send content to check.', {
           fields: outcome.fields,
         });
       }
       const fields = Object.fromEntries(Object.entries(outcome.fields).map(([k, v]) => [k ? `content.${k}` : 'content', v]));
-      throw new ApiError(400, 'validation_failed', 'Some fields need attention.', { fields });
+      throw invalidFields(fields);
     }
     default:
       throw new Error(`unexpected analysis outcome ${outcome.kind}`);

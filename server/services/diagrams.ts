@@ -10,7 +10,7 @@ import { emptyDiagram, type DiagramAnnotation, type DiagramDocument } from '../.
 import { parseAnnotations } from '../../shared/diagram/annotations';
 import type { Db, DbOrTx } from '../db/client';
 import { activity, diagrams, projects, users } from '../db/schema';
-import { ApiError, conflict, notFound } from '../http/errors';
+import { conflict, invalidFields, notFound } from './errors';
 import { newId } from '../ids';
 import { copyName as copyNameOf } from '../../shared/schemas/diagrams';
 
@@ -164,7 +164,7 @@ export async function saveAnnotations(db: Db, userId: string, diagramId: string,
       else if (seen.has(a.id)) add(`annotations.${i}.id`, `Duplicate id "${a.id}"`);
       seen.add(a.id);
     });
-    if (Object.keys(fields).length) throw new ApiError(400, 'validation_failed', 'Some annotations need attention.', { fields });
+    if (Object.keys(fields).length) throw invalidFields(fields, 'Some annotations need attention.');
     const [saved] = await tx
       .update(diagrams)
       .set({ content: { ...content, annotations }, workingCopyVersion: sql`${diagrams.workingCopyVersion} + 1`, updatedAt: new Date(), updatedBy: userId })
@@ -176,9 +176,7 @@ export async function saveAnnotations(db: Db, userId: string, diagramId: string,
 
 /** The project a diagram moves or is copied to, checked to be in the diagram's own team (400 on projectId otherwise). */
 function otherTeamError() {
-  return new ApiError(400, 'validation_failed', 'Some fields need attention.', {
-    fields: { projectId: ['The project must belong to the same team as the diagram'] },
-  });
+  return invalidFields({ projectId: ['The project must belong to the same team as the diagram'] });
 }
 
 /**
@@ -197,7 +195,7 @@ export async function moveDiagram(db: Db, userId: string, diagramId: string, tar
     if (!row) throw notFound('No such diagram.');
     if (row.teamId !== target.teamId) throw otherTeamError();
     if (row.projectId === target.id) {
-      throw new ApiError(400, 'validation_failed', 'Some fields need attention.', { fields: { projectId: ['The diagram is already in this project'] } });
+      throw invalidFields({ projectId: ['The diagram is already in this project'] });
     }
     // Only the project changes: the working copy's version, time and author stay (a copy kept in a
     // browser is compared with them when the diagram next opens).

@@ -4,7 +4,7 @@ import { ROLE_LABELS } from '../../shared/roles';
 import type { Db } from '../db/client';
 import { invites, memberships, teams, users } from '../db/schema';
 import { newId, newToken, sha256Hex } from '../ids';
-import { ApiError, conflict, forbidden, notFound } from '../http/errors';
+import { conflict, DomainError, forbidden, notFound } from './errors';
 import { escapeHtml, type Mailer } from '../mail/mailer';
 import { getTeam } from './teams';
 import { errorSummary, log } from '../http/logger';
@@ -66,7 +66,7 @@ export async function createInvite(
   } catch (err) {
     await db.delete(invites).where(eq(invites.id, row.id));
     log().error({ event: 'mail.failed', mail: 'invite', err: errorSummary(err) }, 'invite not sent');
-    throw new ApiError(502, 'mail_failed', 'The invitation e-mail could not be sent, so no invite was created. Try again later.');
+    throw new DomainError('upstream_failed', 'mail_failed', 'The invitation e-mail could not be sent, so no invite was created. Try again later.');
   }
   return publicInvite(row);
 }

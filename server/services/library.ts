@@ -11,7 +11,7 @@ import { libraryItemSchema, parseLibraryCsv, type LibraryItem } from '../../shar
 import { LIBRARY_MAX_ITEMS, type ImportMode, type ImportResult, type LibraryRecord, type UpdateLibraryItemInput } from '../../shared/schemas/library';
 import type { Db, DbOrTx } from '../db/client';
 import { libraryItems, users } from '../db/schema';
-import { ApiError, notFound, validationFailed } from '../http/errors';
+import { notFound, unprocessable, validationFailed } from './errors';
 import { newId } from '../ids';
 
 const updater = alias(users, 'library_updater');
@@ -61,7 +61,7 @@ async function assertRoom(tx: DbOrTx, teamId: string, adding: number) {
   if (adding <= 0) return;
   const [{ n }] = await tx.select({ n: count() }).from(libraryItems).where(eq(libraryItems.teamId, teamId));
   if (n + adding > LIBRARY_MAX_ITEMS) {
-    throw new ApiError(422, 'library_full', `A team library holds at most ${LIBRARY_MAX_ITEMS} items; it has ${n}, and this would add ${adding}.`, { limit: LIBRARY_MAX_ITEMS, count: n });
+    throw unprocessable('library_full', `A team library holds at most ${LIBRARY_MAX_ITEMS} items; it has ${n}, and this would add ${adding}.`, { limit: LIBRARY_MAX_ITEMS, count: n });
   }
 }
 
@@ -105,8 +105,7 @@ export async function importLibraryCsv(db: Db, userId: string, teamId: string, c
   const items = parsed.ok ? parsed.items : parsed.validItems;
   const headerBroken = rows.some((r) => r.row === 0);
   if (rows.length && (mode === 'all_or_nothing' || headerBroken || items.length === 0)) {
-    throw new ApiError(
-      422,
+    throw unprocessable(
       'import_failed',
       headerBroken
         ? 'The header row cannot be read, so nothing was imported.'

@@ -11,7 +11,7 @@ import type { DiagramDocument } from '../../shared/electrical/document/schema';
 import type { ReviewDecision } from '../../shared/schemas/reviews';
 import type { Db, DbOrTx } from '../db/client';
 import { activity, diagramRevisions, memberships, reviewComments, reviewDecisions, reviewRequests, users } from '../db/schema';
-import { ApiError, conflict, forbidden, notFound } from '../http/errors';
+import { conflict, forbidden, invalidFields, notFound } from './errors';
 import { newId } from '../ids';
 import type { Mailer } from '../mail/mailer';
 import type { DiagramRow, ProjectRow } from './access';
@@ -29,7 +29,7 @@ const revisionLocked = (n: number) =>
   conflict('revision_approved', `Revision ${n} is approved and locked. Save a new revision to continue editing.`);
 
 function fieldError(field: string, message: string) {
-  return new ApiError(400, 'validation_failed', 'Some fields need attention.', { fields: { [field]: [message] } });
+  return invalidFields({ [field]: [message] });
 }
 
 /** Requested reviewers and decisions of a revision, with its state. */
@@ -94,7 +94,7 @@ export async function requestReview(
     if (!role) fields[`reviewerIds.${i}`] = ['Not a member of this team'];
     else if (!can(role, 'review.decide')) fields[`reviewerIds.${i}`] = ['This member’s role cannot approve or request changes'];
   });
-  if (Object.keys(fields).length > 0) throw new ApiError(400, 'validation_failed', 'Some fields need attention.', { fields });
+  if (Object.keys(fields).length > 0) throw invalidFields(fields);
 
   await db.transaction(async (tx) => {
     await tx

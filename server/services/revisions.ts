@@ -9,7 +9,7 @@ import { alias } from 'drizzle-orm/pg-core';
 import type { DiagramDocument } from '../../shared/electrical/document/schema';
 import type { Db, DbOrTx } from '../db/client';
 import { diagramRevisions, diagrams, reviewDecisions, reviewRequests, users } from '../db/schema';
-import { conflict, notFound } from '../http/errors';
+import { conflict, notFound } from './errors';
 import { newId } from '../ids';
 import { contentHash } from './content-hash';
 import { createDiagram, getDiagram } from './diagrams';

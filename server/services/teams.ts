@@ -4,7 +4,7 @@ import { can } from '../../shared/roles';
 import type { Db, DbOrTx } from '../db/client';
 import { invites, memberships, projects, teams, uploads, users } from '../db/schema';
 import { newId } from '../ids';
-import { conflict, notFound } from '../http/errors';
+import { conflict, notFound } from './errors';
 
 type UnitSystem = 'metric' | 'us';
 

@@ -7,7 +7,7 @@
 import { FileTypeParser, type Detector } from 'file-type';
 import { imageSize } from 'image-size';
 import { UPLOAD_LIMITS, UPLOAD_TYPES, type UploadContentType } from '../../shared/schemas/uploads';
-import { ApiError } from '../http/errors';
+import { DomainError, unprocessable } from './errors';
 
 const startsWith = (b: Uint8Array, magic: number[], at = 0) => magic.every((v, i) => b[at + i] === v);
 
@@ -37,8 +37,8 @@ export interface SniffedFile {
   height: number | null;
 }
 
-function unsupported(detected: string, message: string): ApiError {
-  return new ApiError(415, 'unsupported_type', message, { detected, allowed: Object.keys(UPLOAD_TYPES) });
+function unsupported(detected: string, message: string): DomainError {
+  return new DomainError('unsupported', 'unsupported_type', message, { detected, allowed: Object.keys(UPLOAD_TYPES) });
 }
 
 /** A name for bytes file-type does not know: markup (HTML, SVG, XML) or plain text is worth naming. */
@@ -67,7 +67,7 @@ const IMAGE_SIZE_TYPE: Record<string, UploadContentType> = { jpg: 'image/jpeg', 
  * unsupported_type / 422 image_too_large / 422 invalid_file with a message naming what was found.
  */
 export async function sniffUpload(bytes: Uint8Array): Promise<SniffedFile> {
-  if (bytes.length === 0) throw new ApiError(422, 'invalid_file', 'The file is empty.');
+  if (bytes.length === 0) throw unprocessable('invalid_file', 'The file is empty.');
   const found = await parser.fromBuffer(bytes);
   if (!found) {
     const what = describeUnknown(bytes);
@@ -85,7 +85,7 @@ export async function sniffUpload(bytes: Uint8Array): Promise<SniffedFile> {
   const { ext } = UPLOAD_TYPES[contentType];
 
   if (contentType === 'application/pdf') {
-    if (!looksLikeWholePdf(bytes)) throw new ApiError(422, 'invalid_file', 'The file starts like a PDF but is not a whole PDF (no end-of-file marker). Save or export it again and retry.');
+    if (!looksLikeWholePdf(bytes)) throw unprocessable('invalid_file', 'The file starts like a PDF but is not a whole PDF (no end-of-file marker). Save or export it again and retry.');
     return { contentType, ext, width: null, height: null };
   }
 
@@ -93,16 +93,15 @@ export async function sniffUpload(bytes: Uint8Array): Promise<SniffedFile> {
   try {
     dims = imageSize(bytes);
   } catch {
-    throw new ApiError(422, 'invalid_file', `The ${UPLOAD_TYPES[contentType].label} image header cannot be read; the file may be damaged.`);
+    throw unprocessable('invalid_file', `The ${UPLOAD_TYPES[contentType].label} image header cannot be read; the file may be damaged.`);
   }
   if (!dims.type || IMAGE_SIZE_TYPE[dims.type] !== contentType || !dims.width || !dims.height) {
-    throw new ApiError(422, 'invalid_file', `The ${UPLOAD_TYPES[contentType].label} image header cannot be read; the file may be damaged.`);
+    throw unprocessable('invalid_file', `The ${UPLOAD_TYPES[contentType].label} image header cannot be read; the file may be damaged.`);
   }
   const { width, height } = dims;
   const { maxImageSide, maxImagePixels } = UPLOAD_LIMITS;
   if (width > maxImageSide || height > maxImageSide || width * height > maxImagePixels) {
-    throw new ApiError(
-      422,
+    throw unprocessable(
       'image_too_large',
       `The image claims ${width} × ${height} pixels; photos may be at most ${maxImageSide} pixels a side and ${maxImagePixels / 1e6} megapixels. Scale it down and retry.`,
       { width, height, maxSide: maxImageSide, maxPixels: maxImagePixels },

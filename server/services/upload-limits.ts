@@ -20,7 +20,7 @@ import { RateLimiterMemory, RateLimiterPostgres, RateLimiterRes, type RateLimite
 import type { Config } from '../config';
 import type { Db, DbOrTx } from '../db/client';
 import { projects, teams, uploads } from '../db/schema';
-import { ApiError } from '../http/errors';
+import { DomainError, tooLarge } from './errors';
 
 export const LIMITS_SCHEMA = 'bw_limits';
 export const UPLOAD_RATE_TABLE = 'upload_rate';
@@ -58,14 +58,14 @@ export async function teamUploadBytes(db: DbOrTx, teamId: string): Promise<numbe
   return Number(row?.bytes ?? 0);
 }
 
-export function quotaExceeded(quota: UploadQuotaConfig, usedBytes: number, fileBytes: number | null): ApiError {
+export function quotaExceeded(quota: UploadQuotaConfig, usedBytes: number, fileBytes: number | null): DomainError {
   const limit = formatBytes(quota.teamBytes);
   const used = formatBytes(usedBytes);
   const message =
     fileBytes === null
       ? `Your team's attached files use ${used} of its ${limit} storage quota, so nothing more can be attached. Delete files the team no longer needs, or ask the server's administrator to raise UPLOAD_TEAM_QUOTA_MB.`
       : `This ${formatBytes(fileBytes)} file does not fit in your team's ${limit} storage quota (${used} already used). Delete files the team no longer needs, or ask the server's administrator to raise UPLOAD_TEAM_QUOTA_MB.`;
-  return new ApiError(413, 'quota_exceeded', message, { quotaBytes: quota.teamBytes, usedBytes, ...(fileBytes === null ? {} : { fileBytes }) });
+  return tooLarge('quota_exceeded', message, { quotaBytes: quota.teamBytes, usedBytes, ...(fileBytes === null ? {} : { fileBytes }) });
 }
 
 /** 413 before the body is read when the team has no room left at all. */
@@ -126,12 +126,12 @@ export function createUploadRateLimiter(db: Db, quota: UploadQuotaConfig): Uploa
       } catch (res) {
         if (!(res instanceof RateLimiterRes)) throw res; // a store failure: a server fault, not the user's
         const retryAfter = Math.max(1, Math.ceil(res.msBeforeNext / 1000));
-        throw new ApiError(
-          429,
+        throw new DomainError(
+          'rate_limited',
           'too_many_uploads',
           `You have started ${quota.ratePerUser} uploads in the last ${minutes(quota.rateWindowSeconds)}, the most allowed. Wait ${minutes(retryAfter)} and try again; an administrator can raise UPLOAD_RATE_MAX.`,
           { limit: quota.ratePerUser, windowSeconds: quota.rateWindowSeconds, retryAfterSeconds: retryAfter },
-          { 'Retry-After': String(retryAfter) },
+          retryAfter,
         );
       }
     },

@@ -12,7 +12,7 @@ import { can, type Permission, type Role } from '../../shared/roles';
 import type { UploadRecord } from '../../shared/schemas/uploads';
 import type { Db, DbOrTx } from '../db/client';
 import { activity, uploads, users } from '../db/schema';
-import { forbidden } from '../http/errors';
+import { forbidden } from './errors';
 import { newId } from '../ids';
 import { newStorageKey, type UploadStorage } from '../storage';
 import type { UploadRow } from './access';
