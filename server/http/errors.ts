@@ -35,6 +35,9 @@ export const DOMAIN_STATUS: Record<DomainErrorKind, number> = {
   unsupported: 415,
   rate_limited: 429,
   upstream_failed: 502,
+  unavailable: 503,
+  timeout: 504,
+  failed: 500,
 };
 
 export function validationFailed(error: z.ZodError): ApiError {

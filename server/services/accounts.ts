@@ -4,7 +4,7 @@ import { memberships, teams, users } from '../db/schema';
 import { newId } from '../ids';
 import { hashPassword, verifyDummyPassword, verifyPassword } from '../auth/passwords';
 import type { SignInLimiter } from '../auth/rate-limit';
-import { ApiError, conflict } from '../http/errors';
+import { conflict, DomainError } from './errors';
 import type { Mailer } from '../mail/mailer';
 import { signUpAttemptMail, welcomeMail } from '../mail/account-mail';
 import type { SessionUser } from '../auth/sessions';
@@ -61,23 +61,23 @@ export async function signUp(
   return { user: { id: newId(), email: input.email, name: input.name, createdAt: new Date() }, created: false };
 }
 
-export function tooManySignUps(retryAfter: number): ApiError {
-  return new ApiError(
-    429,
+export function tooManySignUps(retryAfter: number): DomainError {
+  return new DomainError(
+    'rate_limited',
     'too_many_sign_ups',
     `Too many sign-ups from this address. Try again in ${retryAfter} seconds.`,
     { retryAfterSeconds: retryAfter },
-    { 'Retry-After': String(retryAfter) },
+    retryAfter,
   );
 }
 
-function tooManyAttempts(retryAfter: number): ApiError {
-  return new ApiError(
-    429,
+function tooManyAttempts(retryAfter: number): DomainError {
+  return new DomainError(
+    'rate_limited',
     'too_many_attempts',
     `Too many failed sign-in attempts. Try again in ${retryAfter} seconds.`,
     { retryAfterSeconds: retryAfter },
-    { 'Retry-After': String(retryAfter) },
+    retryAfter,
   );
 }
 
@@ -103,7 +103,7 @@ export async function checkCredentials(
   const ok = row ? await verifyPassword(row.passwordHash, input.password) : await verifyDummyPassword(input.password);
   if (!row || !ok) {
     await gate.fail();
-    throw new ApiError(401, 'invalid_credentials', INVALID_CREDENTIALS_MESSAGE);
+    throw new DomainError('unauthenticated', 'invalid_credentials', INVALID_CREDENTIALS_MESSAGE);
   }
   await gate.succeed();
   return { id: row.id, email: row.email, name: row.name, createdAt: row.createdAt, trusted: gate.trusted };

@@ -14,7 +14,7 @@
  */
 import os from 'node:os';
 import { Worker } from 'node:worker_threads';
-import { ApiError } from '../http/errors';
+import { DomainError } from './errors';
 import type { AnalysisJob, JobOutcome } from './analysis-jobs';
 import { errorSummary, log } from '../http/logger';
 
@@ -49,18 +49,18 @@ export const DEFAULT_POOL = {
 const RETRY_AFTER_SECONDS = 2;
 const MAX_BOOT_FAILURES = 3;
 
-export function busyError(maxQueued: number): ApiError {
-  return new ApiError(
-    503,
+export function busyError(maxQueued: number): DomainError {
+  return new DomainError(
+    'unavailable',
     'busy',
     `The server is analysing ${maxQueued} other diagrams already. Try again in a few seconds.`,
     { retryAfterSeconds: RETRY_AFTER_SECONDS },
-    { 'Retry-After': String(RETRY_AFTER_SECONDS) },
+    RETRY_AFTER_SECONDS,
   );
 }
 
-export function timeoutError(timeoutMs: number): ApiError {
-  return new ApiError(504, 'analysis_timeout', `The analysis took longer than the server's limit of ${Math.round(timeoutMs / 1000)} s and was stopped. Split the diagram or simplify it, then retry.`, {
+export function timeoutError(timeoutMs: number): DomainError {
+  return new DomainError('timeout', 'analysis_timeout', `The analysis took longer than the server's limit of ${Math.round(timeoutMs / 1000)} s and was stopped. Split the diagram or simplify it, then retry.`, {
     timeoutSeconds: timeoutMs / 1000,
   });
 }
@@ -123,7 +123,7 @@ export function createAnalysisPool(options: AnalysisPoolOptions = {}) {
       if (!q) return;
       finish(slot);
       if (msg.outcome) q.resolve(msg.outcome);
-      else q.reject(new ApiError(500, 'analysis_failed', 'The analysis failed on the server.', undefined));
+      else q.reject(new DomainError('failed', 'analysis_failed', 'The analysis failed on the server.'));
       if (msg.error) log().error({ event: 'analysis.job_failed' }, 'analysis job failed');
     });
     const gone = (why: string) => {
@@ -136,7 +136,7 @@ export function createAnalysisPool(options: AnalysisPoolOptions = {}) {
         log().error({ event: 'analysis.inline' }, 'analysis workers do not start; analysing inline on the request thread');
         inline = true;
       }
-      q?.reject(new ApiError(500, 'analysis_failed', 'The analysis stopped on the server. Try again.'));
+      q?.reject(new DomainError('failed', 'analysis_failed', 'The analysis stopped on the server. Try again.'));
       replace(slot);
     };
     worker.on('error', (err) => gone(err.message));
@@ -179,7 +179,7 @@ export function createAnalysisPool(options: AnalysisPoolOptions = {}) {
     timeoutMs,
     /** Runs a job in a worker; rejects with 503 busy when `maxQueued` jobs are already waiting. */
     run(job: AnalysisJob): Promise<JobOutcome> {
-      if (closed) return Promise.reject(new ApiError(503, 'busy', 'The server is stopping.'));
+      if (closed) return Promise.reject(new DomainError('unavailable', 'busy', 'The server is stopping.'));
       const idle = slots.some((s) => s.ready && s.job === null) || (slots.length < size && !inline);
       if (queue.length >= maxQueued && !idle) {
         return Promise.reject(busyError(maxQueued));
@@ -199,7 +199,7 @@ export function createAnalysisPool(options: AnalysisPoolOptions = {}) {
     },
     async close() {
       closed = true;
-      for (const q of queue.splice(0)) q.reject(new ApiError(503, 'busy', 'The server is stopping.'));
+      for (const q of queue.splice(0)) q.reject(new DomainError('unavailable', 'busy', 'The server is stopping.'));
       await Promise.all(slots.splice(0).map((s) => s.worker.terminate().catch(() => {})));
     },
   };

@@ -26,7 +26,13 @@ export type DomainErrorKind =
   /** Too many attempts in the window; `retryAfter_s` says when to try again. */
   | 'rate_limited'
   /** A service this one depends on (the mail relay) failed; nothing was changed. */
-  | 'upstream_failed';
+  | 'upstream_failed'
+  /** The server cannot take the work now (queue full, stopping); `retryAfter_s` when known. */
+  | 'unavailable'
+  /** The work ran past the server's time limit and was stopped. */
+  | 'timeout'
+  /** The work failed on the server's side (not the caller's input). */
+  | 'failed';
 
 export class DomainError extends Error {
   constructor(
