@@ -50,11 +50,6 @@ export default tseslint.config(
     rules: { '@typescript-eslint/no-explicit-any': 'off' },
   },
   {
-    // TODO(decision 016): unused names in files under the import-cycle rework; drop this entry when they are fixed.
-    files: ['server/services/upload-checks.ts', 'shared/electrical/rules/protection.ts'],
-    rules: { '@typescript-eslint/no-unused-vars': 'warn' },
-  },
-  {
     files: ['src/**/*.{ts,tsx}'],
     plugins: { 'react-hooks': reactHooks },
     languageOptions: { globals: { ...globals.browser } },

@@ -9,7 +9,6 @@ import { imageSize } from 'image-size';
 import { UPLOAD_LIMITS, UPLOAD_TYPES, type UploadContentType } from '../../shared/schemas/uploads';
 import { DomainError, unprocessable } from './errors';
 
-const startsWith = (b: Uint8Array, magic: number[], at = 0) => magic.every((v, i) => b[at + i] === v);
 
 /**
  * Containers file-type would open to look inside (it inflates ZIP entries and gzip streams to tell
@@ -110,7 +109,6 @@ export async function sniffUpload(bytes: Uint8Array): Promise<SniffedFile> {
   return { contentType, ext, width, height };
 }
 
-/* eslint-disable no-control-regex */
 const CONTROL = /[\u0000-\u001f\u007f-\u009f\u200b-\u200f\u202a-\u202e\u2066-\u2069\ufeff]/g;
 /** Reserved on Windows, macOS or in URLs and headers. */
 const RESERVED = /[<>:"/\\|?*;%#\u0060]/g;

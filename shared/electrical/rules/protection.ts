@@ -12,7 +12,7 @@ import type { Finding } from '../analysis/types';
 import { PART_TYPES } from '../parts/registry';
 import { nextStandardRating } from '../tables/fuses';
 import { sizeLabel } from '../../units/format';
-import { amps, cap, list, membersOf, mmAndIn, name } from './helpers';
+import { amps, cap, list, mmAndIn, name } from './helpers';
 import type { Rule, RuleInput } from './registry';
 
 // --- Connectivity ---------------------------------------------------------------------------------------
