@@ -11,7 +11,10 @@
 import { type DiagramDocument, diagramSchema } from '../document/schema';
 import { cableRunDefaults } from '../parts/cable';
 import { type FuseProps, fuseDefaults } from '../parts/passive';
-import { POST_LINK_LENGTH_M, type BranchSizing } from './suggest';
+import type { BranchSizing } from './suggest';
+
+/** Length assumed for the conductor from a battery post to a fuse the sizing adds there, m. */
+export const POST_LINK_LENGTH_M = 0.1;
 
 /** Fuse terminals named for what they face. */
 export const FUSE_BATTERY_SIDE = 'a';

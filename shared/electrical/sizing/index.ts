@@ -4,9 +4,9 @@
  * the design worse (check.ts, plan.ts). Suggestions are a starting point, not an approval to install.
  */
 export {
-  type BranchSizing, type SizingOptions, type SizingResult, POST_LINK_LENGTH_M, bankMaxVoltage_V, candidateConductors,
+  type BranchSizing, type SizingOptions, type SizingResult, bankMaxVoltage_V, candidateConductors,
   sizingChanges, suggestSizing,
 } from './suggest';
-export { FUSE_BANK_SIDE, FUSE_BATTERY_SIDE, applySizing } from './apply';
+export { FUSE_BANK_SIDE, FUSE_BATTERY_SIDE, POST_LINK_LENGTH_M, applySizing } from './apply';
 export { type DesignCheck, type LoadingChange, type ShareChange, checkChange } from './check';
 export { type SizingPlan, type SizingWithPlan, applySafeSizing, planSizing, sizeDiagram } from './plan';

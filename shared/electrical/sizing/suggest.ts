@@ -32,9 +32,8 @@ import { batteryShortCircuit_A, stringMembers } from '../parts/battery';
 import { type CableRunProps, cableRunConductorResistance_ohm, cableRunDefaults, cableTemperature_C } from '../parts/cable';
 import { FUSE_CLASSES, type FuseClassId, STANDARD_FUSE_RATINGS_A, classListsRating } from '../tables/fuses';
 import { batteryOcv_V } from '../parts/battery';
+import { POST_LINK_LENGTH_M, applySizing } from './apply';
 
-/** Length assumed for the conductor from a battery post to a fuse the sizing adds there, m. */
-export const POST_LINK_LENGTH_M = 0.1;
 
 export interface BranchSizing {
   /** The battery or series-string part. */
@@ -141,8 +140,49 @@ function nMinusOne(ctx: AnalysisContext, prep: PreparedNetwork): Map<string, { c
 
 const ratingLabel = (a: number) => `${a} A`;
 
-/** Sizing suggestions for every battery / string branch of a diagram. */
+/** Rounds of sizing on the sized design before the suggestions settle (cable and fuse changes move the shares). */
+const SETTLE_ROUNDS = 3;
+
+/**
+ * Sizing suggestions for every battery / string branch of a diagram. Sizing changes the design it is
+ * computed on (a larger cable takes more of the load; a new fuse adds resistance), so the suggestions are
+ * computed again on the sized design until they ask for nothing more (at most SETTLE_ROUNDS rounds): what
+ * is offered is the settled design, and sizing it again suggests no further change.
+ */
 export function suggestSizing(doc: DiagramDocument, options: SizingOptions = {}): SizingResult {
+  const first = suggestOnce(doc, options);
+  if (!first.ok) return first;
+  let cur = doc;
+  let res = first;
+  for (let round = 0; round < SETTLE_ROUNDS; round++) {
+    if (!res.branches.some((b) => sizingChanges(b, cur))) break;
+    const next = applySizing(cur, res.branches);
+    const again = suggestOnce(next, options);
+    if (!again.ok) break;
+    cur = next;
+    res = again;
+  }
+  if (cur === doc) return first;
+  // The settled ratings and conductors, expressed against the document as it is drawn.
+  return {
+    ok: true,
+    branches: first.branches.map((b0) => {
+      const bk = res.branches.find((x) => x.source === b0.source);
+      if (!bk || b0.status !== 'ok' || bk.status !== 'ok') return b0;
+      const size = (id: string) => cur.cables.find((c) => c.id === id)?.props.conductor;
+      const link = cur.cables.find((c) => c.from.part === b0.source && c.from.terminal === 'pos');
+      return {
+        ...bk,
+        fuse: { ...bk.fuse, part: b0.fuse.part, present_A: b0.fuse.present_A, presentClass: b0.fuse.presentClass },
+        cables: b0.cables.map((c) => ({ ...c, conductor: size(c.id) ?? c.conductor })),
+        linkConductor: b0.fuse.part ? b0.linkConductor : link?.props.conductor ?? b0.linkConductor,
+      };
+    }),
+  };
+}
+
+/** One round of sizing on `doc` as it stands. */
+function suggestOnce(doc: DiagramDocument, options: SizingOptions): SizingResult {
   const built = buildContext(doc);
   if (!built.ok) return { ok: false, errors: built.errors };
   const ctx = built.ctx;

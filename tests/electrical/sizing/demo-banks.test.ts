@@ -30,6 +30,10 @@ describe('Apply all on the demo diagrams and templates', () => {
         const now = errorKeys(after);
         expect(now.length).toBeLessThanOrEqual(before.length);
         for (const id of now) expect(before, `new error ${id}`).toContain(id);
+        // Settled: sizing the sized design asks for nothing more (no second "Apply all").
+        const again = sizeDiagram(after, { unitSystem });
+        if (!again.ok) throw new Error('sizing the sized design failed');
+        expect(again.plan.pending, `${unitSystem}: still to change after Apply all`).toEqual([]);
       }
     });
   }

@@ -31,8 +31,8 @@ describe('fuse and cable sizing', () => {
     const r = suggestSizing(branch(80));
     if (!r.ok) throw new Error('sizing failed');
     const b = r.branches[0];
-    expect(b.share_A).toBeCloseTo(80, 9);
-    expect(b.required_A).toBeCloseTo(100, 9);
+    expect(b.share_A).toBeCloseTo(80, 6);
+    expect(b.required_A).toBeCloseTo(100, 6); // the settled design is solved again: agreement to the solver's tolerance
     expect(b.fuse).toMatchObject({ part: 'f1', rating_A: 100, present_A: 300 });
     expect(b.cables.map((c) => c.id).sort()).toEqual(['c1', 'c2', 'c3']);
     expect(b.minimumConductor).toEqual({ system: 'awg', size: '2' });
