@@ -331,5 +331,5 @@ export function sizingChanges(b: BranchSizing, doc: DiagramDocument): boolean {
   if (b.status !== 'ok') return false;
   const part = b.fuse.part ? doc.parts.find((p) => p.id === b.fuse.part) : undefined;
   const fuse = !part || part.type !== 'fuse' || part.props.rating_A !== b.fuse.rating_A || part.props.fuseClass !== b.fuse.fuseClass;
-  return fuse || b.cables.some((c) => JSON.stringify(c.conductor) !== JSON.stringify(c.present));
+  return fuse || b.cables.some((c) => c.conductor.system !== c.present.system || c.conductor.size !== c.present.size);
 }

@@ -7,8 +7,7 @@
  * instead. Each apply is ONE undoable edit.
  */
 import { useState } from 'react';
-import type { DiagramDocument } from '@shared/diagram';
-import type { BranchSizing, DesignCheck, SizingWithPlan } from '@shared/electrical/sizing';
+import { sizingChanges, type BranchSizing, type DesignCheck, type SizingWithPlan } from '@shared/electrical/sizing';
 import { FUSE_CLASSES } from '@shared/electrical/tables/fuses';
 import { formatConductor, type ConductorSize, type UnitSystem } from '@shared/units';
 import { Button } from '@/components/Button';
@@ -22,13 +21,6 @@ import { fmtA, fmtPct } from './ui';
 
 const conductorText = (c: ConductorSize, system: UnitSystem) => formatConductor(c, system).text;
 
-/** Whether applying the suggestion would change the diagram. */
-export function sizingChanges(b: BranchSizing, doc: DiagramDocument): boolean {
-  if (b.status !== 'ok') return false;
-  const part = b.fuse.part ? doc.parts.find((p) => p.id === b.fuse.part) : undefined;
-  const fuse = !part || part.type !== 'fuse' || part.props.rating_A !== b.fuse.rating_A || part.props.fuseClass !== b.fuse.fuseClass;
-  return fuse || b.cables.some((c) => !sameJson(c.conductor, c.present));
-}
 
 export type ApplyOutcome = { applied: true } | { applied: false; reasons: string[] };
 
